@@ -1,0 +1,195 @@
+"""Displacements by the unit-load method, and deflected shapes.
+
+A unit load (or couple) is put on the *released* structure at the wanted point and
+direction (any statically admissible state will do — the reduction theorem); the
+displacement is the virtual work of its internal forces on the real deformations,
+
+    Delta = s_u . (F s + e) - r_u . c  (+ the in-span terms of a load inside a member),
+
+where s are the final basic forces, e the initial deformations (span loads, temperature,
+misfit), c the support settlements and r_u the released structure's reactions to the unit
+load. Deflected shapes of members are integrated from the end displacements and the
+curvature m/EI + alpha*dTgrad/h, which is the same physics written kinematically.
+"""
+
+from __future__ import annotations
+
+import re
+from dataclasses import dataclass
+
+import numpy as np
+from numpy.polynomial import polynomial as P
+
+from .errors import CaseError
+from .fields import gauss_integral, particular_fields
+from .model import Structure
+
+__all__ = ["Target", "parse_target", "evaluate_target", "member_shape"]
+
+_NODE_DIR = re.compile(r"^([A-Za-z0-9_]+)\.(x|y|rz)$")
+_MEMBER_AT = re.compile(r"^([A-Za-z0-9_]+)@([^.]+(?:\.[0-9]+)?(?:[eE][-+]?[0-9]+)?)\.(x|y)$")
+_PAIR = re.compile(r"^([A-Za-z0-9_]+)-([A-Za-z0-9_]+)$")
+
+
+@dataclass(frozen=True)
+class Target:
+    kind: str  #: "node", "member" or "pair"
+    a: str
+    b: str = ""
+    direction: str = ""
+    at: float = 0.0  #: m, for member points
+
+
+def parse_target(st: Structure, topo, text: str, where: str) -> Target:
+    """Read ``NODE.x|y|rz``, ``MEMBER@DISTANCE.x|y`` or ``NODE1-NODE2``."""
+    m = _NODE_DIR.match(text)
+    if m:
+        node, d = m.groups()
+        if node not in st.nodes:
+            raise CaseError(f'"{text}": unknown node "{node}"', source=st.source, where=where)
+        if f"{node}.{d}" not in topo.dof_index:
+            raise CaseError(f'"{text}": node {node} has no rotation of its own (every member '
+                            "end there is hinged); ask for a member end instead",
+                            source=st.source, where=where)
+        return Target("node", node, direction=d)
+    m = _MEMBER_AT.match(text)
+    if m:
+        mid, dist, d = m.groups()
+        if mid not in st.members:
+            raise CaseError(f'"{text}": unknown member "{mid}"', source=st.source, where=where)
+        try:
+            at = float(dist) * st.units.factor("length")
+        except ValueError:
+            raise CaseError(f'"{text}": distance "{dist}" is not a number (in '
+                            f"{st.units.length})", source=st.source, where=where) from None
+        L = st.length(mid)
+        if not 0.0 <= at <= L * (1 + 1e-12):
+            raise CaseError(f'"{text}": distance is off the member (length '
+                            f"{L / st.units.factor('length'):g} {st.units.length})",
+                            source=st.source, where=where)
+        return Target("member", mid, direction=d, at=min(at, L))
+    m = _PAIR.match(text)
+    if m:
+        a, b = m.groups()
+        for n in (a, b):
+            if n not in st.nodes:
+                raise CaseError(f'"{text}": unknown node "{n}"', source=st.source, where=where)
+        if a == b:
+            raise CaseError(f'"{text}": two different nodes are needed', source=st.source,
+                            where=where)
+        return Target("pair", a, b)
+    raise CaseError(f'cannot read displacement target "{text}"; expected NODE.x, NODE.y, '
+                    "NODE.rz, MEMBER@DISTANCE.y (or .x) or NODE1-NODE2", source=st.source,
+                    where=where)
+
+
+def evaluate_target(st: Structure, topo, res, text: str, where: str = "[analysis] "
+                    "displacements") -> float:
+    """The displacement named ``text`` in case ``res`` (SI: m or rad)."""
+    t = parse_target(st, topo, text, where)
+    u = res.nodal_displacements
+    di = topo.dof_index
+    if t.kind == "node":
+        return float(u[di[f"{t.a}.{t.direction}"]])
+    if t.kind == "pair":
+        na, nb = st.nodes[t.a], st.nodes[t.b]
+        dx, dy = nb.x - na.x, nb.y - na.y
+        L = float(np.hypot(dx, dy))
+        du = u[di[f"{t.b}.x"]] - u[di[f"{t.a}.x"]]
+        dv = u[di[f"{t.b}.y"]] - u[di[f"{t.a}.y"]]
+        return float((du * dx + dv * dy) / L)
+    return member_point_displacement(st, topo, res, t.a, t.at, t.direction)
+
+
+def member_point_displacement(st: Structure, topo, res, mid: str, at: float,
+                              direction: str) -> float:
+    """Global x or y displacement of the point ``at`` m along member ``mid`` by a unit
+    load there on the released structure."""
+    released = res.released if hasattr(res, "released") and res.released else None
+    if released is None:
+        raise RuntimeError("case result has no released structure attached")
+    L = st.length(mid)
+    fx, fy = (1.0, 0.0) if direction == "x" else (0.0, 1.0)
+    mem = st.members[mid]
+    p = np.zeros(len(topo.dofs))
+    di = topo.dof_index
+    tol = 1e-12 * max(L, 1.0)
+    pf = None
+    if at <= tol or at >= L - tol:
+        node = mem.start if at <= tol else mem.end
+        p[di[f"{node}.x"]] += fx
+        p[di[f"{node}.y"]] += fy
+    else:
+        pf = particular_fields(L, st.direction(mid), [(at, fx, fy, 0.0)], [])
+        p[di[f"{mem.start}.x"]] += pf.start_force[0]
+        p[di[f"{mem.start}.y"]] += pf.start_force[1]
+        p[di[f"{mem.end}.x"]] += pf.end_force[0]
+        p[di[f"{mem.end}.y"]] += pf.end_force[1]
+    s_u = released.forces(p)[:, 0]
+    d = res.deformations
+    value = float(s_u @ (d - res.loading.settlement))
+    if pf is not None:
+        mr = res.members[mid]
+        eps, kappa, misfit = res.loading.imposed.get(mid, (0.0, 0.0, 0.0))
+        brk = np.union1d(pf.m.breaks, mr.m.breaks)
+        if mem.EA is not None or eps or misfit:
+            value += gauss_integral(brk, lambda x: pf.n(x) * (
+                (mr.n(x) / mem.EA if mem.EA is not None else 0.0) + eps + misfit / L))
+        if mem.is_beam:
+            value += gauss_integral(brk, lambda x: pf.m(x) * (mr.m(x) / mem.EI + kappa))
+            if st.shear and mem.GAs:
+                value += gauss_integral(brk, lambda x: pf.v(x) * mr.v(x) / mem.GAs)
+    return value
+
+
+def member_shape(st: Structure, topo, res, mid: str, samples: int = 41):
+    """Deflected shape of a member: positions x (m), and global displacements (ux, uy) (m)
+    at ``samples`` points plus every break, from the end displacements and the curvature.
+
+    Returns (x, ux, uy, w) where w is the displacement along local y.
+    """
+    mem = st.members[mid]
+    mr = res.members[mid]
+    L = mr.length
+    c, s = st.direction(mid)
+    u = res.nodal_displacements
+    di = topo.dof_index
+    us = np.array([u[di[f"{mem.start}.x"]], u[di[f"{mem.start}.y"]]])
+    ue = np.array([u[di[f"{mem.end}.x"]], u[di[f"{mem.end}.y"]]])
+    ex, ey = np.array([c, s]), np.array([-s, c])
+    eps, kappa_t, misfit = res.loading.imposed.get(mid, (0.0, 0.0, 0.0))
+    breaks = mr.m.breaks
+    xs = np.union1d(np.linspace(0.0, L, samples), breaks)
+    w_rel = np.zeros_like(xs)  # K(x) - Gamma(x): deflection from curvature/shear with w(0)=w'(0)=0
+    ua_rel = np.zeros_like(xs)
+    if mem.is_beam:
+        slope0 = 0.0
+        w0 = 0.0
+        for k, (a, b, coef) in enumerate(mr.m.pieces()):
+            kap = coef / mem.EI
+            kap = P.polyadd(kap, [kappa_t])
+            slope = P.polyadd(P.polyint(kap, lbnd=a), [slope0])
+            if st.shear and mem.GAs:
+                gam = mr.v.coef[k] / mem.GAs
+                wpoly = P.polyadd(P.polyint(P.polysub(slope, gam), lbnd=a), [w0])
+            else:
+                wpoly = P.polyadd(P.polyint(slope, lbnd=a), [w0])
+            sel = (xs >= a) & (xs <= b)
+            w_rel[sel] = P.polyval(xs[sel], wpoly)
+            slope0 = P.polyval(b, slope)
+            w0 = P.polyval(b, wpoly)
+    strain_n = 0.0
+    for a, b, coef in mr.n.pieces():
+        npoly = coef / mem.EA if mem.EA is not None else np.zeros(1)
+        npoly = P.polyadd(npoly, [eps + misfit / L])
+        upoly = P.polyint(npoly, lbnd=a)
+        sel = (xs >= a) & (xs <= b)
+        ua_rel[sel] = strain_n + P.polyval(xs[sel], upoly)
+        strain_n += P.polyval(b, upoly)
+    ws, we = us @ ey, ue @ ey
+    theta = (we - ws - w_rel[-1]) / L
+    w = ws + theta * xs + w_rel
+    ua = us @ ex + ua_rel
+    ux = ua * ex[0] + w * ey[0]
+    uy = ua * ex[1] + w * ey[1]
+    return xs, ux, uy, w

@@ -1,0 +1,65 @@
+"""The small exception hierarchy of leastwork.
+
+Every error the user can cause is a :class:`CaseError` (exit status 2 at the command line);
+an unstable structure or released structure is a :class:`MechanismError` (exit status 3).
+Messages name the file, the table and key or id, and what was expected.
+"""
+
+from __future__ import annotations
+
+__all__ = ["LeastworkError", "CaseError", "MechanismError"]
+
+
+class LeastworkError(Exception):
+    """Base class of every error leastwork raises on purpose."""
+
+
+class CaseError(ValueError, LeastworkError):
+    """The case file or the command line is wrong.
+
+    Parameters
+    ----------
+    message : str
+        What is wrong and what was expected.
+    source : str, optional
+        The file (or ``<string>``/``command line``) the error is in.
+    where : str, optional
+        The table and key or id, e.g. ``"[beams] AB.nodes"``.
+    """
+
+    def __init__(self, message: str, source: str | None = None, where: str | None = None):
+        super().__init__(message)
+        self.message = message
+        self.source = source
+        self.where = where
+
+    def __str__(self) -> str:
+        parts = []
+        if self.source:
+            parts.append(self.source)
+        if self.where:
+            parts.append(self.where)
+        prefix = ": ".join(parts)
+        return f"{prefix}: {self.message}" if prefix else self.message
+
+
+class MechanismError(LeastworkError):
+    """The structure, or the released structure left by a choice of redundants, can move.
+
+    Parameters
+    ----------
+    message : str
+        Plain statement of what is unstable.
+    motions : list of str
+        The nodes and directions that take part in the mechanism, e.g. ``["C.x", "D.x"]``.
+    """
+
+    def __init__(self, message: str, motions: list[str] | None = None):
+        super().__init__(message)
+        self.message = message
+        self.motions = list(motions or [])
+
+    def __str__(self) -> str:
+        if self.motions:
+            return f"{self.message} Free motion: {', '.join(self.motions)}."
+        return self.message

@@ -1,0 +1,175 @@
+"""Section-force fields along a member as exact piecewise polynomials.
+
+A member's span loads act on it as on a simply supported member: pinned at the start node
+(taking the axial component), on a roller along the member axis at the end node. The
+resulting *particular* fields n0(x), v0(x), m0(x) vanish at the ends for m; the end forces
+they need are passed to the nodes as equivalent nodal loads.
+
+Signs (docs/conventions.md): n tension positive; m positive when the local -y face is in
+tension; v = dm/dx. With q_y the load per length in local +y: dv/dx = q_y; a concentrated
+local force P_y makes v jump by +P_y; a counter-clockwise couple M makes m jump by -M; an
+axial load per length q_x gives dn/dx = -q_x.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+from numpy.polynomial import polynomial as P
+
+__all__ = ["Piecewise", "ParticularFields", "particular_fields", "gauss_integral"]
+
+_DEG = 5  # storage degree: cubic moments from linearly varying loads, with room to spare
+
+
+@dataclass(frozen=True)
+class Piecewise:
+    """A piecewise polynomial on ``breaks`` (k+1 increasing positions, m).
+
+    ``coef[k]`` holds ascending-power coefficients in the absolute position x on
+    piece k, i.e. f(x) = sum_j coef[k, j] * x**j for breaks[k] <= x <= breaks[k+1].
+    """
+
+    breaks: np.ndarray
+    coef: np.ndarray
+
+    def __call__(self, x, side: str = "right") -> np.ndarray:
+        """Values at ``x``; at a break, ``side`` picks the piece to the right or left."""
+        x = np.asarray(x, dtype=float)
+        k = np.searchsorted(self.breaks, x, side="right" if side == "right" else "left") - 1
+        k = np.clip(k, 0, len(self.breaks) - 2)
+        return P.polyval(x, self.coef[k].T, tensor=False)
+
+    def pieces(self):
+        for k in range(len(self.breaks) - 1):
+            yield self.breaks[k], self.breaks[k + 1], self.coef[k]
+
+    @staticmethod
+    def zero(length: float) -> Piecewise:
+        return Piecewise(np.array([0.0, length]), np.zeros((1, _DEG + 1)))
+
+
+@dataclass(frozen=True)
+class ParticularFields:
+    """The fields of a member's span loads on its simply supported analogue.
+
+    ``start_force``/``end_force`` are the forces (global x, y) the member passes to its start
+    and end nodes; the moment it passes is zero.
+    """
+
+    n: Piecewise
+    v: Piecewise
+    m: Piecewise
+    start_force: tuple[float, float]
+    end_force: tuple[float, float]
+
+
+def _pad(c) -> np.ndarray:
+    c = np.atleast_1d(np.asarray(c, dtype=float))
+    out = np.zeros(_DEG + 1)
+    out[: min(len(c), _DEG + 1)] = c[: _DEG + 1]
+    return out
+
+
+def particular_fields(length: float, ex: tuple[float, float], point_loads, dist_loads):
+    """Particular fields of one member.
+
+    Parameters
+    ----------
+    length : float
+        Member length, m.
+    ex : (float, float)
+        Unit vector of local x in global axes.
+    point_loads : iterable of (at, fx, fy, mz)
+        Global force components (N) and counter-clockwise couple (N*m) at ``at`` (m),
+        with 0 < at < length.
+    dist_loads : iterable of (start, end, (wx0, wx1), (wy0, wy1))
+        Global intensities per unit member length (N/m), linear from ``start`` to ``end``.
+
+    Returns
+    -------
+    ParticularFields
+    """
+    c, s = ex
+    L = float(length)
+    pts = [(float(a), fx * c + fy * s, -fx * s + fy * c, mz) for a, fx, fy, mz in point_loads]
+    dls = []
+    for a, b, (wx0, wx1), (wy0, wy1) in dist_loads:
+        qx0, qx1 = wx0 * c + wy0 * s, wx1 * c + wy1 * s
+        qy0, qy1 = -wx0 * s + wy0 * c, -wx1 * s + wy1 * c
+        dls.append((float(a), float(b), (qx0, qx1), (qy0, qy1)))
+    breaks = sorted({0.0, L, *[p[0] for p in pts], *[d[0] for d in dls], *[d[1] for d in dls]})
+    breaks = np.array(_merge_close(breaks, 1e-12 * max(L, 1.0)))
+    breaks[0], breaks[-1] = 0.0, L
+    nk = len(breaks) - 1
+    cn = np.zeros((nk, _DEG + 1))
+    cv = np.zeros((nk, _DEG + 1))
+    cm = np.zeros((nk, _DEG + 1))
+    n_left = v_left = m_left = 0.0
+    tol = 1e-12 * max(L, 1.0)
+    for k in range(nk):
+        x0, x1 = breaks[k], breaks[k + 1]
+        # jumps at x0 from concentrated loads
+        for a, px, py, mz in pts:
+            if abs(a - x0) <= tol:
+                n_left -= px
+                v_left += py
+                m_left -= mz
+        qx = np.zeros(2)
+        qy = np.zeros(2)
+        for a, b, (qx0, qx1), (qy0, qy1) in dls:
+            if a - tol <= x0 and x1 <= b + tol:
+                qx += _line(a, b, qx0, qx1)
+                qy += _line(a, b, qy0, qy1)
+        # v(x) = v_left + int_{x0}^{x} qy ; m(x) = m_left + int_{x0}^{x} v ; n = n_left - int qx
+        v_poly = P.polyadd([v_left], P.polyint(qy, lbnd=x0))
+        m_poly = P.polyadd([m_left], P.polyint(v_poly, lbnd=x0))
+        n_poly = P.polysub([n_left], P.polyint(qx, lbnd=x0))
+        cv[k], cm[k], cn[k] = _pad(v_poly), _pad(m_poly), _pad(n_poly)
+        n_left = P.polyval(x1, n_poly)
+        v_left = P.polyval(x1, v_poly)
+        m_left = P.polyval(x1, m_poly)
+    # simple-support conditions: m(L) = 0 (end reaction transverse), n(L) = 0 (roller)
+    r_start = -m_left / L
+    cm[:, 0] += 0.0
+    cm[:, 1] += r_start
+    cv[:, 0] += r_start
+    cn[:, 0] -= n_left
+    n_pw, v_pw, m_pw = Piecewise(breaks, cn), Piecewise(breaks, cv), Piecewise(breaks, cm)
+    n0, v0 = float(n_pw(0.0)), float(v_pw(0.0))
+    nL, vL = float(n_pw(L, side="left")), float(v_pw(L, side="left"))
+    ey = (-s, c)
+    # forces the member passes to its nodes: start n(0) ex - v(0) ey ; end -n(L) ex + v(L) ey
+    start = (n0 * c - v0 * ey[0], n0 * s - v0 * ey[1])
+    end = (-nL * c + vL * ey[0], -nL * s + vL * ey[1])
+    return ParticularFields(n_pw, v_pw, m_pw, start, end)
+
+
+def _line(a: float, b: float, f0: float, f1: float) -> np.ndarray:
+    """Ascending coefficients of the line through (a, f0) and (b, f1)."""
+    slope = (f1 - f0) / (b - a)
+    return np.array([f0 - slope * a, slope])
+
+
+def _merge_close(values, tol):
+    out: list[float] = []
+    for v in values:
+        if not out or v - out[-1] > tol:
+            out.append(v)
+    return out
+
+
+_GL_X, _GL_W = np.polynomial.legendre.leggauss(6)  # exact to degree 11
+
+
+def gauss_integral(breaks: np.ndarray, func) -> float:
+    """Integral of ``func(x)`` over [breaks[0], breaks[-1]], exact for piecewise
+    polynomials of degree <= 11 whose breaks are among ``breaks``."""
+    total = 0.0
+    for a, b in zip(breaks[:-1], breaks[1:], strict=True):
+        if b <= a:
+            continue
+        x = 0.5 * (b - a) * _GL_X + 0.5 * (a + b)
+        total += 0.5 * (b - a) * float(np.dot(_GL_W, func(x)))
+    return total

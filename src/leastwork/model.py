@@ -1,0 +1,223 @@
+"""The data of a structure: nodes, members, supports and loads.
+
+All values are in SI base units (N, m, rad, K); the case's own units are kept in
+:class:`Structure.units` for reporting only. Frozen dataclasses, checked once when read.
+
+Sign conventions (see docs/conventions.md): global x right, y up, rz counter-clockwise;
+member local x from the start node to the end node, local y is local x turned 90 degrees
+counter-clockwise.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+from typing import Literal
+
+from .units import UnitSystem
+
+__all__ = [
+    "Node",
+    "Member",
+    "Restraint",
+    "Support",
+    "NodalLoad",
+    "PointLoad",
+    "DistributedLoad",
+    "TemperatureLoad",
+    "Misfit",
+    "Settlement",
+    "Load",
+    "Structure",
+    "DEFAULT_CASE",
+]
+
+#: Name of the load case of loads that do not name one.
+DEFAULT_CASE = "default"
+
+
+@dataclass(frozen=True)
+class Node:
+    """A joint. ``x``, ``y`` in m."""
+
+    id: str
+    x: float
+    y: float
+
+
+@dataclass(frozen=True)
+class Member:
+    """A beam (bending + axial) or a bar (pin-ended, axial force only).
+
+    Attributes
+    ----------
+    EA : float or None
+        Axial stiffness, N. ``None`` for an axially rigid beam (no axial energy).
+    EI : float or None
+        Flexural stiffness, N*m^2 (beams only).
+    GAs : float or None
+        Shear stiffness G*shear_area, N (beams; used only when shear energy is asked).
+    alpha : float or None
+        Coefficient of thermal expansion, 1/K.
+    depth : float or None
+        Section depth, m (for a temperature gradient).
+    hinge_start, hinge_end : bool
+        Moment released at that end (beams).
+    """
+
+    id: str
+    kind: Literal["beam", "bar"]
+    start: str
+    end: str
+    EA: float | None = None
+    EI: float | None = None
+    GAs: float | None = None
+    alpha: float | None = None
+    depth: float | None = None
+    hinge_start: bool = False
+    hinge_end: bool = False
+
+    @property
+    def is_beam(self) -> bool:
+        return self.kind == "beam"
+
+
+@dataclass(frozen=True)
+class Restraint:
+    """One reaction component of a support.
+
+    ``vector`` is the unit direction (x, y, rz) along which the support acts on the node;
+    ``stiffness`` is ``None`` for a rigid restraint, else the spring stiffness (N/m, or
+    N*m/rad for rz).
+    """
+
+    node: str
+    direction: str  #: "x", "y", "rz" or "n" (normal of an inclined roller)
+    vector: tuple[float, float, float]
+    stiffness: float | None = None
+
+    @property
+    def name(self) -> str:
+        return f"{self.node}.{self.direction}"
+
+    @property
+    def is_spring(self) -> bool:
+        return self.stiffness is not None
+
+
+@dataclass(frozen=True)
+class Support:
+    """The restraints at one node. ``surface_angle`` (rad) for an inclined roller."""
+
+    node: str
+    restraints: tuple[Restraint, ...]
+    surface_angle: float | None = None
+
+
+@dataclass(frozen=True)
+class NodalLoad:
+    """Force (N) and moment (N*m) on a node, global components."""
+
+    node: str
+    fx: float = 0.0
+    fy: float = 0.0
+    mz: float = 0.0
+    case: str = DEFAULT_CASE
+
+
+@dataclass(frozen=True)
+class PointLoad:
+    """Concentrated force/moment on a member at ``at`` m from its start, global components."""
+
+    member: str
+    at: float
+    fx: float = 0.0
+    fy: float = 0.0
+    mz: float = 0.0
+    case: str = DEFAULT_CASE
+
+
+@dataclass(frozen=True)
+class DistributedLoad:
+    """Distributed load per unit member length (N/m), global components, linear from
+    ``start`` to ``end`` (m from the member's start node): values ``wx``/``wy`` are
+    (value at start, value at end)."""
+
+    member: str
+    wx: tuple[float, float] = (0.0, 0.0)
+    wy: tuple[float, float] = (0.0, 0.0)
+    start: float = 0.0
+    end: float = math.nan  #: nan means the member's end
+    case: str = DEFAULT_CASE
+
+
+@dataclass(frozen=True)
+class TemperatureLoad:
+    """Change of mean temperature ``uniform`` (K) and ``gradient`` (K): temperature of the
+    local -y face minus that of the local +y face."""
+
+    member: str
+    uniform: float = 0.0
+    gradient: float = 0.0
+    case: str = DEFAULT_CASE
+
+
+@dataclass(frozen=True)
+class Misfit:
+    """Fabricated length minus the distance between the member's nodes (m)."""
+
+    member: str
+    elongation: float
+    case: str = DEFAULT_CASE
+
+
+@dataclass(frozen=True)
+class Settlement:
+    """Imposed displacement of a support: ``dx``, ``dy`` (m), ``drz`` (rad); ``None`` where
+    not imposed. ``dn`` for the normal of an inclined roller."""
+
+    node: str
+    values: tuple[tuple[str, float], ...]  #: (direction, value) pairs
+    case: str = DEFAULT_CASE
+
+
+Load = NodalLoad | PointLoad | DistributedLoad | TemperatureLoad | Misfit | Settlement
+
+
+@dataclass(frozen=True)
+class Structure:
+    """A whole case: geometry, members, supports, loads and analysis options (SI units)."""
+
+    name: str
+    nodes: dict[str, Node]
+    members: dict[str, Member]
+    supports: dict[str, Support]
+    loads: tuple[Load, ...] = ()
+    units: UnitSystem = field(default_factory=UnitSystem)
+    redundants: tuple[str, ...] | None = None  #: the user's choice, or None for automatic
+    displacements: tuple[str, ...] = ()  #: displacement targets, e.g. "B.y"
+    shear: bool = False  #: include shear energy of beams
+    source: str = "<structure>"  #: file the case came from, for messages
+    case_order: tuple[str, ...] = ()  #: load case names in order of first appearance
+
+    def length(self, member_id: str) -> float:
+        m = self.members[member_id]
+        a, b = self.nodes[m.start], self.nodes[m.end]
+        return math.hypot(b.x - a.x, b.y - a.y)
+
+    def direction(self, member_id: str) -> tuple[float, float]:
+        """Unit vector of local x (cos, sin)."""
+        m = self.members[member_id]
+        a, b = self.nodes[m.start], self.nodes[m.end]
+        L = math.hypot(b.x - a.x, b.y - a.y)
+        return (b.x - a.x) / L, (b.y - a.y) / L
+
+    @property
+    def case_names(self) -> tuple[str, ...]:
+        if self.case_order:
+            return self.case_order
+        names: list[str] = []
+        for load in self.loads:
+            if load.case not in names:
+                names.append(load.case)
+        return tuple(names) or (DEFAULT_CASE,)

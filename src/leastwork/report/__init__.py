@@ -1,0 +1,1 @@
+"""Output of a solution: JSON (contract) and the terminal summary."""

@@ -1,0 +1,84 @@
+"""The JSON result of the interface contract (section 4), in the case units."""
+
+from __future__ import annotations
+
+import math
+
+from ..solution import EQUILIBRIUM_RTOL
+
+__all__ = ["solution_to_dict", "SCHEMA", "quantity_factors"]
+
+SCHEMA = "leastwork.result/1"
+
+
+def _is_moment_column(col) -> bool:
+    return col.kind in ("start_m", "end_m") or (col.kind == "reaction" and col.name.endswith(".rz"))
+
+
+def quantity_factors(st):
+    """SI value of one case unit of force, length, moment."""
+    u = st.units
+    return u.factor("force"), u.factor("length"), u.factor("moment")
+
+
+def _num(x: float) -> float:
+    x = float(x)
+    if x == 0.0 or not math.isfinite(x):
+        return 0.0 if x == 0.0 else x
+    return x
+
+
+def solution_to_dict(sol) -> dict:
+    st = sol.structure
+    topo = sol.topology
+    Ff, Lf, Mf = quantity_factors(st)
+    red_cols = [topo.columns[j] for j in sol.redundant_columns]
+    # unit of each redundant (force or moment) and of its conjugate displacement
+    x_unit = [Mf if _is_moment_column(c) else Ff for c in red_cols]
+    d_unit = [1.0 if _is_moment_column(c) else Lf for c in red_cols]
+    flex = [[_num(sol.flexibility[i, j] * x_unit[j] / d_unit[i]) for j in range(len(red_cols))]
+            for i in range(len(red_cols))]
+    cases = {}
+    for name, res in sol.cases.items():
+        members = {}
+        for mid, mr in res.members.items():
+            members[mid] = {
+                "start": {"n": _num(mr.start[0] / Ff), "v": _num(mr.start[1] / Ff),
+                          "m": _num(mr.start[2] / Mf)},
+                "end": {"n": _num(mr.end[0] / Ff), "v": _num(mr.end[1] / Ff),
+                        "m": _num(mr.end[2] / Mf)},
+                "m_max": {"value": _num(mr.m_max[0] / Mf), "at": _num(mr.m_max[1] / Lf)},
+                "m_min": {"value": _num(mr.m_min[0] / Mf), "at": _num(mr.m_min[1] / Lf)},
+            }
+        reactions = {}
+        for node, comps in res.reactions.items():
+            reactions[node] = {d: _num(v / (Mf if d == "rz" else Ff)) for d, v in comps.items()}
+        disp = {}
+        for t, v in res.displacements.items():
+            disp[t] = _num(v if t.endswith(".rz") else v / Lf)
+        cases[name] = {
+            "redundants": {c.name: _num(x / xu) for c, x, xu in zip(red_cols, res.redundants,
+                                                                    x_unit, strict=True)},
+            "flexibility": flex,
+            "load_terms": [_num(v / du) for v, du in zip(res.load_terms, d_unit, strict=True)],
+            "imposed": [_num(v / du) for v, du in zip(res.imposed, d_unit, strict=True)],
+            "reactions": reactions,
+            "members": members,
+            "displacements": disp,
+            "checks": {
+                "equilibrium_residual": _num(res.equilibrium_residual / Ff),
+                "equilibrium_ok": bool(res.equilibrium_ok),
+                "equilibrium_tolerance": _num(EQUILIBRIUM_RTOL * res.equilibrium_scale / Ff),
+            },
+        }
+    return {
+        "schema": SCHEMA,
+        "name": st.name,
+        "units": {"force": st.units.force, "length": st.units.length,
+                  "moment": f"{st.units.force}*{st.units.length}", "rotation": "rad"},
+        "indeterminacy": {"degree": topo.degree, "external": topo.external,
+                          "internal": topo.internal, "stable": topo.stable},
+        "redundants": [c.name for c in red_cols],
+        "cases": cases,
+        "warnings": list(sol.warnings),
+    }

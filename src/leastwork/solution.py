@@ -1,0 +1,229 @@
+"""Results of a solve: per load case, the redundants, forces, reactions, displacements and
+checks; ``Solution.to_dict()`` gives the JSON result of the interface contract in the case
+units."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+from numpy.polynomial import polynomial as P
+
+from .fields import Piecewise, gauss_integral
+from .model import DistributedLoad, NodalLoad, PointLoad, Structure
+
+__all__ = ["MemberResult", "CaseResult", "Solution", "EQUILIBRIUM_RTOL"]
+
+#: Relative tolerance of the equilibrium check (residual / force scale).
+EQUILIBRIUM_RTOL = 1e-8
+
+
+@dataclass(frozen=True)
+class MemberResult:
+    """Final section forces of one member (SI): n, v, m at both ends, moment extremes,
+    and the fields along it."""
+
+    id: str
+    length: float
+    n: Piecewise
+    v: Piecewise
+    m: Piecewise
+    start: tuple[float, float, float]  #: (n, v, m) at x = 0
+    end: tuple[float, float, float]  #: (n, v, m) at x = L
+    m_max: tuple[float, float]  #: (value, at)
+    m_min: tuple[float, float]
+
+
+def _member_fields(st: Structure, topo, mid: str, s: np.ndarray, pf) -> MemberResult:
+    m = st.members[mid]
+    L = st.length(mid)
+    ci = topo.column_index
+    N = s[ci[mid] if m.kind == "bar" else ci[f"{mid}.n"]]
+    ms = s[ci[f"{mid}.start.m"]] if f"{mid}.start.m" in ci else 0.0
+    me = s[ci[f"{mid}.end.m"]] if f"{mid}.end.m" in ci else 0.0
+    if pf is None:
+        breaks = np.array([0.0, L])
+        cn = np.zeros((1, 6))
+        cv = np.zeros((1, 6))
+        cm = np.zeros((1, 6))
+    else:
+        breaks = pf.m.breaks
+        cn, cv, cm = pf.n.coef.copy(), pf.v.coef.copy(), pf.m.coef.copy()
+    cn[:, 0] += N
+    cm[:, 0] += ms
+    cm[:, 1] += (me - ms) / L
+    cv[:, 0] += (me - ms) / L
+    n, v, mm = Piecewise(breaks, cn), Piecewise(breaks, cv), Piecewise(breaks, cm)
+    start = (float(n(0.0)), float(v(0.0)), float(mm(0.0)))
+    end = (float(n(L, "left")), float(v(L, "left")), float(mm(L, "left")))
+    xs, vals = [], []
+    for a, b, coef in mm.pieces():
+        cand = [a, b]
+        dc = P.polyder(np.trim_zeros(coef, "b") if np.any(coef) else np.zeros(1))
+        if len(dc) > 1 or (len(dc) == 1 and dc[0] != 0):
+            roots = P.polyroots(dc) if len(dc) > 1 else []
+            for r in roots:
+                if abs(r.imag) < 1e-9 * max(L, 1.0) and a < r.real < b:
+                    cand.append(float(r.real))
+        for x in cand:
+            xs.append(x)
+            vals.append(float(P.polyval(x, coef)))
+    vals_a = np.array(vals)
+    xs_a = np.array(xs)
+    scale = max(float(np.max(np.abs(vals_a))), 1e-300)
+    # among ties, the first position wins
+    imax = int(np.flatnonzero(vals_a >= vals_a.max() - 1e-12 * scale)[np.argmin(
+        xs_a[vals_a >= vals_a.max() - 1e-12 * scale])])
+    imin = int(np.flatnonzero(vals_a <= vals_a.min() + 1e-12 * scale)[np.argmin(
+        xs_a[vals_a <= vals_a.min() + 1e-12 * scale])])
+    return MemberResult(mid, L, n, v, mm, start, end, (vals_a[imax], xs_a[imax]),
+                        (vals_a[imin], xs_a[imin]))
+
+
+@dataclass
+class CaseResult:
+    """The answer for one load case, SI units."""
+
+    name: str
+    redundants: np.ndarray
+    load_terms: np.ndarray
+    imposed: np.ndarray  #: Delta: imposed displacement at each redundant
+    s: np.ndarray  #: final basic forces and reactions (ncol,)
+    s0: np.ndarray  #: released structure under the loads (ncol,)
+    nodal_displacements: np.ndarray  #: (ndof,)
+    members: dict[str, MemberResult]
+    reactions: dict[str, dict[str, float]]
+    equilibrium_residual: float  #: largest residual force (N) or moment (N*m)
+    equilibrium_scale: float  #: force scale of the case (N), for the relative check
+    loading: object = None
+    deformations: np.ndarray | None = None  #: F s + e, per column (ncol,)
+    released: object = None  #: the ReleasedStructure, for unit-load displacements
+    displacements: dict[str, float] = field(default_factory=dict)
+
+    @property
+    def equilibrium_ok(self) -> bool:
+        return self.equilibrium_residual <= EQUILIBRIUM_RTOL * max(self.equilibrium_scale, 1e-300)
+
+    @classmethod
+    def build(cls, st: Structure, topo, loading, X, load_terms, Delta, s, s0, nodal_disp,
+              deformations, released):
+        members = {mid: _member_fields(st, topo, mid, s, loading.particulars.get(mid))
+                   for mid in st.members}
+        reactions: dict[str, dict[str, float]] = {}
+        for sup in st.supports.values():
+            out: dict[str, float] = {}
+            for r in sup.restraints:
+                j = topo.column_index.get(r.name)
+                val = float(s[j]) if j is not None else 0.0
+                if r.direction == "n":
+                    out["x"] = out.get("x", 0.0) + val * r.vector[0]
+                    out["y"] = out.get("y", 0.0) + val * r.vector[1]
+                    out["n"] = val
+                else:
+                    out[r.direction] = out.get(r.direction, 0.0) + val
+            reactions[sup.node] = out
+        resid, scale = _equilibrium(st, topo, loading, members, reactions)
+        res = cls(loading.name, X, load_terms, Delta, s, s0, nodal_disp, members, reactions,
+                  resid, scale, loading, deformations=deformations, released=released)
+        from .displacements import evaluate_target
+
+        for t in st.displacements:
+            res.displacements[t] = evaluate_target(st, topo, res, t)
+        return res
+
+
+def _equilibrium(st: Structure, topo, loading, members, reactions) -> tuple[float, float]:
+    """Largest residual of nodal and overall equilibrium, recomputed from the final end
+    forces, reactions and the loads as given (not from the equilibrium matrix)."""
+    node_sum = {nid: np.zeros(3) for nid in st.nodes}
+    scale = 0.0
+    for mr in members.values():
+        mem = st.members[mr.id]
+        c, s = st.direction(mr.id)
+        ex, ey = np.array([c, s]), np.array([-s, c])
+        n0, v0, m0 = mr.start
+        nL, vL, mL = mr.end
+        f_start = n0 * ex - v0 * ey
+        f_end = -nL * ex + vL * ey
+        node_sum[mem.start] += [f_start[0], f_start[1], m0]
+        node_sum[mem.end] += [f_end[0], f_end[1], -mL]
+        scale = max(scale, abs(n0), abs(v0), abs(nL), abs(vL))
+    for ld in loading.nodal_loads:
+        node_sum[ld.node] += [ld.fx, ld.fy, ld.mz]
+        scale = max(scale, abs(ld.fx), abs(ld.fy))
+    for nid, rs in reactions.items():
+        node_sum[nid] += [rs.get("x", 0.0), rs.get("y", 0.0), rs.get("rz", 0.0)]
+        scale = max(scale, abs(rs.get("x", 0.0)), abs(rs.get("y", 0.0)))
+    lengths = [st.length(m) for m in st.members]
+    lref = max(lengths)
+    worst = 0.0
+    for nid, v in node_sum.items():
+        has_rz = f"{nid}.rz" in topo.dof_index
+        worst = max(worst, abs(v[0]), abs(v[1]), abs(v[2]) / lref if has_rz else 0.0)
+    # overall equilibrium of the whole structure from the loads as given
+    total = np.zeros(3)
+    for ld in loading.loads:
+        if isinstance(ld, NodalLoad):
+            nd = st.nodes[ld.node]
+            total += [ld.fx, ld.fy, ld.mz + nd.x * ld.fy - nd.y * ld.fx]
+        elif isinstance(ld, PointLoad):
+            x, y = _point_on(st, ld.member, ld.at)
+            total += [ld.fx, ld.fy, ld.mz + x * ld.fy - y * ld.fx]
+        elif isinstance(ld, DistributedLoad):
+            L = st.length(ld.member)
+            a, b = ld.start, (L if np.isnan(ld.end) else ld.end)
+            c, s = st.direction(ld.member)
+            o = st.nodes[st.members[ld.member].start]
+
+            def w(xi, pair, a=a, b=b):
+                return pair[0] + (pair[1] - pair[0]) * (xi - a) / (b - a)
+
+            brk = np.array([a, b])
+            fx = gauss_integral(brk, lambda xi, ld=ld, w=w: w(xi, ld.wx))
+            fy = gauss_integral(brk, lambda xi, ld=ld, w=w: w(xi, ld.wy))
+            mz = gauss_integral(brk, lambda xi, ld=ld, w=w, o=o, c=c, s=s: (o.x + xi * c)
+                                * w(xi, ld.wy) - (o.y + xi * s) * w(xi, ld.wx))
+            total += [fx, fy, mz]
+            scale = max(scale, abs(fx), abs(fy))
+    for nid, rs in reactions.items():
+        nd = st.nodes[nid]
+        rx, ry = rs.get("x", 0.0), rs.get("y", 0.0)
+        total += [rx, ry, rs.get("rz", 0.0) + nd.x * ry - nd.y * rx]
+    worst = max(worst, abs(total[0]), abs(total[1]), abs(total[2]) / lref)
+    return worst, scale
+
+
+def _point_on(st: Structure, mid: str, at: float) -> tuple[float, float]:
+    a = st.nodes[st.members[mid].start]
+    c, s = st.direction(mid)
+    return a.x + at * c, a.y + at * s
+
+
+@dataclass
+class Solution:
+    """Everything a solve found. ``to_dict()`` is the contract's JSON result."""
+
+    structure: Structure
+    topology: object
+    redundant_columns: list[int]
+    chosen_by_user: bool
+    B: np.ndarray  #: unit-redundant states (ncol, nred)
+    F: np.ndarray  #: member and spring flexibility (ncol, ncol)
+    flexibility: np.ndarray  #: delta (nred, nred), SI
+    cases: dict[str, CaseResult]
+    warnings: tuple[str, ...] = ()
+    released: object = None
+
+    @property
+    def redundant_names(self) -> list[str]:
+        return [self.topology.columns[j].name for j in self.redundant_columns]
+
+    @property
+    def equilibrium_ok(self) -> bool:
+        return all(c.equilibrium_ok for c in self.cases.values())
+
+    def to_dict(self) -> dict:
+        """The JSON result (contract section 4), every number in the case units."""
+        from .report.jsonout import solution_to_dict
+
+        return solution_to_dict(self)

@@ -1,0 +1,137 @@
+"""The force-method pipeline: topology -> released structure -> energy -> compatibility.
+
+For redundants X (one per column released), the basic forces are s = s0 + B X, where s0
+holds the released structure's forces under the loads and column i of B its forces for
+X_i = 1. Menabrea's least-work theorem (Castigliano's second theorem with the settlement
+work) gives, for every i,
+
+    dU/dX_i = sum_j delta_ij X_j + delta_i0 = Delta_i
+
+with the flexibility delta = B' F B, the load terms delta_0 = B' (F s0 + e - c) + c_R
+and Delta = c_R: c holds the support settlements along the rigid reaction columns and c_R
+those at the redundants themselves (zero when the redundant is no settling reaction).
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from .energy import flexibility_blocks, initial_deformations
+from .errors import CaseError
+from .model import Structure
+from .solution import CaseResult, Solution
+from .statics import ReleasedStructure, case_loading
+from .topology import build_topology, choose_redundants
+
+__all__ = ["solve"]
+
+
+def solve(structure: Structure, redundants=None, *, where: str | None = None) -> Solution:
+    """Solve a structure by the least-work (force) method.
+
+    Parameters
+    ----------
+    structure : Structure
+        The case (see :func:`leastwork.load_case`).
+    redundants : list of str, optional
+        Names of the redundants (``"C.y"``, a bar id, ``"AB.end.m"``...). Default: the
+        structure's own ``[analysis] redundants`` or an automatic choice.
+    where : str, optional
+        Where the redundants were given, for error messages.
+
+    Returns
+    -------
+    Solution
+        Redundants, forces, reactions, displacements and checks for every load case.
+
+    Raises
+    ------
+    CaseError
+        Invalid redundant names or count.
+    MechanismError
+        The structure, or the released structure, is unstable.
+    """
+    st = structure
+    topo = build_topology(st)
+    names = redundants if redundants is not None else st.redundants
+    if where is None:
+        where = "--redundants" if redundants is not None else "[analysis] redundants"
+    chosen_by_user = names is not None
+    red = choose_redundants(st, topo, names, where=where)
+    released = ReleasedStructure(topo, red)
+    B = released.unit_redundant_states()
+    F = flexibility_blocks(st, topo)
+    delta = B.T @ F @ B
+    delta = 0.5 * (delta + delta.T)
+    solver = _FlexibilitySolver(delta, [topo.columns[j].name for j in red])
+    unit_loads = released.forces(np.eye(len(topo.dofs)))  # (ncol, ndof)
+    results = {}
+    for case in st.case_names:
+        loading = case_loading(st, topo, case)
+        s0 = released.forces(loading.p)[:, 0]
+        e = initial_deformations(st, topo, loading.particulars, loading.imposed)
+        c = loading.settlement
+        Delta = c[red]
+        load_terms = B.T @ (F @ s0 + e - c) + Delta
+        X = solver.solve(Delta - load_terms)
+        s = s0 + B @ X
+        d = F @ s + e
+        nodal_disp = unit_loads.T @ (d - c)
+        results[case] = CaseResult.build(st, topo, loading, X, load_terms, Delta, s, s0,
+                                         nodal_disp, d, released)
+    _check_targets(st, topo)
+    return Solution(st, topo, red, chosen_by_user, B, F, delta, results,
+                    warnings=tuple(solver.warnings), released=released)
+
+
+class _FlexibilitySolver:
+    """Solve delta X = rhs, Jacobi-scaled; a redundant (or a combination) with no
+    flexibility is explained and taken as zero (minimum-norm solution)."""
+
+    def __init__(self, delta: np.ndarray, names: list[str]):
+        self.warnings: list[str] = []
+        n = delta.shape[0]
+        self.n = n
+        if n == 0:
+            return
+        diag = np.diag(delta).copy()
+        scale_ref = max(float(np.max(np.abs(diag))), 1e-300)
+        zero = diag <= 1e-12 * scale_ref
+        for i in np.flatnonzero(zero):
+            self.warnings.append(
+                f"redundant {names[i]} has no flexibility (it strains only axially rigid "
+                "members or rigid parts); its value is not determined by compatibility and "
+                "is taken as zero")
+        d = np.where(zero, 1.0, diag)
+        self.D = 1.0 / np.sqrt(d)
+        S = delta * self.D[:, None] * self.D[None, :]
+        w, V = np.linalg.eigh(S)
+        keep = w > 1e-11 * max(float(w.max()), 1e-300)
+        if (~keep).sum() > zero.sum():
+            self.warnings.append(
+                "the flexibility matrix is singular: some combination of redundants strains "
+                "no flexible part; the minimum-norm solution is used")
+        self.w, self.V, self.keep = w, V, keep
+        self.cond = float(w[keep].max() / w[keep].min()) if keep.any() else float("inf")
+
+    def solve(self, rhs: np.ndarray) -> np.ndarray:
+        if self.n == 0:
+            return np.zeros(0)
+        b = self.D * rhs
+        coef = self.V.T @ b
+        y = np.zeros_like(coef)
+        y[self.keep] = coef[self.keep] / self.w[self.keep]
+        resid = coef[~self.keep]
+        if resid.size and np.max(np.abs(resid)) > 1e-9 * max(np.max(np.abs(b)), 1e-300):
+            raise CaseError(
+                "the compatibility equations have no solution: an imposed deformation "
+                "(temperature, misfit or settlement) acts on a part with no flexibility "
+                "(an axially rigid member or a rigid support chain)")
+        return self.D * (self.V @ y)
+
+
+def _check_targets(st: Structure, topo) -> None:
+    from .displacements import parse_target
+
+    for t in st.displacements:
+        parse_target(st, topo, t, "[analysis] displacements")

@@ -1,0 +1,310 @@
+"""Degrees of freedom, the equilibrium matrix, indeterminacy, stability and redundants.
+
+The unknowns ("columns") are the *basic forces* of the members and the reaction
+components: a bar carries its axial force ``ID``; a beam carries its axial force ``ID.n``
+and the section moments at its ends ``ID.start.m``/``ID.end.m`` (absent where the end is
+hinged); each restraint carries ``NODE.dir``. The rows are the nodal equilibrium equations
+in x, y and, where at least one beam end is rigidly connected, rz. With ``A`` the
+equilibrium matrix and ``p`` the nodal loads (including those passed on by span loads):
+``A @ s + p = 0``.
+
+Degree of indeterminacy = columns - rank(A); the structure is stable when A has full row
+rank. The redundants are columns whose removal leaves a square non-singular A0.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import networkx as nx
+import numpy as np
+
+from .errors import CaseError, MechanismError
+from .model import Structure
+
+__all__ = ["Column", "Topology", "build_topology", "choose_redundants", "structure_graph"]
+
+_RANK_TOL = 1e-9
+_GOOD_PIVOT = 1e-3
+
+
+@dataclass(frozen=True)
+class Column:
+    """One unknown force: a member basic force or a reaction component."""
+
+    name: str
+    kind: str  #: "axial", "start_m", "end_m" or "reaction"
+    owner: str  #: member id, or node id for a reaction
+    restraint_index: int = -1  #: index into Topology.restraints for reactions
+
+
+@dataclass(frozen=True)
+class Topology:
+    """Everything about the structure's statics that does not depend on the loads."""
+
+    dofs: tuple[str, ...]  #: "NODE.x", "NODE.y", "NODE.rz"
+    dof_index: dict[str, int]
+    columns: tuple[Column, ...]
+    column_index: dict[str, int]
+    restraints: tuple  #: Restraint objects, in column order of reactions
+    A: np.ndarray  #: equilibrium matrix (ndof x ncol), SI units
+    rank: int
+    degree: int
+    internal: int
+    external: int
+    stable: bool
+    counting: dict  #: classical counting: unknowns, equations, formula text
+    dropped: tuple[str, ...]  #: rz restraints dropped at nodes with no rotational stiffness
+    mechanism: tuple[str, ...]  #: free motions when unstable
+
+    @property
+    def member_columns(self) -> list[int]:
+        return [i for i, c in enumerate(self.columns) if c.kind != "reaction"]
+
+
+def structure_graph(st: Structure) -> nx.MultiGraph:
+    """The structure as a graph: nodes are joints (plus one ground node), edges members and
+    supports."""
+    g = nx.MultiGraph()
+    g.add_nodes_from(st.nodes)
+    g.add_node("<ground>")
+    for m in st.members.values():
+        g.add_edge(m.start, m.end, key=m.id, kind=m.kind)
+    for s in st.supports.values():
+        g.add_edge(s.node, "<ground>", key=f"support {s.node}", kind="support")
+    return g
+
+
+def _rot_nodes(st: Structure) -> set[str]:
+    nodes: set[str] = set()
+    for m in st.members.values():
+        if m.is_beam:
+            if not m.hinge_start:
+                nodes.add(m.start)
+            if not m.hinge_end:
+                nodes.add(m.end)
+    return nodes
+
+
+def build_topology(st: Structure) -> Topology:
+    """Assemble the equilibrium matrix and decide indeterminacy and stability."""
+    rot = _rot_nodes(st)
+    dofs: list[str] = []
+    for nid in st.nodes:
+        dofs += [f"{nid}.x", f"{nid}.y"]
+        if nid in rot:
+            dofs.append(f"{nid}.rz")
+    dof_index = {d: i for i, d in enumerate(dofs)}
+    columns: list[Column] = []
+    entries: list[list[tuple[str, float]]] = []
+    for m in st.members.values():
+        L = st.length(m.id)
+        c, s = st.direction(m.id)
+        ey = (-s, c)
+        axial_name = m.id if m.kind == "bar" else f"{m.id}.n"
+        columns.append(Column(axial_name, "axial", m.id))
+        entries.append([(f"{m.start}.x", c), (f"{m.start}.y", s),
+                        (f"{m.end}.x", -c), (f"{m.end}.y", -s)])
+        if not m.is_beam:
+            continue
+        # member on node: start  -(me - ms)/L * ey, moment +ms ; end +(me - ms)/L * ey, -me
+        if not m.hinge_start:
+            columns.append(Column(f"{m.id}.start.m", "start_m", m.id))
+            entries.append([(f"{m.start}.x", ey[0] / L), (f"{m.start}.y", ey[1] / L),
+                            (f"{m.start}.rz", 1.0),
+                            (f"{m.end}.x", -ey[0] / L), (f"{m.end}.y", -ey[1] / L)])
+        if not m.hinge_end:
+            columns.append(Column(f"{m.id}.end.m", "end_m", m.id))
+            entries.append([(f"{m.start}.x", -ey[0] / L), (f"{m.start}.y", -ey[1] / L),
+                            (f"{m.end}.x", ey[0] / L), (f"{m.end}.y", ey[1] / L),
+                            (f"{m.end}.rz", -1.0)])
+    restraints = []
+    dropped = []
+    for sup in st.supports.values():
+        for r in sup.restraints:
+            if r.direction == "rz" and sup.node not in rot:
+                dropped.append(r.name)
+                continue
+            columns.append(Column(r.name, "reaction", sup.node, len(restraints)))
+            restraints.append(r)
+            vx, vy, vr = r.vector
+            e = [(f"{sup.node}.x", vx), (f"{sup.node}.y", vy)]
+            if vr:
+                e.append((f"{sup.node}.rz", vr))
+            entries.append(e)
+    A = np.zeros((len(dofs), len(columns)))
+    for j, col_entries in enumerate(entries):
+        for dof, val in col_entries:
+            if val:
+                A[dof_index[dof], j] += val
+    column_index = {c.name: i for i, c in enumerate(columns)}
+    scaled = _scaled(A, dofs, st)
+    rank = _rank(scaled)
+    member_cols = [i for i, c in enumerate(columns) if c.kind != "reaction"]
+    internal = len(member_cols) - _rank(scaled[:, member_cols])
+    degree = len(columns) - rank
+    stable = rank == len(dofs)
+    mechanism = () if stable else _motion(scaled, dofs)
+    n_bars = sum(1 for m in st.members.values() if m.kind == "bar")
+    n_beams = len(st.members) - n_bars
+    releases = sum(m.hinge_start + m.hinge_end for m in st.members.values() if m.is_beam)
+    r = len(restraints)
+    j = len(st.nodes)
+    if n_beams == 0:
+        formula = f"m + r - 2j = {n_bars} + {r} - 2*{j} = {n_bars + r - 2 * j}"
+    else:
+        formula = (f"unknowns - equations = ({len(columns) - r} member forces + {r} reactions)"
+                   f" - {len(dofs)} equations = {len(columns) - len(dofs)}")
+        if n_bars == 0 and releases == 0:
+            formula += f"  (3m + r - 3j = 3*{n_beams} + {r} - 3*{j} = {3 * n_beams + r - 3 * j})"
+    counting = {"unknowns": len(columns), "equations": len(dofs),
+                "value": len(columns) - len(dofs), "formula": formula}
+    return Topology(
+        dofs=tuple(dofs), dof_index=dof_index, columns=tuple(columns),
+        column_index=column_index, restraints=tuple(restraints), A=A, rank=rank,
+        degree=degree, internal=internal, external=degree - internal, stable=stable,
+        counting=counting, dropped=tuple(dropped), mechanism=mechanism,
+    )
+
+
+def _scaled(A: np.ndarray, dofs, st: Structure) -> np.ndarray:
+    """Rows of moments divided by a characteristic length; columns to unit norm."""
+    lengths = [st.length(m) for m in st.members]
+    lref = float(np.mean(lengths)) if lengths else 1.0
+    row_scale = np.array([1.0 / lref if d.endswith(".rz") else 1.0 for d in dofs])
+    S = A * row_scale[:, None]
+    norms = np.linalg.norm(S, axis=0)
+    norms[norms == 0] = 1.0
+    return S / norms
+
+
+def _rank(M: np.ndarray) -> int:
+    if M.size == 0:
+        return 0
+    sv = np.linalg.svd(M, compute_uv=False)
+    if sv.size == 0 or sv[0] == 0:
+        return 0
+    return int(np.sum(sv > _RANK_TOL * max(1.0, sv[0])))
+
+
+def _motion(M: np.ndarray, dofs) -> tuple[str, ...]:
+    """Nodal directions taking part in the first mechanism (a left null vector of M)."""
+    u, sv, _ = np.linalg.svd(M, full_matrices=True)
+    ranks = int(np.sum(sv > _RANK_TOL * max(1.0, sv[0] if sv.size else 1.0)))
+    null = u[:, ranks:]
+    if null.shape[1] == 0:
+        return ()
+    moving = np.max(np.abs(null), axis=1)
+    top = moving.max()
+    return tuple(d for d, v in zip(dofs, moving, strict=True) if v > 1e-6 * top)
+
+
+def _describe(motion: tuple[str, ...]) -> str:
+    return ", ".join(motion) if motion else "(not identified)"
+
+
+def check_stable(st: Structure, topo: Topology) -> None:
+    """Raise MechanismError if the structure itself can move."""
+    if not topo.stable:
+        free = len(topo.dofs) - topo.rank
+        raise MechanismError(
+            f"{st.source}: the structure is unstable (a mechanism): {free} independent "
+            "motion(s) need no deformation of any member. Add a support, a member or remove a "
+            "hinge where it moves.",
+            list(topo.mechanism),
+        )
+
+
+def choose_redundants(st: Structure, topo: Topology, names=None, where: str = "[analysis] "
+                      "redundants") -> list[int]:
+    """Column indices of the redundants.
+
+    Automatic choice: a greedy column selection keeps member forces first (bars and beam
+    moments, then beam axial forces), then reactions in the order written, taking each column
+    that is clearly independent of those kept (pivot above ``_GOOD_PIVOT``), then the most
+    independent remaining ones (column-pivoted Gram-Schmidt). The columns left out are the
+    redundants, so that reactions are preferred as redundants and the released structure is
+    statically determinate, stable and well conditioned.
+
+    A user's choice is checked: names must exist, their number must equal the degree, and the
+    released structure must be stable (else MechanismError naming the free motion).
+    """
+    check_stable(st, topo)
+    S = _scaled(topo.A, topo.dofs, st)
+    ncol = len(topo.columns)
+    if names is not None:
+        idx = []
+        for name in names:
+            if name not in topo.column_index:
+                raise CaseError(f'"{name}" is not a force of this structure'
+                                f"{_name_hint(name, topo)}; expected a reaction NODE.x/y/rz, "
+                                "a bar id, MEMBER.n, MEMBER.start.m or MEMBER.end.m",
+                                source=st.source, where=where)
+            i = topo.column_index[name]
+            if i in idx:
+                raise CaseError(f'"{name}" is named twice', source=st.source, where=where)
+            idx.append(i)
+        if len(idx) != topo.degree:
+            raise CaseError(f"the structure is statically indeterminate to degree {topo.degree}"
+                            f" but {len(idx)} redundant(s) were named; name exactly "
+                            f"{topo.degree}", source=st.source, where=where)
+        keep = [j for j in range(ncol) if j not in idx]
+        S0 = S[:, keep]
+        if _rank(S0) < len(topo.dofs):
+            motion = _motion(S0, topo.dofs)
+            raise MechanismError(
+                f"{st.source}: releasing {', '.join(names)} leaves a mechanism (the released "
+                "structure can move); choose other redundants.", list(motion))
+        return idx
+    dropped_rank = _rank(S)
+    order = _keep_order(st, topo)
+    kept: list[int] = []
+    Q = np.zeros((S.shape[0], 0))
+    for threshold in (_GOOD_PIVOT, _RANK_TOL * 10):
+        remaining = [j for j in order if j not in kept]
+        if threshold == _GOOD_PIVOT:
+            for j in remaining:
+                r = _residual(Q, S[:, j])
+                if np.linalg.norm(r) > threshold:
+                    kept.append(j)
+                    Q = np.column_stack([Q, r / np.linalg.norm(r)])
+        else:
+            while len(kept) < dropped_rank:
+                cand = [j for j in order if j not in kept]
+                res = [np.linalg.norm(_residual(Q, S[:, j])) for j in cand]
+                best = int(np.argmax(res))
+                if res[best] <= threshold:
+                    break
+                r = _residual(Q, S[:, cand[best]])
+                kept.append(cand[best])
+                Q = np.column_stack([Q, r / np.linalg.norm(r)])
+        if len(kept) >= dropped_rank:
+            break
+    return [j for j in range(ncol) if j not in kept]
+
+
+def _residual(Q: np.ndarray, a: np.ndarray) -> np.ndarray:
+    r = a - Q @ (Q.T @ a)
+    return r - Q @ (Q.T @ r)  # re-orthogonalise
+
+
+def _keep_order(st: Structure, topo: Topology) -> list[int]:
+    """Columns in order of preference to keep in the released structure."""
+    moments, axial_beam, bars, rigid, springs = [], [], [], [], []
+    for j, c in enumerate(topo.columns):
+        if c.kind == "reaction":
+            (springs if topo.restraints[c.restraint_index].is_spring else rigid).append(j)
+        elif c.kind == "axial":
+            (bars if st.members[c.owner].kind == "bar" else axial_beam).append(j)
+        else:
+            moments.append(j)
+    # axially rigid beams first among axial forces: their axial force has no flexibility
+    axial_beam.sort(key=lambda j: st.members[topo.columns[j].owner].EA is not None)
+    return axial_beam + moments + bars + rigid + springs
+
+
+def _name_hint(name: str, topo: Topology) -> str:
+    import difflib
+
+    close = difflib.get_close_matches(name, list(topo.column_index), n=1, cutoff=0.5)
+    return f' (did you mean "{close[0]}"?)' if close else ""
