@@ -24,7 +24,7 @@ from .errors import CaseError
 from .fields import gauss_integral, particular_fields
 from .model import Structure
 
-__all__ = ["Target", "parse_target", "evaluate_target", "member_shape"]
+__all__ = ["Target", "parse_target", "evaluate_target", "member_shape", "deflection_extreme"]
 
 _NODE_DIR = re.compile(r"^([A-Za-z0-9_]+)\.(x|y|rz)$")
 _MEMBER_AT = re.compile(r"^([A-Za-z0-9_]+)@([^.]+(?:\.[0-9]+)?(?:[eE][-+]?[0-9]+)?)\.(x|y)$")
@@ -142,7 +142,8 @@ def member_point_displacement(st: Structure, topo, res, mid: str, at: float,
     return value
 
 
-def member_shape(st: Structure, topo, res, mid: str, samples: int = 41):
+def member_shape(st: Structure, topo, res, mid: str, samples: int = 41,
+                 return_extreme: bool = False):
     """Deflected shape of a member: positions x (m), and global displacements (ux, uy) (m)
     at ``samples`` points plus every break, from the end displacements and the curvature.
 
@@ -160,6 +161,7 @@ def member_shape(st: Structure, topo, res, mid: str, samples: int = 41):
     eps, kappa_t, misfit = res.loading.imposed.get(mid, (0.0, 0.0, 0.0))
     breaks = mr.m.breaks
     xs = np.union1d(np.linspace(0.0, L, samples), breaks)
+    w_pieces = []  # (a, b, poly of w_rel)
     w_rel = np.zeros_like(xs)  # K(x) - Gamma(x): deflection from curvature/shear with w(0)=w'(0)=0
     ua_rel = np.zeros_like(xs)
     if mem.is_beam:
@@ -176,6 +178,7 @@ def member_shape(st: Structure, topo, res, mid: str, samples: int = 41):
                 wpoly = P.polyadd(P.polyint(slope, lbnd=a), [w0])
             sel = (xs >= a) & (xs <= b)
             w_rel[sel] = P.polyval(xs[sel], wpoly)
+            w_pieces.append((a, b, wpoly))
             slope0 = P.polyval(b, slope)
             w0 = P.polyval(b, wpoly)
     strain_n = 0.0
@@ -192,4 +195,28 @@ def member_shape(st: Structure, topo, res, mid: str, samples: int = 41):
     ua = us @ ex + ua_rel
     ux = ua * ex[0] + w * ey[0]
     uy = ua * ex[1] + w * ey[1]
+    if return_extreme:
+        return xs, ux, uy, w, _extreme(w_pieces, ws, theta, xs, w)
     return xs, ux, uy, w
+
+
+def _extreme(pieces, ws, theta, xs, w) -> tuple[float, float]:
+    """Largest |w| along the member (value with its sign, position), exact on each piece."""
+    best_x = float(xs[int(np.argmax(np.abs(w)))])
+    best = float(w[int(np.argmax(np.abs(w)))])
+    for a, b, poly in pieces:
+        total = P.polyadd(poly, [ws, theta])
+        der = P.polyder(total)
+        if len(der) > 1:
+            for r in P.polyroots(der):
+                if abs(r.imag) < 1e-12 and a < r.real < b:
+                    val = float(P.polyval(r.real, total))
+                    if abs(val) > abs(best):
+                        best, best_x = val, float(r.real)
+    return best, best_x
+
+
+def deflection_extreme(st: Structure, topo, res, mid: str) -> tuple[float, float]:
+    """Largest transverse (local y) displacement along a beam and its distance from the
+    start node (SI)."""
+    return member_shape(st, topo, res, mid, return_extreme=True)[4]

@@ -41,6 +41,8 @@ def solution_to_dict(sol) -> dict:
     cases = {}
     for name, res in sol.cases.items():
         members = {}
+        from ..displacements import deflection_extreme
+
         for mid, mr in res.members.items():
             members[mid] = {
                 "start": {"n": _num(mr.start[0] / Ff), "v": _num(mr.start[1] / Ff),
@@ -50,6 +52,9 @@ def solution_to_dict(sol) -> dict:
                 "m_max": {"value": _num(mr.m_max[0] / Mf), "at": _num(mr.m_max[1] / Lf)},
                 "m_min": {"value": _num(mr.m_min[0] / Mf), "at": _num(mr.m_min[1] / Lf)},
             }
+            if st.members[mid].is_beam:
+                w, at = deflection_extreme(st, topo, res, mid)
+                members[mid]["deflection_max"] = {"value": _num(w / Lf), "at": _num(at / Lf)}
         reactions = {}
         for node, comps in res.reactions.items():
             reactions[node] = {d: _num(v / (Mf if d == "rz" else Ff)) for d, v in comps.items()}

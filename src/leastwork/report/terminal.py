@@ -119,16 +119,23 @@ def print_summary(console: Console, sol, case_names=None) -> None:
         console.print(t)
         beams = [mid for mid in res.members if st.members[mid].is_beam]
         if beams:
-            t = Table(title="Bending moment extremes along beams", header_style="bold")
+            from ..displacements import deflection_extreme
+
+            t = Table(title="Bending moment extremes and largest deflection along beams",
+                      header_style="bold")
             t.add_column("beam")
             t.add_column(f"m max [{mu}]", justify="right")
             t.add_column(f"at [{lu}]", justify="right")
             t.add_column(f"m min [{mu}]", justify="right")
             t.add_column(f"at [{lu}]", justify="right")
+            t.add_column(f"deflection [{lu}]", justify="right")
+            t.add_column(f"at [{lu}]", justify="right")
             for mid in beams:
                 mr = res.members[mid]
+                w, at = deflection_extreme(st, topo, res, mid)
                 t.add_row(mid, _g(mr.m_max[0] / Mf), _g(mr.m_max[1] / Lf),
-                          _g(mr.m_min[0] / Mf), _g(mr.m_min[1] / Lf))
+                          _g(mr.m_min[0] / Mf), _g(mr.m_min[1] / Lf), _g(w / Lf, 4),
+                          _g(at / Lf, 4))
             console.print(t)
         if res.displacements:
             t = Table(title="Displacements (global; rotations counter-clockwise +)",
