@@ -163,7 +163,9 @@ LAYOUTS = ["left_to_right", "drawn_right_to_left", "mirrored", "vertical", "incl
 @pytest.mark.parametrize("layout", LAYOUTS)
 def test_propped_cantilever_uniform_load(layout):
     nodes, beams, supports, loads, mid, reactions, member = _propped_uniform(layout)
-    text = case_text(f"propped cantilever ({layout})", nodes, beams=beams, supports=supports, loads=loads)
+    text = case_text(
+        f"propped cantilever ({layout})", nodes, beams=beams, supports=supports, loads=loads
+    )
     res = solve(text)
     assert res["indeterminacy"]["degree"] == 1  # fixed end 3 + roller 1 - 3 equations
     c = res["cases"]["default"]
@@ -210,7 +212,11 @@ def test_propped_cantilever_central_point_load():
         EI=EI,
     )
     c = solve_default(text)
-    check_reactions(c, {"A": {"x": 0.0, "y": 11 * P / 16, "rz": 3 * P * L / 16}, "B": {"y": 5 * P / 16}}, SCALE_P)
+    check_reactions(
+        c,
+        {"A": {"x": 0.0, "y": 11 * P / 16, "rz": 3 * P * L / 16}, "B": {"y": 5 * P / 16}},
+        SCALE_P,
+    )
     check_member(
         c,
         "AB",
@@ -255,12 +261,19 @@ def test_propped_cantilever_point_load_anywhere(a_frac):
     rs = P * a**2 * (3 * L - a) / (2 * L**3)
     mf = P * a * b * (L + b) / (2 * L**2)
     text = straight_beam(
-        {"A": 0.0, "B": L}, {"A": "fixed", "B": "roller"}, [{"member": "AB", "at": a, "fy": -P}], EI=EI
+        {"A": 0.0, "B": L},
+        {"A": "fixed", "B": "roller"},
+        [{"member": "AB", "at": a, "fy": -P}],
+        EI=EI,
     )
     c = solve_default(text)
     check_reactions(c, {"A": {"y": P - rs, "rz": mf}, "B": {"y": rs}}, SCALE_P)
     m_load = rs * b
-    exp = {"start": {"m": -mf, "v": P - rs}, "end": {"m": 0.0, "v": -rs}, "m_max": (m_load, a, 1e-9)}
+    exp = {
+        "start": {"m": -mf, "v": P - rs},
+        "end": {"m": 0.0, "v": -rs},
+        "m_max": (m_load, a, 1e-9),
+    }
     if mf > 0:
         exp["m_min"] = (-mf, 0.0, 1e-9)
     check_member(c, "AB", exp, SCALE_P, L)
@@ -284,7 +297,10 @@ def test_fixed_fixed_uniform_load():
     m_end = W * L**2 / 12
     check_reactions(
         c,
-        {"A": {"x": 0.0, "y": W * L / 2, "rz": m_end}, "B": {"x": 0.0, "y": W * L / 2, "rz": -m_end}},
+        {
+            "A": {"x": 0.0, "y": W * L / 2, "rz": m_end},
+            "B": {"x": 0.0, "y": W * L / 2, "rz": -m_end},
+        },
         SCALE_W,
     )
     check_member(
@@ -299,7 +315,10 @@ def test_fixed_fixed_uniform_load():
         L,
     )
     assert c["members"]["AB"]["m_min"]["value"] == pytest.approx(-m_end, rel=REL)
-    assert c["members"]["AB"]["m_min"]["at"] in (pytest.approx(0.0, abs=1e-9), pytest.approx(L, abs=1e-9 * L))
+    assert c["members"]["AB"]["m_min"]["at"] in (
+        pytest.approx(0.0, abs=1e-9),
+        pytest.approx(L, abs=1e-9 * L),
+    )
 
 
 def test_fixed_fixed_uniform_deflection_and_contraflexure():
@@ -407,22 +426,36 @@ def test_two_equal_spans_uniform_load():
     assert res["indeterminacy"]["degree"] == 1
     c = res["cases"]["default"]
     check_reactions(
-        c, {"A": {"x": 0.0, "y": 3 * W * L / 8}, "B": {"y": 10 * W * L / 8}, "C": {"y": 3 * W * L / 8}}, SCALE_W
+        c,
+        {
+            "A": {"x": 0.0, "y": 3 * W * L / 8},
+            "B": {"y": 10 * W * L / 8},
+            "C": {"y": 3 * W * L / 8},
+        },
+        SCALE_W,
     )
     ms = -W * L**2 / 8
     check_member(
         c,
         "AB",
-        {"start": {"m": 0.0, "v": 3 * W * L / 8}, "end": {"m": ms, "v": -5 * W * L / 8},
-         "m_max": (M_SPAN, 3 * L / 8, POS), "m_min": (ms, L, 1e-9)},
+        {
+            "start": {"m": 0.0, "v": 3 * W * L / 8},
+            "end": {"m": ms, "v": -5 * W * L / 8},
+            "m_max": (M_SPAN, 3 * L / 8, POS),
+            "m_min": (ms, L, 1e-9),
+        },
         SCALE_W,
         L,
     )
     check_member(
         c,
         "BC",
-        {"start": {"m": ms, "v": 5 * W * L / 8}, "end": {"m": 0.0, "v": -3 * W * L / 8},
-         "m_max": (M_SPAN, 5 * L / 8, POS), "m_min": (ms, 0.0, 1e-9)},
+        {
+            "start": {"m": ms, "v": 5 * W * L / 8},
+            "end": {"m": 0.0, "v": -3 * W * L / 8},
+            "m_max": (M_SPAN, 5 * L / 8, POS),
+            "m_min": (ms, 0.0, 1e-9),
+        },
         SCALE_W,
         L,
     )
@@ -443,17 +476,35 @@ def test_two_equal_spans_point_load_in_one_span():
         EI=EI,
     )
     c = solve_default(text)
-    check_reactions(c, {"A": {"x": 0.0, "y": 13 * P / 32}, "B": {"y": 11 * P / 16}, "C": {"y": -3 * P / 32}}, SCALE_P)
+    check_reactions(
+        c,
+        {"A": {"x": 0.0, "y": 13 * P / 32}, "B": {"y": 11 * P / 16}, "C": {"y": -3 * P / 32}},
+        SCALE_P,
+    )
     ms = -3 * P * L / 32
     check_member(
         c,
         "AB",
-        {"start": {"m": 0.0}, "end": {"m": ms}, "m_max": (13 * P * L / 64, L / 2, 1e-9), "m_min": (ms, L, 1e-9)},
+        {
+            "start": {"m": 0.0},
+            "end": {"m": ms},
+            "m_max": (13 * P * L / 64, L / 2, 1e-9),
+            "m_min": (ms, L, 1e-9),
+        },
         SCALE_P,
         L,
     )
-    check_member(c, "BC", {"start": {"m": ms, "v": 3 * P / 32}, "end": {"m": 0.0, "v": 3 * P / 32},
-                           "m_min": (ms, 0.0, 1e-9)}, SCALE_P, L)
+    check_member(
+        c,
+        "BC",
+        {
+            "start": {"m": ms, "v": 3 * P / 32},
+            "end": {"m": 0.0, "v": 3 * P / 32},
+            "m_min": (ms, 0.0, 1e-9),
+        },
+        SCALE_P,
+        L,
+    )
 
 
 # =====================================================================================
@@ -476,12 +527,37 @@ def test_three_equal_spans_uniform_load():
     c = res["cases"]["default"]
     wl = W * L
     check_reactions(
-        c, {"A": {"x": 0.0, "y": 0.4 * wl}, "B": {"y": 1.1 * wl}, "C": {"y": 1.1 * wl}, "D": {"y": 0.4 * wl}}, SCALE_W
+        c,
+        {
+            "A": {"x": 0.0, "y": 0.4 * wl},
+            "B": {"y": 1.1 * wl},
+            "C": {"y": 1.1 * wl},
+            "D": {"y": 0.4 * wl},
+        },
+        SCALE_W,
     )
     ms = -0.1 * W * L**2
-    check_member(c, "AB", {"start": {"m": 0.0}, "end": {"m": ms}, "m_max": (0.08 * W * L**2, 0.4 * L, POS)}, SCALE_W, L)
-    check_member(c, "BC", {"start": {"m": ms}, "end": {"m": ms}, "m_max": (0.025 * W * L**2, 0.5 * L, POS)}, SCALE_W, L)
-    check_member(c, "CD", {"start": {"m": ms}, "end": {"m": 0.0}, "m_max": (0.08 * W * L**2, 0.6 * L, POS)}, SCALE_W, L)
+    check_member(
+        c,
+        "AB",
+        {"start": {"m": 0.0}, "end": {"m": ms}, "m_max": (0.08 * W * L**2, 0.4 * L, POS)},
+        SCALE_W,
+        L,
+    )
+    check_member(
+        c,
+        "BC",
+        {"start": {"m": ms}, "end": {"m": ms}, "m_max": (0.025 * W * L**2, 0.5 * L, POS)},
+        SCALE_W,
+        L,
+    )
+    check_member(
+        c,
+        "CD",
+        {"start": {"m": ms}, "end": {"m": 0.0}, "m_max": (0.08 * W * L**2, 0.6 * L, POS)},
+        SCALE_W,
+        L,
+    )
 
 
 def test_three_equal_spans_end_span_deflection():
@@ -532,18 +608,37 @@ def test_pinned_base_portal_beam_load():
     check_member(
         c,
         "BC",
-        {"start": {"n": -H, "v": W * span / 2, "m": -H * h}, "end": {"n": -H, "v": -W * span / 2, "m": -H * h},
-         "m_max": (W * span**2 / 8 - H * h, span / 2, POS)},
+        {
+            "start": {"n": -H, "v": W * span / 2, "m": -H * h},
+            "end": {"n": -H, "v": -W * span / 2, "m": -H * h},
+            "m_max": (W * span**2 / 8 - H * h, span / 2, POS),
+        },
         sc,
         span,
     )
     # left column drawn upward: local -y face is the inside face, which is in compression
     # at the corner -> m(top) = -H h; v = dm/dx = -H.
-    check_member(c, "AB", {"start": {"n": -W * span / 2, "v": -H, "m": 0.0},
-                           "end": {"n": -W * span / 2, "v": -H, "m": -H * h}}, sc, h)
+    check_member(
+        c,
+        "AB",
+        {
+            "start": {"n": -W * span / 2, "v": -H, "m": 0.0},
+            "end": {"n": -W * span / 2, "v": -H, "m": -H * h},
+        },
+        sc,
+        h,
+    )
     # right column drawn upward: local -y face is the outside face, in tension -> +H h.
-    check_member(c, "DC", {"start": {"n": -W * span / 2, "v": H, "m": 0.0},
-                           "end": {"n": -W * span / 2, "v": H, "m": H * h}}, sc, h)
+    check_member(
+        c,
+        "DC",
+        {
+            "start": {"n": -W * span / 2, "v": H, "m": 0.0},
+            "end": {"n": -W * span / 2, "v": H, "m": H * h},
+        },
+        sc,
+        h,
+    )
 
 
 # =====================================================================================
@@ -584,7 +679,11 @@ def test_symmetric_three_bar_system(alpha_deg):
     sin = math.sin(al)
     check_reactions(
         c,
-        {"B": {"x": 0.0, "y": n_mid}, "A": {"x": -n_out * sin, "y": n_out * cos}, "C": {"x": n_out * sin, "y": n_out * cos}},
+        {
+            "B": {"x": 0.0, "y": n_mid},
+            "A": {"x": -n_out * sin, "y": n_out * cos},
+            "C": {"x": n_out * sin, "y": n_out * cos},
+        },
         {"v": load, "m": load},
     )
     check(c["displacements"]["D.y"], -n_mid * hgt / bar_ea, load * hgt / bar_ea, "hanger node drop")

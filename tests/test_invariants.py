@@ -132,19 +132,29 @@ def closed_ring():
             "DA": {"nodes": ["D", "A"], "EI": ei(20000.0), "EA": ea(1.0e6)},
         },
         supports={"A": "pinned", "B": "roller"},
-        loads=[{"member": "CD", "wy": -10.0}, {"node": "D", "fx": 8.0}, {"member": "BC", "at": 1.5, "fx": -5.0}],
+        loads=[
+            {"member": "CD", "wy": -10.0},
+            {"node": "D", "fx": 8.0},
+            {"member": "BC", "at": 1.5, "fx": -5.0},
+        ],
     )
 
 
 # (structure, list of redundant choices; None = the solver's own choice)
 CHOICES = {
-    "two_span_beam": (two_span_beam, [None, ["B.y"], ["C.y"], ["A.y"], ["AB.end.m"], ["BC.start.m"]]),
+    "two_span_beam": (
+        two_span_beam,
+        [None, ["B.y"], ["C.y"], ["A.y"], ["AB.end.m"], ["BC.start.m"]],
+    ),
     "two_span_beam_fixed_end": (
         two_span_beam_fixed_end,
         [None, ["B.y", "C.y"], ["A.rz", "C.y"], ["A.rz", "B.y"], ["AB.start.m", "AB.end.m"]],
     ),
     "triangle_truss": (triangle_truss, [None, ["C.x"], ["A.x"], ["AC"]]),
-    "braced_panel": (braced_panel, [None, ["AC", "B.x"], ["BD", "A.x"], ["AB", "CD"], ["AB", "B.x"]]),
+    "braced_panel": (
+        braced_panel,
+        [None, ["AC", "B.x"], ["BD", "A.x"], ["AB", "CD"], ["AB", "B.x"]],
+    ),
     "fixed_portal": (
         fixed_portal,
         [
@@ -184,7 +194,9 @@ def _scales(spec):
     ys = [y for _, y in spec["nodes"].values()]
     size = max(max(xs) - min(xs), max(ys) - min(ys))
     for ld in spec["loads"]:
-        total += size * (abs(ld.get("wx", 0.0)) + abs(ld.get("wy", 0.0))) + abs(ld.get("mz", 0.0)) / size
+        total += (
+            size * (abs(ld.get("wx", 0.0)) + abs(ld.get("wy", 0.0))) + abs(ld.get("mz", 0.0)) / size
+        )
     return total, total * size
 
 
@@ -216,7 +228,9 @@ def test_compatibility_equations_hold(p):
     assert np.abs(lhs).max() <= 1e-9 * scale
 
 
-@pytest.mark.parametrize("p", [p for p in ALL_SOLUTIONS if CHOICES[p[0]][1][p[1]] is not None], ids=_id)
+@pytest.mark.parametrize(
+    "p", [p for p in ALL_SOLUTIONS if CHOICES[p[0]][1][p[1]] is not None], ids=_id
+)
 def test_chosen_redundants_are_used(p):
     key, i = p
     _, res = _solve(key, i)
@@ -328,14 +342,28 @@ def _bar(a, b):
 DEGREES = {
     # name: (spec, degree, external, internal)   -- external = r - 3 where that is clear
     "propped_cantilever": (
-        dict(name="propped cantilever", nodes={"A": (0, 0), "B": (5, 0)}, beams={"AB": _beam("A", "B", axial=False)},
-             supports={"A": "fixed", "B": "roller"}, loads=[{"member": "AB", "wy": -5.0}]),
-        1, 1, 0,
+        dict(
+            name="propped cantilever",
+            nodes={"A": (0, 0), "B": (5, 0)},
+            beams={"AB": _beam("A", "B", axial=False)},
+            supports={"A": "fixed", "B": "roller"},
+            loads=[{"member": "AB", "wy": -5.0}],
+        ),
+        1,
+        1,
+        0,
     ),
     "fixed_fixed_beam_with_axial_terms": (
-        dict(name="built-in beam", nodes={"A": (0, 0), "B": (5, 0)}, beams={"AB": _beam("A", "B")},
-             supports={"A": "fixed", "B": "fixed"}, loads=[{"member": "AB", "wy": -5.0}]),
-        3, 3, 0,
+        dict(
+            name="built-in beam",
+            nodes={"A": (0, 0), "B": (5, 0)},
+            beams={"AB": _beam("A", "B")},
+            supports={"A": "fixed", "B": "fixed"},
+            loads=[{"member": "AB", "wy": -5.0}],
+        ),
+        3,
+        3,
+        0,
     ),
     "two_hinged_portal": (two_hinged_portal(), 1, 1, 0),
     "fixed_portal": (fixed_portal(), 3, 3, 0),
@@ -343,7 +371,9 @@ DEGREES = {
     "braced_panel_pin_pin": (braced_panel(), 2, 1, 1),
     "braced_panel_pin_roller": (
         dict(braced_panel(), supports={"A": "pinned", "B": "roller"}),
-        1, 0, 1,
+        1,
+        0,
+        1,
     ),
 }
 
@@ -384,8 +414,13 @@ def test_degree_with_internal_hinge(hinge_spec, degree):
     beams = {"AB": _beam("A", "B", axial=False), "BC": _beam("B", "C", axial=False)}
     for mid, h in (hinge_spec or {}).items():
         beams[mid]["hinges"] = h
-    spec = dict(name="two-span beam with a hinge", nodes={"A": (0, 0), "B": (5, 0), "C": (10, 0)}, beams=beams,
-                supports={"A": "fixed", "B": "roller", "C": "roller"}, loads=[{"member": "BC", "wy": -5.0}])
+    spec = dict(
+        name="two-span beam with a hinge",
+        nodes={"A": (0, 0), "B": (5, 0), "C": (10, 0)},
+        beams=beams,
+        supports={"A": "fixed", "B": "roller", "C": "roller"},
+        loads=[{"member": "BC", "wy": -5.0}],
+    )
     res = solve(case_text(**spec))
     assert res["indeterminacy"]["degree"] == degree
 
@@ -395,7 +430,10 @@ def test_gerber_beam_is_determinate():
     spec = dict(
         name="cantilever with a suspended span",
         nodes={"A": (0, 0), "G": (3, 0), "B": (8, 0)},
-        beams={"AG": _beam("A", "G", hinges=["end"], axial=False), "GB": _beam("G", "B", axial=False)},
+        beams={
+            "AG": _beam("A", "G", hinges=["end"], axial=False),
+            "GB": _beam("G", "B", axial=False),
+        },
         supports={"A": "fixed", "B": "roller"},
         loads=[{"member": "GB", "wy": -10.0}],
     )
@@ -426,7 +464,11 @@ def test_mechanism_is_reported():
 
 def _cli(*args):
     exe = shutil.which("leastwork")
-    cmd = [exe] if exe else [sys.executable, "-c", "import sys; from leastwork.cli import main; sys.exit(main())"]
+    cmd = (
+        [exe]
+        if exe
+        else [sys.executable, "-c", "import sys; from leastwork.cli import main; sys.exit(main())"]
+    )
     return subprocess.run(cmd + list(args), capture_output=True, text=True, timeout=120)
 
 
@@ -476,7 +518,15 @@ def test_json_result_shape(portal_file):
     assert res["units"] == {"force": "kN", "length": "m", "moment": "kN*m", "rotation": "rad"}
     assert {"degree", "external", "internal", "stable"} <= set(res["indeterminacy"])
     case = res["cases"]["default"]
-    assert {"redundants", "flexibility", "load_terms", "reactions", "members", "displacements", "checks"} <= set(case)
+    assert {
+        "redundants",
+        "flexibility",
+        "load_terms",
+        "reactions",
+        "members",
+        "displacements",
+        "checks",
+    } <= set(case)
     assert set(case["reactions"]) == {"A", "D"}
     assert set(case["reactions"]["A"]) == {"x", "y", "rz"}
     assert set(case["members"]) == {"AB", "BC", "CD"}

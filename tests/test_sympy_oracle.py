@@ -97,11 +97,22 @@ def make_beam(rng: np.random.Generator) -> dict:
             t = q(rng.uniform(0.55, 1.0) * float(length), 0.05)
             if t > f:
                 w = -q(rng.uniform(2.0, 25.0), 0.25)
-                loads.append({"kind": "udl", "member": mid, "from": f, "to": t,
-                              "x0": x0 + f, "x1": x0 + t, "value": w})
+                loads.append(
+                    {
+                        "kind": "udl",
+                        "member": mid,
+                        "from": f,
+                        "to": t,
+                        "x0": x0 + f,
+                        "x1": x0 + t,
+                        "value": w,
+                    }
+                )
     for name, x, kind in nodes:
         if kind is None and rng.random() < 0.5:
-            loads.append({"kind": "node", "node": name, "x": x, "value": -q(rng.uniform(5, 40), 0.5)})
+            loads.append(
+                {"kind": "node", "node": name, "x": x, "value": -q(rng.uniform(5, 40), 0.5)}
+            )
     if not loads:  # every beam carries something
         mid, _, _, x0, x1 = members[0]
         loads.append({"kind": "udl", "member": mid, "x0": x0, "x1": x1, "value": Fraction(-10)})
@@ -118,7 +129,9 @@ BEAMS = beams()
 
 def leastwork_text(beam: dict) -> str:
     nodes = {n: (float(x), 0.0) for n, x, _ in beam["nodes"]}
-    members = {mid: {"nodes": [a, b], "EI": ei(EI), "EA": ea(EA)} for mid, a, b, _, _ in beam["members"]}
+    members = {
+        mid: {"nodes": [a, b], "EI": ei(EI), "EA": ea(EA)} for mid, a, b, _, _ in beam["members"]
+    }
     supports = {n: kind for n, _, kind in beam["nodes"] if kind}
     loads = []
     for ld in beam["loads"]:
@@ -127,14 +140,26 @@ def leastwork_text(beam: dict) -> str:
         elif ld["kind"] == "node":
             loads.append({"node": ld["node"], "fy": float(ld["value"])})
         elif "from" in ld:
-            loads.append({"member": ld["member"], "wy": float(ld["value"]),
-                          "from": float(ld["from"]), "to": float(ld["to"])})
+            loads.append(
+                {
+                    "member": ld["member"],
+                    "wy": float(ld["value"]),
+                    "from": float(ld["from"]),
+                    "to": float(ld["to"]),
+                }
+            )
         else:
             loads.append({"member": ld["member"], "wy": float(ld["value"])})
     free = [n for n, _, kind in beam["nodes"] if kind is None]
     analysis = {"displacements": [f"{n}.y" for n in free]} if free else None
-    return case_text("random continuous beam", nodes, beams=members, supports=supports,
-                     loads=loads, analysis=analysis)
+    return case_text(
+        "random continuous beam",
+        nodes,
+        beams=members,
+        supports=supports,
+        loads=loads,
+        analysis=analysis,
+    )
 
 
 # ------------------------------------------------------------------ the oracle
@@ -185,8 +210,16 @@ def oracle(index: int) -> dict:
     shear = sympy.lambdify(x, b.shear_force(), "math")
     defl = b.deflection()
     scale = max(abs(v) for v in reactions.values())
-    return {"reactions": reactions, "M": moment, "V": shear, "defl": defl, "x": x,
-            "scale_f": scale, "scale_m": scale * float(total), "length": float(total)}
+    return {
+        "reactions": reactions,
+        "M": moment,
+        "V": shear,
+        "defl": defl,
+        "x": x,
+        "scale_f": scale,
+        "scale_m": scale * float(total),
+        "length": float(total),
+    }
 
 
 def m_ours(orc, x: float) -> float:
@@ -268,7 +301,9 @@ def test_reactions_match_sympy(i):
     tol = REL * orc["scale_f"]
     for (name, comp), expected in orc["reactions"].items():
         scale = orc["scale_m"] if comp == "rz" else orc["scale_f"]
-        assert c["reactions"][name][comp] == pytest.approx(expected, abs=REL * scale), f"{name}.{comp}"
+        assert c["reactions"][name][comp] == pytest.approx(expected, abs=REL * scale), (
+            f"{name}.{comp}"
+        )
     first = beam["nodes"][0][0]
     assert c["reactions"][first]["x"] == pytest.approx(0.0, abs=tol)  # no horizontal load
 
@@ -281,8 +316,12 @@ def test_member_end_forces_match_sympy(i):
     for mid, _a, _b, x0, x1 in beam["members"]:
         x0, x1 = float(x0), float(x1)
         res = c["members"][mid]
-        assert res["start"]["m"] == pytest.approx(m_ours(orc, x0), abs=REL * orc["scale_m"]), f"{mid} start m"
-        assert res["end"]["m"] == pytest.approx(m_ours(orc, x1), abs=REL * orc["scale_m"]), f"{mid} end m"
+        assert res["start"]["m"] == pytest.approx(m_ours(orc, x0), abs=REL * orc["scale_m"]), (
+            f"{mid} start m"
+        )
+        assert res["end"]["m"] == pytest.approx(m_ours(orc, x1), abs=REL * orc["scale_m"]), (
+            f"{mid} end m"
+        )
         v0 = -orc["V"](x0 + eps)
         v1 = -orc["V"](x1 - eps)
         assert res["start"]["v"] == pytest.approx(v0, abs=1e-6 * orc["scale_f"]), f"{mid} start v"
@@ -305,10 +344,14 @@ def test_moment_extremes_match_sympy(i):
         # moment is flat at a smooth extreme, so a small position error barely shows
         for key in ("m_max", "m_min"):
             at = res[key]["at"]
-            assert m_ours(orc, x0 + at) == pytest.approx(res[key]["value"], abs=1e-7 * orc["scale_m"]), f"{mid} {key} at"
+            assert m_ours(orc, x0 + at) == pytest.approx(
+                res[key]["value"], abs=1e-7 * orc["scale_m"]
+            ), f"{mid} {key} at"
 
 
-@pytest.mark.parametrize("i", [i for i, b in enumerate(BEAMS) if any(k is None for _, _, k in b["nodes"])])
+@pytest.mark.parametrize(
+    "i", [i for i, b in enumerate(BEAMS) if any(k is None for _, _, k in b["nodes"])]
+)
 def test_free_node_deflections_match_sympy(i):
     beam, orc = BEAMS[i], oracle(i)
     c = solve(leastwork_text(beam))["cases"]["default"]

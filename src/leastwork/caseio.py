@@ -149,6 +149,11 @@ class _Reader:
         text_stripped = text.strip()
         if not text_stripped:
             raise self.err(where, "expected a quantity, got an empty string")
+        if re.search(r"[\[\]{},;]", text_stripped):
+            # the unit parser would silently drop these and read "[-9, -3]" as -3
+            raise self.err(where, f'cannot read the quantity "{text}": brackets, braces, commas '
+                           "and semicolons are not allowed in a quantity (a [start, end] pair "
+                           "is a TOML list of two quantities)")
         names = set(re.findall(r"[A-Za-z_][A-Za-z0-9_]*", text_stripped))
         values = {n: self.parameter(n, where) for n in names if n in self._param_raw}
         reg = ureg()
@@ -225,12 +230,14 @@ class _Reader:
         defaults = self.table("defaults")
         self.keys_known("[defaults]", defaults, ("material", "section"))
         for key, pool in (("material", materials), ("section", sections)):
-            if key in defaults and defaults[key] not in pool:
+            if key in defaults and (not isinstance(defaults[key], str)
+                                    or defaults[key] not in pool):
                 raise self.err(f"[defaults] {key}", f'no {key} "{defaults[key]}" in [{key}s]'
                                f"{_hint(str(defaults[key]), pool)}")
         nodes = self._nodes()
         self.nodes = nodes
         members = self._members(nodes, materials, sections, defaults)
+        self.members = members
         used = {m.start for m in members.values()} | {m.end for m in members.values()}
         supports = self._supports(nodes, used)
         loads, case_order = self._loads(nodes, members, supports, used, materials)
@@ -415,7 +422,7 @@ class _Reader:
             rigid: list[str] = []
             if "type" in spec:
                 kind = spec["type"]
-                if kind not in _SUPPORT_TYPES:
+                if not isinstance(kind, str) or kind not in _SUPPORT_TYPES:
                     raise self.err(where, f'unknown support type "{kind}"'
                                    f'{_hint(str(kind), _SUPPORT_TYPES)}; expected fixed, pinned or roller')
                 rigid = list(_SUPPORT_TYPES[kind])
@@ -489,7 +496,7 @@ class _Reader:
     def _nodal_load(self, spec, where, nodes, used, case):
         self.keys_known(where, spec, ("node", "fx", "fy", "mz", "case"))
         nid = spec["node"]
-        if nid not in nodes:
+        if not isinstance(nid, str) or nid not in nodes:
             raise self.err(where + ".node", f'unknown node "{nid}"{_hint(str(nid), nodes)}')
         if not any(k in spec for k in ("fx", "fy", "mz")):
             raise self.err(where, "a nodal load needs fx, fy or mz")
@@ -504,7 +511,7 @@ class _Reader:
     def _settlement(self, spec, where, supports, case):
         self.keys_known(where, spec, ("settlement", "dx", "dy", "drz", "dn", "case"))
         nid = spec["settlement"]
-        if nid not in supports:
+        if not isinstance(nid, str) or nid not in supports:
             raise self.err(where + ".settlement", f'"{nid}" is not a support; settlement '
                            f"needs a node listed in [supports]{_hint(str(nid), supports)}")
         values = []
@@ -521,6 +528,13 @@ class _Reader:
                 raise self.err(f"{where}.{key}", f'direction "{d}" of support "{nid}" {what}; '
                                "a settlement needs a rigidly restrained direction "
                                f"(restrained: {', '.join(sorted(rigid)) or 'none'})")
+            if d == "rz" and not any(
+                    m.is_beam and ((m.start == nid and not m.hinge_start)
+                                   or (m.end == nid and not m.hinge_end))
+                    for m in self.members.values()):
+                raise self.err(f"{where}.{key}", f'node "{nid}" has no rotation of its own '
+                               "(only bars or hinged beam ends meet there), so a rotation "
+                               "settlement of its support would act on nothing")
             values.append((d, v))
         if not values:
             raise self.err(where, "a settlement needs dx, dy or drz")
@@ -528,7 +542,7 @@ class _Reader:
 
     def _member_load(self, spec, where, members, case):
         mid = spec["member"]
-        if mid not in members:
+        if not isinstance(mid, str) or mid not in members:
             raise self.err(where + ".member", f'unknown member "{mid}"{_hint(str(mid), members)}')
         member = members[mid]
         L = _length_of(self, member)

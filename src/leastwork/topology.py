@@ -56,6 +56,8 @@ class Topology:
     counting: dict  #: classical counting: unknowns, equations, formula text
     dropped: tuple[str, ...]  #: rz restraints dropped at nodes with no rotational stiffness
     mechanism: tuple[str, ...]  #: free motions when unstable
+    loops: int = 0  #: independent closed loops of the member graph (networkx cycle rank)
+    parts: int = 1  #: connected parts of the member graph
 
     @property
     def member_columns(self) -> list[int]:
@@ -159,7 +161,14 @@ def build_topology(st: Structure) -> Topology:
             formula += f"  (3m + r - 3j = 3*{n_beams} + {r} - 3*{j} = {3 * n_beams + r - 3 * j})"
     counting = {"unknowns": len(columns), "equations": len(dofs),
                 "value": len(columns) - len(dofs), "formula": formula}
+    g = nx.Graph()
+    g.add_nodes_from(st.nodes)
+    multi = structure_graph(st).subgraph(st.nodes)
+    g.add_edges_from(multi.edges())
+    parts = nx.number_connected_components(g)
+    loops = multi.number_of_edges() - g.number_of_nodes() + parts
     return Topology(
+        loops=loops, parts=parts,
         dofs=tuple(dofs), dof_index=dof_index, columns=tuple(columns),
         column_index=column_index, restraints=tuple(restraints), A=A, rank=rank,
         degree=degree, internal=internal, external=degree - internal, stable=stable,

@@ -57,6 +57,8 @@ def _indeterminacy(console: Console, topo) -> None:
               "yes" if topo.stable else "[red]NO — mechanism[/red]")
     console.print(t)
     console.print(f"Counting formula: {topo.counting['formula']}")
+    console.print(f"Member graph: {topo.parts} connected part(s), {topo.loops} closed loop(s) "
+                  "of members.")
     if topo.counting["value"] != topo.degree and topo.stable:
         console.print("[yellow]The counting formula and the rank disagree: the rank result "
                       "governs (some members are arranged so that they cannot all act).[/yellow]")
