@@ -40,6 +40,9 @@ _TABLES = (
 _ID = re.compile(r"^[A-Za-z_][A-Za-z0-9_]*$|^[0-9]+[A-Za-z0-9_]*$")
 _SUPPORT_TYPES = {"fixed": ("x", "y", "rz"), "pinned": ("x", "y"), "roller": ("y",)}
 _DIRECTIONS = ("x", "y", "rz")
+#: no real quantity is this large in SI units (or, for a stiffness, this small); beyond it
+#: the arithmetic of the force method would overflow
+_SI_LIMIT = 1e30
 
 
 def load_case(path: str | Path) -> Structure:
@@ -137,12 +140,18 @@ class _Reader:
             raise self.err(where, str(exc)) from None
         if not math.isfinite(si):
             raise self.err(where, f"expected a finite {dimension}, got {value!r}")
+        if abs(si) > _SI_LIMIT:
+            raise self.err(where, f"{value!r} is beyond any sensible {dimension} (more than "
+                           f"{_SI_LIMIT:g} in SI units); check the value and its units")
         return si
 
     def positive(self, value: Any, dimension: str, where: str) -> float:
         v = self.quantity(value, dimension, where)
         if v <= 0.0:
             raise self.err(where, f"expected a positive {dimension}, got {value!r}")
+        if v < 1.0 / _SI_LIMIT:
+            raise self.err(where, f"{value!r} is too small for any real {dimension} (less "
+                           f"than {1.0 / _SI_LIMIT:g} in SI units); check the value and its units")
         return v
 
     def _parse_expression(self, text: str, where: str):
@@ -615,6 +624,13 @@ class _Reader:
         if member.alpha is None and (uniform or gradient):
             raise self.err(where, f'member "{member.id}" has no thermal expansion coefficient: '
                            "give alpha in its material")
+        if member.alpha is not None:
+            for key, dT in (("uniform", uniform), ("gradient", gradient)):
+                if abs(member.alpha * dT) >= 0.01:
+                    raise self.err(f"{where}.{key}", f'thermal strain alpha*dT = '
+                                   f'{member.alpha * dT:.3g} on member "{member.id}" is not '
+                                   "small (1% or more); check alpha in its material and the "
+                                   "temperature change: this tool assumes small displacements")
         if gradient:
             if member.kind == "bar":
                 raise self.err(where + ".gradient", f'"{member.id}" is a bar; a temperature '

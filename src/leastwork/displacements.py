@@ -49,7 +49,7 @@ def parse_target(st: Structure, topo, text: str, where: str) -> Target:
             raise CaseError(f'"{text}": unknown node "{node}"', source=st.source, where=where)
         if f"{node}.{d}" not in topo.dof_index:
             raise CaseError(f'"{text}": node {node} has no rotation of its own (every member '
-                            "end there is hinged); ask for a member end instead",
+                            "end there is hinged); ask for a displacement (x, y) instead",
                             source=st.source, where=where)
         return Target("node", node, direction=d)
     m = _MEMBER_AT.match(text)

@@ -37,6 +37,28 @@ def _clean(values, scale):
     return [0.0 if abs(v) < 1e-12 * scale else v for v in values]
 
 
+def energy_terms(st) -> str:
+    """Plain list of the energy terms this solve includes."""
+    terms = []
+    if any(m.is_beam for m in st.members.values()):
+        terms.append("bending (beams)")
+    if any(m.EA is not None for m in st.members.values()):
+        terms.append("axial (" + ", ".join(sorted({("bars" if not m.is_beam else "beams with an area")
+                                                  for m in st.members.values()
+                                                  if m.EA is not None})) + ")")
+    if st.shear:
+        terms.append("shear (beams)")
+    if any(r.is_spring for s in st.supports.values() for r in s.restraints):
+        terms.append("support springs")
+    rigid = [m.id for m in st.members.values() if m.is_beam and m.EA is None]
+    text = "Energy terms included: " + ", ".join(terms) + "."
+    if rigid:
+        text += f" Axially rigid (no area given): {', '.join(rigid)}."
+    if not st.shear and any(m.is_beam for m in st.members.values()):
+        text += " Shear energy not included."
+    return text
+
+
 def print_check(console: Console, st, topo, red_cols) -> None:
     console.print(f"[bold]{st.name}[/bold]  ({st.source})")
     _indeterminacy(console, topo)
@@ -73,6 +95,7 @@ def print_summary(console: Console, sol, case_names=None) -> None:
     fu, mu, lu = st.units.force, f"{st.units.force}*{st.units.length}", st.units.length
     console.print(f"[bold]{st.name}[/bold]  ({st.source})")
     console.print(f"Assumptions: {ASSUMPTIONS}")
+    console.print(energy_terms(st))
     _indeterminacy(console, topo)
     how = "chosen by the user" if sol.chosen_by_user else "chosen automatically"
     console.print(f"Redundants ({how}): [bold]{', '.join(sol.redundant_names) or 'none'}[/bold]")
@@ -102,9 +125,10 @@ def print_summary(console: Console, sol, case_names=None) -> None:
         t.add_column(f"x [{fu}]", justify="right")
         t.add_column(f"y [{fu}]", justify="right")
         t.add_column(f"rz [{mu}]", justify="right")
+        t.add_column(f"normal n [{fu}]", justify="right")
         for node, comps in res.reactions.items():
             t.add_row(node, *[_g(comps[d] / (Mf if d == "rz" else Ff)) if d in comps else "—"
-                              for d in ("x", "y", "rz")])
+                              for d in ("x", "y", "rz", "n")])
         console.print(t)
         t = Table(title="Member end forces (section forces: n tension +, m sagging +, v = dm/dx)",
                   header_style="bold")
@@ -202,7 +226,8 @@ def print_steps(console: Console, sol, case_names=None) -> None:
             vals.append(_g(sol.B[k, i] * fac_x / fac_row))
         t.add_row(c.name, (mu if mom else fu) + "/unit", *vals)
     console.print(t)
-    console.rule("Step 4 — flexibility coefficients δij = Σ ∫ mi mj/EI + ni nj/EA (+ springs)")
+    console.rule("Step 4 — flexibility coefficients δij = Σ ∫ mi mj/EI + ni nj/EA"
+                 + (" + κ vi vj/GAs" if st.shear else "") + " (+ springs ri rj/k)")
     x_unit = [Mf if _is_moment_column(cols[j]) else Ff for j in red]
     d_unit = [1.0 if _is_moment_column(cols[j]) else Lf for j in red]
     for i in range(len(red)):
@@ -218,8 +243,8 @@ def print_steps(console: Console, sol, case_names=None) -> None:
                           f"{_g(res.imposed[i] / d_unit[i])}")
         console.rule(f"Step 6 — solution and superposition, load case {name}")
         for i, n in enumerate(names):
-            console.print(f"  X{i + 1} = {n} = {_g(res.redundants[i] / x_unit[i])} "
-                          f"{mu if x_unit[i] == Mf else fu}")
+            unit = mu if _is_moment_column(cols[red[i]]) else fu
+            console.print(f"  X{i + 1} = {n} = {_g(res.redundants[i] / x_unit[i])} {unit}")
         t = Table(header_style="bold", title="final = released under loads + Σ Xi · (unit state i)")
         t.add_column("force")
         t.add_column("under loads", justify="right")
