@@ -28,6 +28,7 @@ from .model import (
     Structure,
     Support,
     TemperatureLoad,
+    rotational_nodes,
 )
 from .units import UnitSystem, check_unit, example_for, ureg
 
@@ -537,10 +538,7 @@ class _Reader:
                 raise self.err(f"{where}.{key}", f'direction "{d}" of support "{nid}" {what}; '
                                "a settlement needs a rigidly restrained direction "
                                f"(restrained: {', '.join(sorted(rigid)) or 'none'})")
-            if d == "rz" and not any(
-                    m.is_beam and ((m.start == nid and not m.hinge_start)
-                                   or (m.end == nid and not m.hinge_end))
-                    for m in self.members.values()):
+            if d == "rz" and nid not in rotational_nodes(self.members.values()):
                 raise self.err(f"{where}.{key}", f'node "{nid}" has no rotation of its own '
                                "(only bars or hinged beam ends meet there), so a rotation "
                                "settlement of its support would act on nothing")

@@ -116,12 +116,7 @@ def _run(argv) -> int:
     if args.redundants is not None and not names:
         raise CaseError("expected a comma-separated list of redundants", source="command line",
                         where="--redundants")
-    try:
-        sol = solve(st, names)
-    except CaseError as exc:  # e.g. incompatible imposed deformations: name the file
-        if exc.source is None:
-            exc.source = st.source
-        raise
+    sol = solve(st, names)
     cases = None
     if args.load_case is not None:
         if args.load_case not in sol.cases:

@@ -30,6 +30,7 @@ __all__ = [
     "Load",
     "Structure",
     "DEFAULT_CASE",
+    "rotational_nodes",
 ]
 
 #: Name of the load case of loads that do not name one.
@@ -80,6 +81,22 @@ class Member:
     @property
     def is_beam(self) -> bool:
         return self.kind == "beam"
+
+
+def rotational_nodes(members) -> set[str]:
+    """Nodes with a rotation of their own: at least one beam end rigidly connected there.
+
+    ``members`` is an iterable of :class:`Member`. At any other node (only bars or hinged
+    beam ends) no moment can be resisted and no rotation is defined.
+    """
+    nodes: set[str] = set()
+    for m in members:
+        if m.is_beam:
+            if not m.hinge_start:
+                nodes.add(m.start)
+            if not m.hinge_end:
+                nodes.add(m.end)
+    return nodes
 
 
 @dataclass(frozen=True)

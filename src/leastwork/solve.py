@@ -63,7 +63,7 @@ def solve(structure: Structure, redundants=None, *, where: str | None = None) ->
     F = flexibility_blocks(st, topo)
     delta = B.T @ F @ B
     delta = 0.5 * (delta + delta.T)
-    solver = _FlexibilitySolver(delta, [topo.columns[j].name for j in red])
+    solver = _FlexibilitySolver(delta, [topo.columns[j].name for j in red], st.source)
     unit_loads = released.forces(np.eye(len(topo.dofs)))  # (ncol, ndof)
     results = {}
     for case in st.case_names:
@@ -88,8 +88,9 @@ class _FlexibilitySolver:
     """Solve delta X = rhs, Jacobi-scaled; a redundant (or a combination) with no
     flexibility is explained and taken as zero (minimum-norm solution)."""
 
-    def __init__(self, delta: np.ndarray, names: list[str]):
+    def __init__(self, delta: np.ndarray, names: list[str], source: str):
         self.warnings: list[str] = []
+        self.source = source
         n = delta.shape[0]
         self.n = n
         if n == 0:
@@ -126,7 +127,7 @@ class _FlexibilitySolver:
             raise CaseError(
                 "the compatibility equations have no solution: an imposed deformation "
                 "(temperature, misfit or settlement) acts on a part with no flexibility "
-                "(an axially rigid member or a rigid support chain)")
+                "(an axially rigid member or a rigid support chain)", source=self.source)
         return self.D * (self.V @ y)
 
 

@@ -20,7 +20,7 @@ import networkx as nx
 import numpy as np
 
 from .errors import CaseError, MechanismError
-from .model import Structure
+from .model import Structure, rotational_nodes
 
 __all__ = ["Column", "Topology", "build_topology", "choose_redundants", "structure_graph"]
 
@@ -77,20 +77,9 @@ def structure_graph(st: Structure) -> nx.MultiGraph:
     return g
 
 
-def _rot_nodes(st: Structure) -> set[str]:
-    nodes: set[str] = set()
-    for m in st.members.values():
-        if m.is_beam:
-            if not m.hinge_start:
-                nodes.add(m.start)
-            if not m.hinge_end:
-                nodes.add(m.end)
-    return nodes
-
-
 def build_topology(st: Structure) -> Topology:
     """Assemble the equilibrium matrix and decide indeterminacy and stability."""
-    rot = _rot_nodes(st)
+    rot = rotational_nodes(st.members.values())
     dofs: list[str] = []
     for nid in st.nodes:
         dofs += [f"{nid}.x", f"{nid}.y"]
@@ -161,12 +150,9 @@ def build_topology(st: Structure) -> Topology:
             formula += f"  (3m + r - 3j = 3*{n_beams} + {r} - 3*{j} = {3 * n_beams + r - 3 * j})"
     counting = {"unknowns": len(columns), "equations": len(dofs),
                 "value": len(columns) - len(dofs), "formula": formula}
-    g = nx.Graph()
-    g.add_nodes_from(st.nodes)
-    multi = structure_graph(st).subgraph(st.nodes)
-    g.add_edges_from(multi.edges())
-    parts = nx.number_connected_components(g)
-    loops = multi.number_of_edges() - g.number_of_nodes() + parts
+    members_graph = structure_graph(st).subgraph(st.nodes)
+    parts = nx.number_connected_components(members_graph)
+    loops = members_graph.number_of_edges() - members_graph.number_of_nodes() + parts
     return Topology(
         loops=loops, parts=parts,
         dofs=tuple(dofs), dof_index=dof_index, columns=tuple(columns),

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import math
 
+from ..displacements import deflection_extreme
 from ..solution import EQUILIBRIUM_RTOL
 
 __all__ = ["solution_to_dict", "SCHEMA", "quantity_factors"]
@@ -41,8 +42,6 @@ def solution_to_dict(sol) -> dict:
     cases = {}
     for name, res in sol.cases.items():
         members = {}
-        from ..displacements import deflection_extreme
-
         for mid, mr in res.members.items():
             members[mid] = {
                 "start": {"n": _num(mr.start[0] / Ff), "v": _num(mr.start[1] / Ff),

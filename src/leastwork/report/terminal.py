@@ -6,6 +6,7 @@ from rich.console import Console
 from rich.panel import Panel
 from rich.table import Table
 
+from ..displacements import deflection_extreme
 from .jsonout import _is_moment_column, quantity_factors
 
 __all__ = ["print_summary", "print_check", "print_steps", "CAUTION", "ASSUMPTIONS"]
@@ -145,8 +146,6 @@ def print_summary(console: Console, sol, case_names=None) -> None:
         console.print(t)
         beams = [mid for mid in res.members if st.members[mid].is_beam]
         if beams:
-            from ..displacements import deflection_extreme
-
             t = Table(title="Bending moment extremes and largest deflection along beams",
                       header_style="bold")
             t.add_column("beam")
