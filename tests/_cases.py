@@ -206,3 +206,21 @@ def reaction_resultant(spec: dict, reactions: dict) -> tuple[float, float, float
         ry += py
         mz += x * py - y * px + comps.get("rz", 0.0)
     return rx, ry, mz
+
+
+def braced_bay_geometry() -> dict:
+    """A 4 m x 3 m rectangular bay braced by both diagonals, pinned at both bases: nodes,
+    bars and supports as keyword arguments of :func:`case_text` (degree 2: one internal,
+    one external)."""
+    return dict(
+        nodes={"A": (0.0, 0.0), "B": (4.0, 0.0), "C": (4.0, 3.0), "D": (0.0, 3.0)},
+        bars={
+            "AB": {"nodes": ["A", "B"], "EA": ea(2.0e5)},
+            "BC": {"nodes": ["B", "C"], "EA": ea(2.5e5)},
+            "CD": {"nodes": ["C", "D"], "EA": ea(2.0e5)},
+            "DA": {"nodes": ["D", "A"], "EA": ea(2.5e5)},
+            "AC": {"nodes": ["A", "C"], "EA": ea(1.0e5)},
+            "BD": {"nodes": ["B", "D"], "EA": ea(1.5e5)},
+        },
+        supports={"A": "pinned", "B": "pinned"},
+    )

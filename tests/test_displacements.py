@@ -27,7 +27,14 @@ import numpy as np
 import pytest
 
 sys.path.insert(0, str(Path(__file__).parent))
-from _cases import case_text, close, ea, solve, solve_default, straight_beam  # noqa: E402
+from _cases import (
+    braced_bay_geometry,
+    case_text,
+    close,
+    solve,
+    solve_default,
+    straight_beam,
+)  # noqa: E402
 
 import leastwork  # noqa: E402
 from leastwork.displacements import member_shape  # noqa: E402
@@ -114,7 +121,7 @@ displacements = ["AB@3000.y", "B.rz"]
 
 
 def test_propped_cantilever_central_load_deflections():
-    """Item 2 -- AISC Manual beam formulas (secondary transcription): deflection at the
+    """Item 2 -- AISC Manual beam formulas (secondary source): deflection at the
     load 7Pl^3/(768EI); maximum Pl^3/(48 sqrt5 EI) at l/sqrt5 from the simple end."""
     a = L / math.sqrt(5)
     targets = ["AB@3.y", at("AB", L - a)]
@@ -385,16 +392,7 @@ def test_frame_displacements_independent_of_redundants(choice, shear):
 def braced_bay(loads, analysis=None):
     return case_text(
         name="double-braced bay with a short diagonal",
-        nodes={"A": (0.0, 0.0), "B": (4.0, 0.0), "C": (4.0, 3.0), "D": (0.0, 3.0)},
-        bars={
-            "AB": {"nodes": ["A", "B"], "EA": ea(2.0e5)},
-            "BC": {"nodes": ["B", "C"], "EA": ea(2.5e5)},
-            "CD": {"nodes": ["C", "D"], "EA": ea(2.0e5)},
-            "DA": {"nodes": ["D", "A"], "EA": ea(2.5e5)},
-            "AC": {"nodes": ["A", "C"], "EA": ea(1.0e5)},
-            "BD": {"nodes": ["B", "D"], "EA": ea(1.5e5)},
-        },
-        supports={"A": "pinned", "B": "pinned"},
+        **braced_bay_geometry(),
         loads=loads,
         analysis=analysis,
     )

@@ -196,7 +196,7 @@ def test_propped_cantilever_uniform_deflections():
 
 # =====================================================================================
 # Item 2 -- propped cantilever, central point load (AISC Manual beam formulas, secondary
-# transcription): 5P/16 at the prop, 11P/16 at the wall, fixed-end M = 3Pl/16,
+# source): 5P/16 at the prop, 11P/16 at the wall, fixed-end M = 3Pl/16,
 # M under the load 5Pl/32, deflection at the load 7Pl^3/(768 EI), maximum deflection
 # Pl^3/(48 sqrt5 EI) at l/sqrt5 = 0.4472 l from the simple end.
 # =====================================================================================

@@ -25,6 +25,7 @@ import pytest
 
 sys.path.insert(0, str(Path(__file__).parent))
 from _cases import (  # noqa: E402
+    braced_bay_geometry,
     case_text,
     ea,
     ei,
@@ -81,16 +82,7 @@ def triangle_truss():
 def braced_panel():
     return dict(
         name="double-braced bay on two pinned bases",
-        nodes={"A": (0.0, 0.0), "B": (4.0, 0.0), "C": (4.0, 3.0), "D": (0.0, 3.0)},
-        bars={
-            "AB": {"nodes": ["A", "B"], "EA": ea(2.0e5)},
-            "BC": {"nodes": ["B", "C"], "EA": ea(2.5e5)},
-            "CD": {"nodes": ["C", "D"], "EA": ea(2.0e5)},
-            "DA": {"nodes": ["D", "A"], "EA": ea(2.5e5)},
-            "AC": {"nodes": ["A", "C"], "EA": ea(1.0e5)},
-            "BD": {"nodes": ["B", "D"], "EA": ea(1.5e5)},
-        },
-        supports={"A": "pinned", "B": "pinned"},
+        **braced_bay_geometry(),
         loads=[{"node": "C", "fx": 20.0, "fy": -30.0}, {"node": "D", "fy": -40.0}],
     )
 
