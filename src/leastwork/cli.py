@@ -7,6 +7,7 @@ released structure is a mechanism; 1 only for a bug.
 from __future__ import annotations
 
 import argparse
+import io
 import json
 import sys
 
@@ -45,6 +46,18 @@ def _parser() -> argparse.ArgumentParser:
                    help="comma-separated redundants, e.g. C.y,BC (overrides the case)")
     s.add_argument("--at", metavar="LIST",
                    help="comma-separated displacements to add, e.g. B.y,C.rz,AB@2.5.y,A-C")
+    s.add_argument("--symbolic", action="store_true",
+                   help="keep every [parameters] name a symbol and give closed forms (sympy)")
+    s.add_argument("--time-limit", type=float, default=60.0, metavar="SECONDS",
+                   help="give up a --symbolic solve after this long (default 60)")
+    s.add_argument("--format", dest="doc_format", choices=("text", "md", "latex"),
+                   help="calculation sheet format: text (terminal), md (Markdown) or latex; "
+                        "md and latex always hold the whole audit trail")
+    s.add_argument("-o", "--output", metavar="FILE",
+                   help="write the result to FILE instead of the terminal (the format follows "
+                        "--format, --json or the suffix: .md, .tex, .json, .txt)")
+    s.add_argument("--force", action="store_true",
+                   help="replace FILE if it exists (never the case file itself)")
     c = sub.add_parser("check", help="indeterminacy, stability and suggested redundants",
                        description=_DESCRIPTION,
                        formatter_class=argparse.RawDescriptionHelpFormatter)
@@ -123,20 +136,110 @@ def _run(argv) -> int:
             raise CaseError(f'no load case "{args.load_case}"; the case has: '
                             + ", ".join(sol.cases), source="command line", where="--case")
         cases = [args.load_case]
-    if args.json:
+    fmt_name = _output_format(args)
+    if args.symbolic:
+        return _symbolic(args, st, names, cases, fmt_name)
+    if fmt_name == "json":
         d = sol.to_dict()
         if cases:
             d["cases"] = {k: v for k, v in d["cases"].items() if k in cases}
-        print(json.dumps(d, indent=2))
-        if not sol.equilibrium_ok:
-            print("leastwork: WARNING: the equilibrium check FAILED; do not use these results",
-                  file=sys.stderr)
-        return 0
-    if args.steps:
+        _emit(json.dumps(d, indent=2) + "\n", args, st)
+    elif fmt_name in ("md", "latex"):
+        _emit(_document(sol, cases, fmt_name), args, st)
+    elif args.output:
+        buf = Console(record=True, file=io.StringIO(), width=_FILE_WIDTH, color_system=None)
+        (print_steps if args.steps else print_summary)(buf, sol, cases)
+        _emit(buf.export_text(), args, st)
+    elif args.steps:
         print_steps(console, sol, cases)
     else:
         print_summary(console, sol, cases)
+    if not sol.equilibrium_ok and (fmt_name != "text" or args.output):
+        print("leastwork: WARNING: the equilibrium check FAILED; do not use these results",
+              file=sys.stderr)
     return 0
+
+
+#: Width of text written to a file (the terminal uses its own width).
+_FILE_WIDTH = 100
+
+_SUFFIX_FORMAT = {".md": "md", ".markdown": "md", ".tex": "latex", ".json": "json",
+                  ".txt": "text"}
+
+
+def _output_format(args) -> str:
+    """json, md, latex or text, from --json, --format or the suffix of -o."""
+    import pathlib
+
+    if args.json:
+        if args.doc_format not in (None, "text"):
+            raise CaseError("--json and --format md/latex exclude each other",
+                            source="command line", where="--format")
+        return "json"
+    if args.doc_format:
+        return args.doc_format
+    if args.output:
+        suffix = pathlib.Path(args.output).suffix.lower()
+        if suffix not in _SUFFIX_FORMAT:
+            raise CaseError(f'cannot tell the format of "{args.output}" from its suffix; give '
+                            "--format text|md|latex or --json, or name it .md, .tex, .json or "
+                            ".txt", source="command line", where="--output")
+        return _SUFFIX_FORMAT[suffix]
+    return "text"
+
+
+def _sheet_meta() -> dict[str, str]:
+    import datetime
+
+    return {"Prepared with": _version(), "Date": datetime.date.today().isoformat()}
+
+
+def _document(sol, cases, fmt_name: str, extra=None) -> str:
+    from .audit import audit_sheet
+    from .report.documents import sheet_latex, sheet_markdown
+
+    sheet = audit_sheet(sol, cases, meta=_sheet_meta())
+    return (sheet_markdown if fmt_name == "md" else sheet_latex)(sheet, extra)
+
+
+def _emit(text: str, args, st) -> None:
+    """Print ``text``, or write it to ``--output``: never over an existing file unless
+    --force, and never over the case file."""
+    import os
+    import pathlib
+    import tempfile
+
+    if not args.output:
+        sys.stdout.write(text)
+        return
+    path = pathlib.Path(args.output)
+    case = pathlib.Path(st.source)
+    if path.exists() and case.exists() and os.path.samefile(path, case):
+        raise CaseError("refusing to write the result over the case file itself",
+                        source="command line", where="--output")
+    if path.is_dir():
+        raise CaseError(f'"{path}" is a directory; give a file name', source="command line",
+                        where="--output")
+    if not path.parent.is_dir():
+        raise CaseError(f'folder "{path.parent}" does not exist', source="command line",
+                        where="--output")
+    if path.exists() and not args.force:
+        raise CaseError(f'"{path}" exists; choose another name or add --force to replace it',
+                        source="command line", where="--output")
+    if args.force:  # write beside it, then replace in one step
+        fd, tmp = tempfile.mkstemp(dir=path.parent, prefix=f".{path.name}.")
+        with os.fdopen(fd, "w", encoding="utf-8") as fh:
+            fh.write(text)
+        os.replace(tmp, path)
+    else:
+        with open(path, "x", encoding="utf-8") as fh:
+            fh.write(text)
+    print(f"leastwork: wrote {path}", file=sys.stderr)
+
+
+def _symbolic(args, st, names, cases, fmt_name) -> int:
+    raise CaseError("--symbolic is not available yet", source="command line",
+                    where="--symbolic")
 
 
 if __name__ == "__main__":  # pragma: no cover

@@ -18,40 +18,75 @@ compatibility equations; see :mod:`leastwork.solve`.
 
 from __future__ import annotations
 
+from dataclasses import dataclass
+
 import numpy as np
 
 from .fields import ParticularFields, gauss_integral
 from .model import Misfit, Structure, TemperatureLoad
 from .topology import Topology
 
-__all__ = ["flexibility_blocks", "initial_deformations", "thermal_strains"]
+__all__ = [
+    "FlexibilityTerm",
+    "DeformationTerm",
+    "flexibility_terms",
+    "flexibility_blocks",
+    "initial_deformation_terms",
+    "initial_deformations",
+    "thermal_strains",
+]
+
+
+@dataclass(frozen=True)
+class FlexibilityTerm:
+    """One energy term of F: ``block`` (SI) couples the basic forces of ``columns``.
+
+    ``owner`` is a member id or a restraint name; ``term`` is "axial", "bending", "shear" or
+    "spring".
+    """
+
+    owner: str
+    term: str
+    columns: tuple[int, ...]
+    block: np.ndarray
+
+
+def flexibility_terms(st: Structure, topo: Topology) -> list[FlexibilityTerm]:
+    """The energy terms of every member and spring, in member order then springs."""
+    out: list[FlexibilityTerm] = []
+    ci = topo.column_index
+    for m in st.members.values():
+        L = st.length(m.id)
+        axial = ci[m.id] if m.kind == "bar" else ci[f"{m.id}.n"]
+        if m.EA is not None:
+            out.append(FlexibilityTerm(m.id, "axial", (axial,), np.array([[L / m.EA]])))
+        if not m.is_beam:
+            continue
+        ends = [(k, ci.get(f"{m.id}.{k}.m")) for k in ("start", "end")]
+        keep = [i for i, (_, j) in enumerate(ends) if j is not None]
+        if not keep:
+            continue
+        cols = tuple(ends[i][1] for i in keep)
+        bend = np.array([[L / (3 * m.EI), L / (6 * m.EI)], [L / (6 * m.EI), L / (3 * m.EI)]])
+        out.append(FlexibilityTerm(m.id, "bending", cols, bend[np.ix_(keep, keep)]))
+        if st.shear and m.GAs:
+            shear = np.array([[1.0, -1.0], [-1.0, 1.0]]) / (L * m.GAs)
+            out.append(FlexibilityTerm(m.id, "shear", cols, shear[np.ix_(keep, keep)]))
+    for j, c in enumerate(topo.columns):
+        if c.kind == "reaction":
+            r = topo.restraints[c.restraint_index]
+            if r.is_spring:
+                out.append(FlexibilityTerm(c.name, "spring", (j,),
+                                           np.array([[1.0 / r.stiffness]])))
+    return out
 
 
 def flexibility_blocks(st: Structure, topo: Topology) -> np.ndarray:
     """Flexibility F of all columns (ncol x ncol), SI units; rigid reactions have zero."""
     n = len(topo.columns)
     F = np.zeros((n, n))
-    ci = topo.column_index
-    for m in st.members.values():
-        L = st.length(m.id)
-        axial = ci[m.id] if m.kind == "bar" else ci[f"{m.id}.n"]
-        if m.EA is not None:
-            F[axial, axial] = L / m.EA
-        if not m.is_beam:
-            continue
-        ends = [ci.get(f"{m.id}.start.m"), ci.get(f"{m.id}.end.m")]
-        block = np.array([[L / (3 * m.EI), L / (6 * m.EI)], [L / (6 * m.EI), L / (3 * m.EI)]])
-        if st.shear and m.GAs:
-            block = block + np.array([[1.0, -1.0], [-1.0, 1.0]]) / (L * m.GAs)
-        for a, ia in enumerate(ends):
-            for b, ib in enumerate(ends):
-                if ia is not None and ib is not None:
-                    F[ia, ib] += block[a, b]
-    for j, c in enumerate(topo.columns):
-        if c.kind == "reaction":
-            r = topo.restraints[c.restraint_index]
-            if r.is_spring:
-                F[j, j] = 1.0 / r.stiffness
+    for t in flexibility_terms(st, topo):
+        F[np.ix_(t.columns, t.columns)] += t.block
     return F
 
 
@@ -74,15 +109,34 @@ def thermal_strains(st: Structure, loads) -> dict[str, tuple[float, float, float
     return {k: (v[0], v[1], v[2]) for k, v in out.items()}
 
 
-def initial_deformations(
+@dataclass(frozen=True)
+class DeformationTerm:
+    """One initial deformation conjugate to basic force ``column`` (m or rad, SI).
+
+    ``effect`` is one of "span loads (axial)", "span loads (bending)", "span loads
+    (shear)", "temperature (uniform)", "temperature (gradient)", "misfit".
+    """
+
+    owner: str
+    effect: str
+    column: int
+    value: float
+
+
+def initial_deformation_terms(
     st: Structure,
     topo: Topology,
     particulars: dict[str, ParticularFields],
     imposed: dict[str, tuple[float, float, float]],
-) -> np.ndarray:
-    """Initial deformations e (ncol,) of one load case: m or rad per basic force."""
-    e = np.zeros(len(topo.columns))
+) -> list[DeformationTerm]:
+    """The initial deformations of one load case, member by member and effect by effect."""
+    out: list[DeformationTerm] = []
     ci = topo.column_index
+
+    def add(owner: str, effect: str, col: int | None, value: float) -> None:
+        if col is not None and value != 0.0:
+            out.append(DeformationTerm(owner, effect, col, float(value)))
+
     for m in st.members.values():
         L = st.length(m.id)
         axial = ci[m.id] if m.kind == "bar" else ci[f"{m.id}.n"]
@@ -91,22 +145,33 @@ def initial_deformations(
         if pf is not None:
             br = pf.m.breaks
             if m.EA is not None:
-                e[axial] += gauss_integral(br, pf.n) / m.EA
-            if i_s is not None:
-                e[i_s] += gauss_integral(br, lambda x, L=L, pf=pf: (1 - x / L) * pf.m(x)) / m.EI
-            if i_e is not None:
-                e[i_e] += gauss_integral(br, lambda x, L=L, pf=pf: (x / L) * pf.m(x)) / m.EI
+                add(m.id, "span loads (axial)", axial, gauss_integral(br, pf.n) / m.EA)
+            if m.is_beam:
+                add(m.id, "span loads (bending)", i_s, gauss_integral(
+                    br, lambda x, L=L, pf=pf: (1 - x / L) * pf.m(x)) / m.EI)
+                add(m.id, "span loads (bending)", i_e, gauss_integral(
+                    br, lambda x, L=L, pf=pf: (x / L) * pf.m(x)) / m.EI)
             if st.shear and m.GAs:
                 vint = gauss_integral(br, pf.v) / (L * m.GAs)
-                if i_s is not None:
-                    e[i_s] -= vint
-                if i_e is not None:
-                    e[i_e] += vint
+                add(m.id, "span loads (shear)", i_s, -vint)
+                add(m.id, "span loads (shear)", i_e, vint)
         if m.id in imposed:
             eps, kappa, misfit = imposed[m.id]
-            e[axial] += eps * L + misfit
-            if i_s is not None:
-                e[i_s] += kappa * L / 2
-            if i_e is not None:
-                e[i_e] += kappa * L / 2
+            add(m.id, "temperature (uniform)", axial, eps * L)
+            add(m.id, "misfit", axial, misfit)
+            add(m.id, "temperature (gradient)", i_s, kappa * L / 2)
+            add(m.id, "temperature (gradient)", i_e, kappa * L / 2)
+    return out
+
+
+def initial_deformations(
+    st: Structure,
+    topo: Topology,
+    particulars: dict[str, ParticularFields],
+    imposed: dict[str, tuple[float, float, float]],
+) -> np.ndarray:
+    """Initial deformations e (ncol,) of one load case: m or rad per basic force."""
+    e = np.zeros(len(topo.columns))
+    for t in initial_deformation_terms(st, topo, particulars, imposed):
+        e[t.column] += t.value
     return e

@@ -12,7 +12,7 @@ from numpy.polynomial import polynomial as P
 from .fields import Piecewise, gauss_integral
 from .model import DistributedLoad, NodalLoad, PointLoad, Structure
 
-__all__ = ["MemberResult", "CaseResult", "Solution", "EQUILIBRIUM_RTOL"]
+__all__ = ["MemberResult", "CaseResult", "Solution", "EQUILIBRIUM_RTOL", "member_result"]
 
 #: Relative tolerance of the equilibrium check (residual / force scale).
 EQUILIBRIUM_RTOL = 1e-8
@@ -34,7 +34,9 @@ class MemberResult:
     m_min: tuple[float, float]
 
 
-def _member_fields(st: Structure, topo, mid: str, s: np.ndarray, pf) -> MemberResult:
+def member_result(st: Structure, topo, mid: str, s: np.ndarray, pf) -> MemberResult:
+    """Section-force fields of member ``mid`` for basic forces ``s`` (SI) plus the span-load
+    fields ``pf`` (or None): the final member result, or the released structure's."""
     m = st.members[mid]
     L = st.length(mid)
     ci = topo.column_index
@@ -107,7 +109,7 @@ class CaseResult:
     @classmethod
     def build(cls, st: Structure, topo, loading, X, load_terms, Delta, s, s0, nodal_disp,
               deformations, released):
-        members = {mid: _member_fields(st, topo, mid, s, loading.particulars.get(mid))
+        members = {mid: member_result(st, topo, mid, s, loading.particulars.get(mid))
                    for mid in st.members}
         reactions: dict[str, dict[str, float]] = {}
         for sup in st.supports.values():

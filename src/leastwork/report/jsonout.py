@@ -11,6 +11,10 @@ __all__ = ["solution_to_dict", "SCHEMA", "quantity_factors"]
 
 SCHEMA = "leastwork.result/1"
 
+#: Section forces and reactions smaller than this fraction of the case's largest force
+#: (times the longest member for moments) are round-off and reported as zero.
+_ROUND_OFF = 1e-12
+
 
 def _is_moment_column(col) -> bool:
     return col.kind in ("start_m", "end_m") or (col.kind == "reaction" and col.name.endswith(".rz"))
@@ -39,24 +43,34 @@ def solution_to_dict(sol) -> dict:
     d_unit = [1.0 if _is_moment_column(c) else Lf for c in red_cols]
     flex = [[_num(sol.flexibility[i, j] * x_unit[j] / d_unit[i]) for j in range(len(red_cols))]
             for i in range(len(red_cols))]
+    lmax = max((st.length(m) for m in st.members), default=1.0)
     cases = {}
     for name, res in sol.cases.items():
+        # round-off below 1e-12 of the case's largest force (moment) is shown as zero
+        f_tol = _ROUND_OFF * res.equilibrium_scale
+        m_tol = f_tol * lmax
+
+        def force(x, f_tol=f_tol):
+            return _num(0.0 if abs(x) <= f_tol else x / Ff)
+
+        def moment(x, m_tol=m_tol):
+            return _num(0.0 if abs(x) <= m_tol else x / Mf)
+
         members = {}
         for mid, mr in res.members.items():
             members[mid] = {
-                "start": {"n": _num(mr.start[0] / Ff), "v": _num(mr.start[1] / Ff),
-                          "m": _num(mr.start[2] / Mf)},
-                "end": {"n": _num(mr.end[0] / Ff), "v": _num(mr.end[1] / Ff),
-                        "m": _num(mr.end[2] / Mf)},
-                "m_max": {"value": _num(mr.m_max[0] / Mf), "at": _num(mr.m_max[1] / Lf)},
-                "m_min": {"value": _num(mr.m_min[0] / Mf), "at": _num(mr.m_min[1] / Lf)},
+                "start": {"n": force(mr.start[0]), "v": force(mr.start[1]),
+                          "m": moment(mr.start[2])},
+                "end": {"n": force(mr.end[0]), "v": force(mr.end[1]), "m": moment(mr.end[2])},
+                "m_max": {"value": moment(mr.m_max[0]), "at": _num(mr.m_max[1] / Lf)},
+                "m_min": {"value": moment(mr.m_min[0]), "at": _num(mr.m_min[1] / Lf)},
             }
             if st.members[mid].is_beam:
                 w, at = deflection_extreme(st, topo, res, mid)
                 members[mid]["deflection_max"] = {"value": _num(w / Lf), "at": _num(at / Lf)}
         reactions = {}
         for node, comps in res.reactions.items():
-            reactions[node] = {d: _num(v / (Mf if d == "rz" else Ff)) for d, v in comps.items()}
+            reactions[node] = {d: moment(v) if d == "rz" else force(v) for d, v in comps.items()}
         disp = {}
         for t, v in res.displacements.items():
             disp[t] = _num(v if t.endswith(".rz") else v / Lf)

@@ -3,24 +3,17 @@
 from __future__ import annotations
 
 from rich.console import Console
+from rich.markup import escape
 from rich.panel import Panel
 from rich.table import Table
 
+from ..audit import ASSUMPTIONS, CAUTION, energy_terms
 from ..displacements import deflection_extreme
+from ..sheet import Formula, Grid, Para, Sheet, fmt, split_grid
 from .jsonout import _is_moment_column, quantity_factors
 
-__all__ = ["print_summary", "print_check", "print_steps", "CAUTION", "ASSUMPTIONS"]
-
-ASSUMPTIONS = (
-    "Linear elastic material, small displacements, plane (2D) structure; prismatic members; "
-    "energy terms: bending and axial (beams without a cross-section area are axially rigid), "
-    "axial for bars, springs; shear only when asked."
-)
-CAUTION = (
-    "These results come from an idealised model. They must be checked by a qualified "
-    "engineer against the governing local codes before they are used for any real structure."
-)
-
+__all__ = ["print_summary", "print_check", "print_steps", "print_sheet", "CAUTION", "ASSUMPTIONS",
+           "energy_terms"]
 
 def _g(x: float, sig: int = 5) -> str:
     if x == 0 or abs(x) < 1e-300:
@@ -36,28 +29,6 @@ def _g(x: float, sig: int = 5) -> str:
 
 def _clean(values, scale):
     return [0.0 if abs(v) < 1e-12 * scale else v for v in values]
-
-
-def energy_terms(st) -> str:
-    """Plain list of the energy terms this solve includes."""
-    terms = []
-    if any(m.is_beam for m in st.members.values()):
-        terms.append("bending (beams)")
-    if any(m.EA is not None for m in st.members.values()):
-        terms.append("axial (" + ", ".join(sorted({("bars" if not m.is_beam else "beams with an area")
-                                                  for m in st.members.values()
-                                                  if m.EA is not None})) + ")")
-    if st.shear:
-        terms.append("shear (beams)")
-    if any(r.is_spring for s in st.supports.values() for r in s.restraints):
-        terms.append("support springs")
-    rigid = [m.id for m in st.members.values() if m.is_beam and m.EA is None]
-    text = "Energy terms included: " + ", ".join(terms) + "."
-    if rigid:
-        text += f" Axially rigid (no area given): {', '.join(rigid)}."
-    if not st.shear and any(m.is_beam for m in st.members.values()):
-        text += " Shear energy not included."
-    return text
 
 
 def print_check(console: Console, st, topo, red_cols) -> None:
@@ -179,80 +150,44 @@ def print_summary(console: Console, sol, case_names=None) -> None:
 
 
 def print_steps(console: Console, sol, case_names=None) -> None:
-    """The audit trail: every step of the force method, numbered."""
-    st, topo = sol.structure, sol.topology
-    Ff, Lf, Mf = quantity_factors(st)
-    fu, lu = st.units.force, st.units.length
-    mu = f"{fu}*{lu}"
-    red = sol.redundant_columns
-    cols = topo.columns
-    console.print(f"[bold]{st.name}[/bold]  ({st.source})")
-    console.print(f"Assumptions: {ASSUMPTIONS}")
-    console.rule("Step 1 — the structure")
-    console.print(f"{len(st.nodes)} nodes, {len(st.members)} members "
-                  f"({sum(m.is_beam for m in st.members.values())} beams, "
-                  f"{sum(not m.is_beam for m in st.members.values())} bars), "
-                  f"{len(topo.restraints)} reaction components; {len(topo.dofs)} equilibrium "
-                  f"equations, {len(cols)} unknown forces.")
-    _indeterminacy(console, topo)
-    console.rule("Step 2 — redundants and the released structure")
-    how = "chosen by the user" if sol.chosen_by_user else (
-        "chosen automatically: member forces are kept, then reactions in the order written, "
-        "each only if clearly independent of those kept (pivoted elimination)")
-    console.print(f"Redundants ({how}): {', '.join(sol.redundant_names) or 'none'}")
-    for j in red:
-        c = cols[j]
-        what = {"reaction": f"support restraint {c.name} removed",
-                "axial": f"member {c.owner} cut (axial force released)",
-                "start_m": f"hinge put at the start of {c.owner}",
-                "end_m": f"hinge put at the end of {c.owner}"}[c.kind]
-        console.print(f"  X{red.index(j) + 1} = {c.name}: {what}")
-    console.print("Released structure: statically determinate and stable (its equilibrium "
-                  "matrix is square and non-singular).")
-    console.rule("Step 3 — unit-redundant force tables (released structure)")
-    names = [cols[j].name for j in red]
-    t = Table(header_style="bold")
-    t.add_column("force")
-    t.add_column("unit")
-    for i, _ in enumerate(red):
-        t.add_column(f"X{i + 1}=1", justify="right")
-    for k, c in enumerate(cols):
-        mom = _is_moment_column(c)
-        fac_row = Mf if mom else Ff
-        vals = []
-        for i, j in enumerate(red):
-            fac_x = Mf if _is_moment_column(cols[j]) else Ff
-            vals.append(_g(sol.B[k, i] * fac_x / fac_row))
-        t.add_row(c.name, (mu if mom else fu) + "/unit", *vals)
-    console.print(t)
-    console.rule("Step 4 — flexibility coefficients δij = Σ ∫ mi mj/EI + ni nj/EA"
-                 + (" + κ vi vj/GAs" if st.shear else "") + " (+ springs ri rj/k)")
-    x_unit = [Mf if _is_moment_column(cols[j]) else Ff for j in red]
-    d_unit = [1.0 if _is_moment_column(cols[j]) else Lf for j in red]
-    for i in range(len(red)):
-        for j in range(len(red)):
-            console.print(f"  δ{i + 1}{j + 1} = {_g(sol.flexibility[i, j] * x_unit[j] / d_unit[i])}")
-    for name in case_names or list(sol.cases):
-        res = sol.cases[name]
-        console.rule(f"Step 5 — compatibility equations ∂U/∂Xi = Δi, load case {name}")
-        for i in range(len(red)):
-            terms = " + ".join(f"{_g(sol.flexibility[i, j] * x_unit[j] / d_unit[i])}·X{j + 1}"
-                               for j in range(len(red)))
-            console.print(f"  {terms} + ({_g(res.load_terms[i] / d_unit[i])}) = "
-                          f"{_g(res.imposed[i] / d_unit[i])}")
-        console.rule(f"Step 6 — solution and superposition, load case {name}")
-        for i, n in enumerate(names):
-            unit = mu if _is_moment_column(cols[red[i]]) else fu
-            console.print(f"  X{i + 1} = {n} = {_g(res.redundants[i] / x_unit[i])} {unit}")
-        t = Table(header_style="bold", title="final = released under loads + Σ Xi · (unit state i)")
-        t.add_column("force")
-        t.add_column("under loads", justify="right")
-        t.add_column("final", justify="right")
-        for k, c in enumerate(cols):
-            fac = Mf if _is_moment_column(c) else Ff
-            t.add_row(c.name, _g(res.s0[k] / fac), _g(res.s[k] / fac))
-        console.print(t)
-        console.rule(f"Step 7 — equilibrium check, load case {name}")
-        status = "OK" if res.equilibrium_ok else "FAILED — DO NOT USE THESE NUMBERS"
-        console.print(f"  largest residual {_g(res.equilibrium_residual / Ff, 2)} {fu}: {status}")
-    print_summary(console, sol, case_names)
+    """The audit trail: every step of the force method, numbered (see :mod:`leastwork.audit`)."""
+    from ..audit import audit_sheet
+
+    print_sheet(console, audit_sheet(sol, case_names))
+
+
+_TONE = {"plain": "", "note": "dim", "warning": "yellow", "alarm": "bold red"}
+
+
+def print_sheet(console: Console, sheet: Sheet) -> None:
+    """A calculation sheet on the terminal; wide tables are split to the console width."""
+    console.print(f"[bold]{escape(sheet.title)}[/bold]  ({escape(sheet.source)})")
+    for text in sheet.assumptions:
+        console.print(escape(text))
+    for step in sheet.steps:
+        console.rule(f"Step {step.number} — {escape(step.title)}")
+        for block in step.blocks:
+            if isinstance(block, Para):
+                if block.tone == "alarm":
+                    console.print(Panel(escape(block.text), style="bold red"))
+                else:
+                    console.print(escape(block.text), style=_TONE[block.tone] or None)
+            elif isinstance(block, Formula):
+                console.print("  " + escape(block.text), highlight=False)
+            else:
+                for part in split_grid(block, console.width):
+                    console.print(_rich_table(part))
+    for text in sheet.cautions:
+        console.print(Panel(escape(text), title="Caution", style="yellow"))
+
+
+def _rich_table(grid: Grid) -> Table:
+    t = Table(title=escape(grid.title), header_style="bold", show_footer=False)
+    for k, h in enumerate(grid.headers):
+        text = all(isinstance(r[k], str) for r in grid.rows)
+        t.add_column(escape(h), justify="left" if k < grid.keys or text else "right")
+    for row in grid.rows:
+        t.add_row(*[escape(fmt(c)) for c in row])
+    if grid.total:
+        t.add_row(*[escape(fmt(c)) for c in grid.total], style="bold", end_section=False)
+    return t
