@@ -27,6 +27,7 @@ from .model import (
 )
 from .sheet import Formula, Grid, Para, Sheet, Step, fmt
 from .solution import member_result
+from .solve import CONDITION_WARN
 
 __all__ = ["audit_sheet", "ASSUMPTIONS", "CAUTION", "energy_terms"]
 
@@ -511,6 +512,10 @@ class _Context:
             "displacement at that redundant (zero unless a support settles there).")]
         if not nr:
             return Step(5, "Compatibility equations", (*blocks, Para("No redundants.")))
+        blocks.append(Para(
+            f"The flexibility matrix is symmetric (Maxwell-Betti); its condition number after "
+            f"scaling the diagonal to one is {fmt(self.sol.condition, 3)} (above "
+            f"{CONDITION_WARN:.0e} the tool warns and looks for better redundants)."))
         sym = [" + ".join(f"δ{i + 1}{j + 1}·X{j + 1}" for j in range(nr)) + f" + δ{i + 1}0"
                for i in range(nr)]
         for i in range(nr):

@@ -215,6 +215,7 @@ class Solution:
     cases: dict[str, CaseResult]
     warnings: tuple[str, ...] = ()
     released: object = None
+    condition: float = 1.0  #: condition number of the Jacobi-scaled flexibility matrix
 
     @property
     def redundant_names(self) -> list[str]:

@@ -21,9 +21,15 @@ from .errors import CaseError
 from .model import Structure
 from .solution import CaseResult, Solution
 from .statics import ReleasedStructure, case_loading
-from .topology import build_topology, choose_redundants
+from .topology import (
+    NEAR_MECHANISM,
+    build_topology,
+    choose_redundants,
+    soft_spring_warnings,
+    weakest_mode,
+)
 
-__all__ = ["solve"]
+__all__ = ["solve", "CONDITION_WARN"]
 
 
 def solve(structure: Structure, redundants=None, *, where: str | None = None) -> Solution:
@@ -58,12 +64,33 @@ def solve(structure: Structure, redundants=None, *, where: str | None = None) ->
         where = "--redundants" if redundants is not None else "[analysis] redundants"
     chosen_by_user = names is not None
     red = choose_redundants(st, topo, names, where=where)
-    released = ReleasedStructure(topo, red)
-    B = released.unit_redundant_states()
     F = flexibility_blocks(st, topo)
-    delta = B.T @ F @ B
-    delta = 0.5 * (delta + delta.T)
-    solver = _FlexibilitySolver(delta, [topo.columns[j].name for j in red], st.source)
+    released, B, delta, solver = _flexibility(st, topo, red, F)
+    notes: list[str] = []
+    if solver.cond > CONDITION_WARN:
+        alt = _better_choice(st, topo, F, red, solver.cond)
+        if alt is not None and not chosen_by_user:
+            notes.append(f"the first choice of redundants ({_names(topo, red)}) gave a "
+                         f"flexibility matrix with condition number {solver.cond:.2g}; "
+                         f"{_names(topo, alt[0])} was used instead (condition number "
+                         f"{alt[-1].cond:.2g})")
+            red, (released, B, delta, solver) = alt[0], alt[1:]
+        elif alt is not None:
+            notes.append(f"the flexibility matrix is ill-conditioned (condition number "
+                         f"{solver.cond:.2g}): digits of the redundants may be lost; the "
+                         f"redundants {_names(topo, alt[0])} would give "
+                         f"{alt[-1].cond:.2g}")
+        else:
+            notes.append(f"the flexibility matrix is ill-conditioned (condition number "
+                         f"{solver.cond:.2g}): digits of the redundants may be lost, whatever "
+                         "the redundants; check the model for near-mechanisms or members of "
+                         "wildly different stiffness")
+    ratio, mode = weakest_mode(st, topo)
+    if ratio < NEAR_MECHANISM:
+        notes.append(f"near-mechanism: the equilibrium matrix is almost singular (smallest "
+                     f"to largest singular value {ratio:.1e}); the weak mode moves "
+                     f"{', '.join(mode)} — bars or supports almost in line?")
+    notes.extend(soft_spring_warnings(st, topo))
     unit_loads = released.forces(np.eye(len(topo.dofs)))  # (ncol, ndof)
     results = {}
     for case in st.case_names:
@@ -81,7 +108,39 @@ def solve(structure: Structure, redundants=None, *, where: str | None = None) ->
                                          nodal_disp, d, released)
     _check_targets(st, topo)
     return Solution(st, topo, red, chosen_by_user, B, F, delta, results,
-                    warnings=tuple(solver.warnings), released=released)
+                    warnings=tuple(solver.warnings + notes), released=released,
+                    condition=solver.cond)
+
+
+#: Jacobi-scaled condition number of the flexibility matrix above which the choice of
+#: redundants is questioned (about half of double precision's 16 digits would be lost).
+CONDITION_WARN = 1e8
+
+
+def _flexibility(st: Structure, topo, red: list[int], F: np.ndarray):
+    """Released structure, unit states B, flexibility delta and its solver for ``red``."""
+    released = ReleasedStructure(topo, red)
+    B = released.unit_redundant_states()
+    delta = B.T @ F @ B
+    delta = 0.5 * (delta + delta.T)
+    solver = _FlexibilitySolver(delta, [topo.columns[j].name for j in red], st.source)
+    return released, B, delta, solver
+
+
+def _better_choice(st: Structure, topo, F: np.ndarray, red: list[int], cond: float):
+    """An alternative set of redundants (member forces rather than reactions) if its
+    flexibility matrix is at least ten times better conditioned, else None."""
+    alt = choose_redundants(st, topo, None, prefer="members")
+    if sorted(alt) == sorted(red):
+        return None
+    parts = _flexibility(st, topo, alt, F)
+    if parts[-1].cond * 10 < cond:
+        return (alt, *parts)
+    return None
+
+
+def _names(topo, red: list[int]) -> str:
+    return ", ".join(topo.columns[j].name for j in red)
 
 
 class _FlexibilitySolver:
@@ -93,6 +152,7 @@ class _FlexibilitySolver:
         self.source = source
         n = delta.shape[0]
         self.n = n
+        self.cond = 1.0
         if n == 0:
             return
         diag = np.diag(delta).copy()

@@ -22,7 +22,8 @@ import numpy as np
 from .errors import CaseError, MechanismError
 from .model import Structure, rotational_nodes
 
-__all__ = ["Column", "Topology", "build_topology", "choose_redundants", "structure_graph"]
+__all__ = ["Column", "Topology", "build_topology", "choose_redundants", "structure_graph",
+           "weakest_mode", "soft_spring_warnings", "NEAR_MECHANISM"]
 
 _RANK_TOL = 1e-9
 _GOOD_PIVOT = 1e-3
@@ -194,6 +195,66 @@ def _motion(M: np.ndarray, dofs) -> tuple[str, ...]:
     return tuple(d for d, v in zip(dofs, moving, strict=True) if v > 1e-6 * top)
 
 
+#: Equilibrium matrices whose smallest singular value (column-scaled) is below this fraction
+#: of the largest, yet above the rank tolerance, are reported as near-mechanisms.
+NEAR_MECHANISM = 1e-6
+
+
+def weakest_mode(st: Structure, topo: Topology) -> tuple[float, tuple[str, ...]]:
+    """Smallest singular value of the column-scaled equilibrium matrix over the largest,
+    and the nodal directions that move most in that mode (the left singular vector).
+
+    A ratio near zero means the structure is close to a mechanism: some nodal motion is
+    resisted only through an almost singular geometry (bars almost in line, supports
+    almost parallel). Only meaningful for a stable structure.
+    """
+    S = _scaled(topo.A, topo.dofs, st)
+    if S.size == 0:
+        return 1.0, ()
+    u, sv, _ = np.linalg.svd(S, full_matrices=False)
+    if sv.size < len(topo.dofs) or sv[0] == 0:
+        return 0.0, ()
+    mode = np.abs(u[:, -1])
+    top = mode.max()
+    return float(sv[-1] / sv[0]), tuple(d for d, v in zip(topo.dofs, mode, strict=True)
+                                        if v > 0.3 * top)
+
+
+def soft_spring_warnings(st: Structure, topo: Topology, ratio: float = 1e-6) -> list[str]:
+    """Springs without which the structure is a mechanism and whose stiffness is below
+    ``ratio`` times the stiffness of the members it works with (EA/L or EI/L^3 scale):
+    the structure stands only on that spring."""
+    out = []
+    S = _scaled(topo.A, topo.dofs, st)
+    member_k = []
+    for m in st.members.values():
+        L = st.length(m.id)
+        if m.EA is not None:
+            member_k.append(m.EA / L)
+        if m.is_beam and m.EI:
+            member_k.append(m.EI / L ** 3)
+    if not member_k:
+        return out
+    k_ref = float(np.median(member_k))
+    for j, c in enumerate(topo.columns):
+        if c.kind != "reaction":
+            continue
+        r = topo.restraints[c.restraint_index]
+        if not r.is_spring:
+            continue
+        kdim = r.stiffness if r.direction != "rz" else r.stiffness / max(
+            st.length(m) for m in st.members) ** 2
+        if kdim >= ratio * k_ref:
+            continue
+        rest = np.delete(S, j, axis=1)
+        if _rank(rest) < len(topo.dofs):
+            out.append(f"the structure stands only on spring {c.name}, whose stiffness is "
+                       f"{kdim / k_ref:.1e} of the members' (median EA/L, EI/L^3): a "
+                       "near-mechanism; large displacements and a poorly determined answer "
+                       "are to be expected")
+    return out
+
+
 def _describe(motion: tuple[str, ...]) -> str:
     return ", ".join(motion) if motion else "(not identified)"
 
@@ -211,7 +272,7 @@ def check_stable(st: Structure, topo: Topology) -> None:
 
 
 def choose_redundants(st: Structure, topo: Topology, names=None, where: str = "[analysis] "
-                      "redundants") -> list[int]:
+                      "redundants", *, prefer: str = "reactions") -> list[int]:
     """Column indices of the redundants.
 
     Automatic choice: a greedy column selection keeps member forces first (bars and beam
@@ -223,6 +284,10 @@ def choose_redundants(st: Structure, topo: Topology, names=None, where: str = "[
 
     A user's choice is checked: names must exist, their number must equal the degree, and the
     released structure must be stable (else MechanismError naming the free motion).
+
+    ``prefer="members"`` keeps reactions first instead, so that member forces (beam end
+    moments, bar forces) become the redundants: the alternative tried when the flexibility
+    matrix of the first choice is ill-conditioned.
     """
     check_stable(st, topo)
     S = _scaled(topo.A, topo.dofs, st)
@@ -253,6 +318,9 @@ def choose_redundants(st: Structure, topo: Topology, names=None, where: str = "[
         return idx
     dropped_rank = _rank(S)
     order = _keep_order(st, topo)
+    if prefer == "members":
+        members = [j for j in order if topo.columns[j].kind != "reaction"]
+        order = [j for j in order if j not in members] + members
     kept: list[int] = []
     Q = np.zeros((S.shape[0], 0))
     for threshold in (_GOOD_PIVOT, _RANK_TOL * 10):

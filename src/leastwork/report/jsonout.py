@@ -87,6 +87,7 @@ def solution_to_dict(sol) -> dict:
                 "equilibrium_residual": _num(res.equilibrium_residual / Ff),
                 "equilibrium_ok": bool(res.equilibrium_ok),
                 "equilibrium_tolerance": _num(EQUILIBRIUM_RTOL * res.equilibrium_scale / Ff),
+                "flexibility_condition": _num(sol.condition),
             },
         }
     return {

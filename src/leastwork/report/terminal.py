@@ -71,6 +71,9 @@ def print_summary(console: Console, sol, case_names=None) -> None:
     _indeterminacy(console, topo)
     how = "chosen by the user" if sol.chosen_by_user else "chosen automatically"
     console.print(f"Redundants ({how}): [bold]{', '.join(sol.redundant_names) or 'none'}[/bold]")
+    if sol.redundant_names:
+        console.print(f"Flexibility matrix: condition number {_g(sol.condition, 3)} "
+                      "(after scaling its diagonal to one).")
     for w in sol.warnings:
         console.print(f"[yellow]Warning: {w}[/yellow]")
     for name in case_names or list(sol.cases):
