@@ -100,7 +100,7 @@ class UnitSystem:
             return float(q.to(target).magnitude)
         except Exception as exc:  # pint.DimensionalityError and friends
             raise ValueError(
-                f"expected a {dimension} (e.g. {example_for(dimension)}), got {format_quantity(q)}"
+                f"expected {with_article(dimension)} (e.g. {example_for(dimension)}), got {format_quantity(q)}"
             ) from exc
 
 
@@ -150,6 +150,15 @@ _EXAMPLES = {
     "angle": '"30 deg"',
     "number": "3",
 }
+
+
+def with_article(noun: str) -> str:
+    """``noun`` with its indefinite article.
+
+    >>> with_article("angle"), with_article("force")
+    ('an angle', 'a force')
+    """
+    return ("an " if noun[:1].lower() in "aeiou" else "a ") + noun
 
 
 def example_for(dimension: str) -> str:
