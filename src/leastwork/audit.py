@@ -652,9 +652,25 @@ class _Context:
                                    f"residual {fmt(ch['equilibrium_residual'])} {self.u.fu} "
                                    f"exceeds {fmt(ch['equilibrium_tolerance'])}. These numbers "
                                    "must not be used.", "alarm"))
+        for case in self.cases:
+            c = self.sol.cases[case].stiffness
+            if c is None:
+                blocks.append(Para(f"Load case {case}: no cross-check by the direct stiffness "
+                                   "method (skipped).", "note"))
+            elif c.ok:
+                blocks.append(Para(f"Load case {case}: the independent direct stiffness method "
+                                   f"agrees: largest difference of reactions and end forces "
+                                   f"{fmt(c.difference, 2)} of the largest force."))
+            else:
+                blocks.append(Para(f"Load case {case}: CROSS-CHECK FAILED — the direct "
+                                   "stiffness method " + (f"gives no answer ({c.failure})"
+                                   if c.difference is None else f"differs by "
+                                   f"{fmt(c.difference, 2)} of the largest force at {c.where}")
+                                   + ". These numbers must not be used before the cause is "
+                                   "found.", "alarm"))
         for w in self.sol.warnings:
             blocks.append(Para(f"Warning: {w}", "warning"))
-        return Step(8, "Equilibrium check and caution", tuple(blocks))
+        return Step(8, "Equilibrium check, cross-check and caution", tuple(blocks))
 
 
 def _virtual_state(st, topo, res, target: str):

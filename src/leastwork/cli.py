@@ -46,6 +46,8 @@ def _parser() -> argparse.ArgumentParser:
                    help="comma-separated redundants, e.g. C.y,BC (overrides the case)")
     s.add_argument("--at", metavar="LIST",
                    help="comma-separated displacements to add, e.g. B.y,C.rz,AB@2.5.y,A-C")
+    s.add_argument("--no-verify", action="store_true",
+                   help="skip the cross-check by the independent direct-stiffness solver")
     s.add_argument("--symbolic", action="store_true",
                    help="keep every [parameters] name a symbol and give closed forms (sympy)")
     s.add_argument("--time-limit", type=float, default=60.0, metavar="SECONDS",
@@ -129,7 +131,7 @@ def _run(argv) -> int:
     if args.redundants is not None and not names:
         raise CaseError("expected a comma-separated list of redundants", source="command line",
                         where="--redundants")
-    sol = solve(st, names)
+    sol = solve(st, names, verify=False if args.no_verify else None)
     cases = None
     if args.load_case is not None:
         if args.load_case not in sol.cases:
@@ -154,9 +156,13 @@ def _run(argv) -> int:
         print_steps(console, sol, cases)
     else:
         print_summary(console, sol, cases)
-    if not sol.equilibrium_ok and (fmt_name != "text" or args.output):
-        print("leastwork: WARNING: the equilibrium check FAILED; do not use these results",
-              file=sys.stderr)
+    if fmt_name != "text" or args.output:
+        if not sol.equilibrium_ok:
+            print("leastwork: WARNING: the equilibrium check FAILED; do not use these results",
+                  file=sys.stderr)
+        if not sol.cross_check_ok:
+            print("leastwork: WARNING: the direct-stiffness cross-check DISAGREES or failed; "
+                  "see the warnings", file=sys.stderr)
     return 0
 
 

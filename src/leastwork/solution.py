@@ -16,6 +16,9 @@ __all__ = ["MemberResult", "CaseResult", "Solution", "EQUILIBRIUM_RTOL", "member
 
 #: Relative tolerance of the equilibrium check (residual / force scale).
 EQUILIBRIUM_RTOL = 1e-8
+#: Smallest force scale of a case (N): a case whose forces are all zero (a determinate
+#: structure that is only heated, say) is checked against this instead of against zero.
+FORCE_FLOOR = 1e-3
 
 
 @dataclass(frozen=True)
@@ -101,6 +104,7 @@ class CaseResult:
     deformations: np.ndarray | None = None  #: F s + e, per column (ncol,)
     released: object = None  #: the ReleasedStructure, for unit-load displacements
     displacements: dict[str, float] = field(default_factory=dict)
+    stiffness: object = None  #: checks.StiffnessCheck, or None when not cross-checked
 
     @property
     def equilibrium_ok(self) -> bool:
@@ -125,6 +129,7 @@ class CaseResult:
                     out[r.direction] = out.get(r.direction, 0.0) + val
             reactions[sup.node] = out
         resid, scale = _equilibrium(st, topo, loading, members, reactions)
+        scale = max(scale, FORCE_FLOOR)
         res = cls(loading.name, X, load_terms, Delta, s, s0, nodal_disp, members, reactions,
                   resid, scale, loading, deformations=deformations, released=released)
         from .displacements import evaluate_target
@@ -224,6 +229,11 @@ class Solution:
     @property
     def equilibrium_ok(self) -> bool:
         return all(c.equilibrium_ok for c in self.cases.values())
+
+    @property
+    def cross_check_ok(self) -> bool:
+        """No load case disagrees with (or failed in) the direct-stiffness cross-check."""
+        return all(c.stiffness is None or c.stiffness.ok for c in self.cases.values())
 
     def to_dict(self) -> dict:
         """The JSON result (contract section 4), every number in the case units."""

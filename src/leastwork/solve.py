@@ -32,7 +32,8 @@ from .topology import (
 __all__ = ["solve", "CONDITION_WARN"]
 
 
-def solve(structure: Structure, redundants=None, *, where: str | None = None) -> Solution:
+def solve(structure: Structure, redundants=None, *, where: str | None = None,
+          verify: bool | None = None) -> Solution:
     """Solve a structure by the least-work (force) method.
 
     Parameters
@@ -44,6 +45,10 @@ def solve(structure: Structure, redundants=None, *, where: str | None = None) ->
         structure's own ``[analysis] redundants`` or an automatic choice.
     where : str, optional
         Where the redundants were given, for error messages.
+    verify : bool, optional
+        Cross-check every load case with the independent direct-stiffness solver
+        (:mod:`leastwork.checks`). Default: when the structure is small enough for it to be
+        instant.
 
     Returns
     -------
@@ -107,6 +112,15 @@ def solve(structure: Structure, redundants=None, *, where: str | None = None) ->
         results[case] = CaseResult.build(st, topo, loading, X, load_terms, Delta, s, s0,
                                          nodal_disp, d, released)
     _check_targets(st, topo)
+    from .checks import should_verify, stiffness_check
+
+    if verify is None:
+        verify = should_verify(st)
+    if verify:
+        for res in results.values():
+            res.stiffness = stiffness_check(st, res)
+            if not res.stiffness.ok:
+                notes.append(_disagreement(res))
     return Solution(st, topo, red, chosen_by_user, B, F, delta, results,
                     warnings=tuple(solver.warnings + notes), released=released,
                     condition=solver.cond)
@@ -137,6 +151,16 @@ def _better_choice(st: Structure, topo, F: np.ndarray, red: list[int], cond: flo
     if parts[-1].cond * 10 < cond:
         return (alt, *parts)
     return None
+
+
+def _disagreement(res) -> str:
+    c = res.stiffness
+    if c.difference is None:
+        return (f"load case {res.name}: the direct-stiffness cross-check gave no answer "
+                f"({c.failure}); the force-method result is unconfirmed")
+    return (f"LOAD CASE {res.name}: THE FORCE METHOD AND THE DIRECT-STIFFNESS CROSS-CHECK "
+            f"DISAGREE (largest difference {c.difference:.2e} of the largest force, at "
+            f"{c.where}); do not use these results before the cause is found")
 
 
 def _names(topo, red: list[int]) -> str:

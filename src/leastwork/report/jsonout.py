@@ -74,6 +74,16 @@ def solution_to_dict(sol) -> dict:
         disp = {}
         for t, v in res.displacements.items():
             disp[t] = _num(v if t.endswith(".rz") else v / Lf)
+        checks = {
+            "equilibrium_residual": _num(res.equilibrium_residual / Ff),
+            "equilibrium_ok": bool(res.equilibrium_ok),
+            "equilibrium_tolerance": _num(EQUILIBRIUM_RTOL * res.equilibrium_scale / Ff),
+            "flexibility_condition": _num(sol.condition),
+        }
+        if res.stiffness is not None:
+            checks["stiffness_difference"] = (None if res.stiffness.difference is None
+                                              else _num(res.stiffness.difference))
+            checks["stiffness_ok"] = bool(res.stiffness.ok)
         cases[name] = {
             "redundants": {c.name: _num(x / xu) for c, x, xu in zip(red_cols, res.redundants,
                                                                     x_unit, strict=True)},
@@ -83,12 +93,7 @@ def solution_to_dict(sol) -> dict:
             "reactions": reactions,
             "members": members,
             "displacements": disp,
-            "checks": {
-                "equilibrium_residual": _num(res.equilibrium_residual / Ff),
-                "equilibrium_ok": bool(res.equilibrium_ok),
-                "equilibrium_tolerance": _num(EQUILIBRIUM_RTOL * res.equilibrium_scale / Ff),
-                "flexibility_condition": _num(sol.condition),
-            },
+            "checks": checks,
         }
     return {
         "schema": SCHEMA,

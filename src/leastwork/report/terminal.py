@@ -149,7 +149,24 @@ def print_summary(console: Console, sol, case_names=None) -> None:
         status = "[green]OK[/green]" if res.equilibrium_ok else "[bold red]FAILED[/bold red]"
         console.print(f"Equilibrium check: largest residual {_g(res.equilibrium_residual / Ff, 2)}"
                       f" {fu} — {status}")
+        _print_cross_check(console, res)
     console.print(Panel(CAUTION, title="Caution", style="yellow"))
+
+
+def _print_cross_check(console: Console, res) -> None:
+    c = res.stiffness
+    if c is None:
+        console.print("Cross-check by the direct stiffness method: not run.")
+    elif c.ok:
+        console.print(f"Cross-check by the direct stiffness method: largest difference "
+                      f"{_g(c.difference, 2)} of the largest force — [green]agrees[/green]")
+    else:
+        text = (f"CROSS-CHECK FAILED: the direct stiffness method gives no answer ({c.failure})"
+                if c.difference is None else
+                f"CROSS-CHECK FAILED: the direct stiffness method differs by "
+                f"{_g(c.difference, 2)} of the largest force (at {c.where}). Do not use these "
+                "numbers before the cause is found.")
+        console.print(Panel(escape(text), style="bold red"))
 
 
 def print_steps(console: Console, sol, case_names=None) -> None:

@@ -1,0 +1,70 @@
+"""The second opinion: the force method's answer compared with the independent
+direct-stiffness solver (:mod:`leastwork.stiffness`)."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from .errors import CaseError, MechanismError
+from .stiffness import solve_stiffness, stiffness_dofs
+
+__all__ = ["StiffnessCheck", "stiffness_check", "should_verify", "STIFFNESS_RTOL",
+           "VERIFY_MAX_DOFS"]
+
+#: Largest accepted difference between the two methods, relative to the case's largest
+#: force (moments divided by the longest member).
+STIFFNESS_RTOL = 1e-7
+#: Structures with more free degrees of freedom than this are not cross-checked by default
+#: (the check would no longer be instant).
+VERIFY_MAX_DOFS = 3000
+
+
+@dataclass(frozen=True)
+class StiffnessCheck:
+    """Largest difference of reactions and member end forces between the two methods,
+    relative to the largest force of the case; ``where`` names it; ``failure`` says why the
+    stiffness solver gave no answer (then ``difference`` is None)."""
+
+    difference: float | None
+    where: str = ""
+    failure: str = ""
+
+    @property
+    def ok(self) -> bool:
+        return self.difference is not None and self.difference <= STIFFNESS_RTOL
+
+
+def stiffness_check(st, res) -> StiffnessCheck:
+    """Compare load case ``res`` (a :class:`~leastwork.solution.CaseResult`) of structure
+    ``st`` with the direct stiffness method."""
+    try:
+        other = solve_stiffness(st, res.name)
+    except (CaseError, MechanismError) as exc:
+        return StiffnessCheck(None, failure=str(exc))
+    lref = max((st.length(m) for m in st.members), default=1.0)
+    scale = max([res.equilibrium_scale]
+                + [abs(v) for c in other.reactions.values() for k, v in c.items() if k != "rz"]
+                + [abs(v) for ends in other.end_forces.values() for e in ends for v in e[:2]])
+    worst, where = 0.0, ""
+
+    def compare(a: float, b: float, name: str, moment: bool) -> None:
+        nonlocal worst, where
+        d = abs(a - b) / (scale * (lref if moment else 1.0))
+        if d > worst:
+            worst, where = d, name
+
+    for node, comps in res.reactions.items():
+        theirs = other.reactions.get(node, {})
+        for k, v in comps.items():
+            compare(v, theirs.get(k, 0.0), f"reaction {node}.{k}", k == "rz")
+    for mid, mr in res.members.items():
+        ts, te = other.end_forces[mid]
+        for end, ours, their in (("start", mr.start, ts), ("end", mr.end, te)):
+            for q, a, b in zip("nvm", ours, their, strict=True):
+                compare(a, b, f"{mid} {end} {q}", q == "m")
+    return StiffnessCheck(worst, where)
+
+
+def should_verify(st) -> bool:
+    """Small enough for the cross-check to be instant."""
+    return stiffness_dofs(st) <= VERIFY_MAX_DOFS

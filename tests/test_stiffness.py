@@ -1,0 +1,471 @@
+"""The independent direct stiffness solver (leastwork.stiffness).
+
+* Every bundled case file and every load case: the force method and the stiffness method
+  agree on reactions and member end forces to 1e-8 of the largest force of the case, and on
+  node displacements to 1e-8 of the largest displacement (agreement of two methods).
+* The stiffness solver alone against handbook closed forms and facts of the trade.
+* Axially rigid members are exact constraints; mechanisms and over-constrained rigid parts
+  are reported; the solver stays sparse and fast at 10^4 degrees of freedom.
+"""
+
+from __future__ import annotations
+
+import math
+import sys
+import time
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+sys.path.insert(0, str(Path(__file__).parent))
+from _cases import case_text, ea, ei, straight_beam  # noqa: E402
+
+import leastwork  # noqa: E402
+from leastwork.errors import CaseError, MechanismError  # noqa: E402
+from leastwork.model import (  # noqa: E402
+    DistributedLoad,
+    Member,
+    Node,
+    Restraint,
+    Settlement,
+    Structure,
+    Support,
+)
+from leastwork.stiffness import StiffnessResult, solve_stiffness, stiffness_dofs  # noqa: E402
+
+CASES_DIR = Path(__file__).resolve().parent.parent / "cases"
+CASE_FILES = sorted(CASES_DIR.glob("*.toml"))
+REL = 1e-8
+KN = 1.0e3  # N per kN: the stiffness solver works in SI units
+
+
+def _all_cases():
+    out = []
+    for path in CASE_FILES:
+        st = leastwork.load_case(path)
+        out += [pytest.param(path, name, id=f"{path.stem}-{name}") for name in st.case_names]
+    return out
+
+
+def _scales(st: Structure, cr) -> tuple[float, float, float]:
+    """(force, moment, displacement) scales of a force-method case result."""
+    lmax = max(st.length(m) for m in st.members)
+    forces = [abs(v) for rs in cr.reactions.values() for k, v in rs.items() if k != "rz"]
+    forces += [abs(v) for m in cr.members.values() for v in (*m.start[:2], *m.end[:2])]
+    dofs = cr.released.topo.dofs
+    u = cr.nodal_displacements
+    trans = max(abs(v) for d, v in zip(dofs, u) if not d.endswith(".rz"))
+    rot = max([abs(v) for d, v in zip(dofs, u) if d.endswith(".rz")], default=0.0)
+    # floor: a millionth of the natural displacement (force * L^3 / EI or force * L / EA),
+    # for a case in which hardly any node moves (round-off is ~1e-16 of it)
+    flex = [lmax**3 / m.EI for m in st.members.values() if m.EI]
+    flex += [lmax / m.EA for m in st.members.values() if m.EA]
+    return max(forces), max(forces) * lmax, max(trans, rot * lmax, 1e-6 * max(forces) * max(flex))
+
+
+def _assert_agree(st: Structure, sol, name: str, res: StiffnessResult, rel: float = REL):
+    cr = sol.cases[name]
+    fs, ms, us = _scales(st, cr)
+    lmax = max(st.length(m) for m in st.members)
+    for node, rs in cr.reactions.items():
+        assert set(res.reactions[node]) == set(rs), node
+        for k, v in rs.items():
+            scale = ms if k == "rz" else fs
+            assert abs(res.reactions[node][k] - v) <= rel * scale, f"reaction {node}.{k}"
+    for mid, mr in cr.members.items():
+        for i, want in enumerate((mr.start, mr.end)):
+            got = res.end_forces[mid][i]
+            for label, g, w, s in zip("nvm", got, want, (fs, fs, ms)):
+                assert abs(g - w) <= rel * s, f"{mid} {('start', 'end')[i]} {label}: {g} vs {w}"
+    di = sol.topology.dof_index
+    for node, (ux, uy, rz) in res.displacements.items():
+        for d, v in (("x", ux), ("y", uy), ("rz", rz)):
+            key = f"{node}.{d}"
+            assert (v is None) == (key not in di), key
+            if v is not None:
+                scale = us / lmax if d == "rz" else us
+                assert abs(v - cr.nodal_displacements[di[key]]) <= rel * scale, key
+    for target, value in cr.displacements.items():
+        node, _, d = target.partition(".")
+        if node in res.displacements and d in ("x", "y", "rz"):
+            v = res.displacements[node][("x", "y", "rz").index(d)]
+            scale = us / lmax if d == "rz" else us
+            assert abs(v - value) <= rel * scale, target
+
+
+# ---------------------------------------------------------------- bundled cases
+
+
+@pytest.mark.parametrize("path,name", _all_cases())
+def test_bundled_case_agrees_with_force_method(path, name):
+    st = leastwork.load_case(path)
+    sol = leastwork.solve(st)
+    _assert_agree(st, sol, name, solve_stiffness(st, name))
+
+
+#: Free dofs of the bundled cases, counted by hand: x, y at every node, rz where a beam end
+#: is rigidly joined, less one per rigid restraint (springs add none).
+BUNDLED_DOFS = {
+    "braced-bay-fitup": 4 * 2 - 4,  # bars only, two pinned bases
+    "canopy-prop": 3 + 3 + 2 - 3 - 2,  # A fixed, B beam end, C bar foot pinned
+    "floor-beam-3span": 4 * 3 - 2 - 3,  # pinned + three rollers
+    "footbridge-truss": 10 * 2 - 4,  # two pinned abutments
+    "portal-frame": 5 * 3 - 6,  # two fixed bases
+    "ramp-on-pile": 3 * 3 - 2 - 1,  # pinned, spring, inclined roller
+    "settlement-and-heat": 3 * 3 - 2 - 2,  # pinned + two rollers
+    "tied-beam": 3 + 3 + 3 + 2 + 3 - 6,  # D: bar end only; three pinned supports
+}
+
+
+@pytest.mark.parametrize("stem", BUNDLED_DOFS)
+def test_bundled_case_dof_counts(stem):
+    assert stiffness_dofs(leastwork.load_case(CASES_DIR / f"{stem}.toml")) == BUNDLED_DOFS[stem]
+
+
+# ---------------------------------------------------------------- closed forms
+
+
+def _solve_text(text: str, case: str = "default") -> tuple[Structure, StiffnessResult]:
+    st = leastwork.loads_case(text, source="<test>")
+    return st, solve_stiffness(st, case)
+
+
+def test_propped_cantilever_uniform_load():
+    """AISC Steel Construction Manual, Beam Diagrams and Formulas, case 12 (beam fixed at
+    one end, supported at the other, uniformly distributed load); Roark's Formulas for
+    Stress and Strain, Table 8.1: prop reaction 3wL/8, fixed-end moment wL^2/8."""
+    w, L = 12.0, 7.0
+    _, r = _solve_text(straight_beam({"A": 0.0, "B": L}, {"A": "fixed", "B": "roller"},
+                                     [{"member": "AB", "wy": -w}], EI=30000.0))
+    wN = w * KN
+    assert r.reactions["B"]["y"] == pytest.approx(3 * wN * L / 8, rel=1e-12)
+    assert r.reactions["A"]["y"] == pytest.approx(5 * wN * L / 8, rel=1e-12)
+    assert r.reactions["A"]["rz"] == pytest.approx(wN * L**2 / 8, rel=1e-12)  # CCW on the beam
+    assert r.end_forces["AB"][0][2] == pytest.approx(-wN * L**2 / 8, rel=1e-12)  # hogging
+    assert abs(r.end_forces["AB"][1][2]) <= 1e-12 * wN * L**2
+
+
+def test_fixed_fixed_beam_central_point_load():
+    """AISC Steel Construction Manual, Beam Diagrams and Formulas, beam fixed at both ends,
+    concentrated load at center (from memory); Roark Table 8.1: end moments PL/8 (hogging),
+    end shears P/2."""
+    P, L = 40.0, 6.0
+    _, r = _solve_text(straight_beam({"A": 0.0, "B": L}, {"A": "fixed", "B": "fixed"},
+                                     [{"member": "AB", "at": L / 2, "fy": -P}], EI=25000.0,
+                                     EA=2.0e6))
+    PN = P * KN
+    (n0, v0, m0), (nL, vL, mL) = r.end_forces["AB"]
+    assert m0 == pytest.approx(-PN * L / 8, rel=1e-12)
+    assert mL == pytest.approx(-PN * L / 8, rel=1e-12)
+    assert v0 == pytest.approx(PN / 2, rel=1e-12)
+    assert vL == pytest.approx(-PN / 2, rel=1e-12)
+    assert r.reactions["A"]["y"] == pytest.approx(PN / 2, rel=1e-12)
+
+
+def test_restrained_heated_bar():
+    """A bar held between two walls and warmed by dT carries N = -EA alpha dT (common
+    practice); its nodes do not move."""
+    EA, alpha, dT = 4.0e5, 1.2e-5, 30.0
+    text = case_text("heated tie", {"A": (0.0, 0.0), "B": (3.0, 4.0)},
+                     bars={"AB": {"nodes": ["A", "B"], "EA": ea(EA), "material": "hot"}},
+                     supports={"A": "pinned", "B": "pinned"},
+                     loads=[{"member": "AB", "temperature": {"uniform": dT}}])
+    text += '\n[materials.hot]\nE = "200 GPa"\nalpha = "1.2e-5 1/K"\n'
+    _, r = _solve_text(text)
+    N = -EA * KN * alpha * dT
+    assert r.end_forces["AB"][0][0] == pytest.approx(N, rel=1e-12)
+    assert r.end_forces["AB"][1][0] == pytest.approx(N, rel=1e-12)
+    # the heated bar pushes the wall at A away from B: reaction on the bar at A is along +AB
+    assert r.reactions["A"]["x"] == pytest.approx(-N * 0.6, rel=1e-12)
+    assert r.reactions["A"]["y"] == pytest.approx(-N * 0.8, rel=1e-12)
+    assert max(abs(v) for v in r.displacements["B"][:2]) <= 1e-15
+
+
+def test_cantilever_with_shear_deformation():
+    """Tip deflection of a cantilever under an end load with shear energy of unit shear
+    factor: P L^3 / (3 EI) + P L / (G As) (from memory; bending term Roark Table 8.1)."""
+    P, L, EI, GAs = 10.0, 2.5, 8000.0, 2.0e4
+    text = case_text("stub bracket", {"A": (0.0, 0.0), "B": (L, 0.0)},
+                     beams={"AB": {"nodes": ["A", "B"], "EI": ei(EI), "section": "web"}},
+                     supports={"A": "fixed"}, loads=[{"node": "B", "fy": -P}],
+                     analysis={"shear": True})
+    text += ('\n[materials.steel]\nE = "200 GPa"\nG = "80 GPa"\n'
+             f'[sections.web]\nshear_area = "{GAs / 8.0e7!r} m^2"\n'
+             '[defaults]\nmaterial = "steel"\n')
+    _, r = _solve_text(text)
+    expected = -(P * L**3 / (3 * EI) + P * L / GAs)  # kN and m: metres
+    assert r.displacements["B"][1] == pytest.approx(expected, rel=1e-12)
+    assert r.displacements["B"][2] == pytest.approx(-P * L**2 / (2 * EI), rel=1e-12)
+
+
+def test_fixed_fixed_beam_end_settlement():
+    """Fixed-fixed beam with one end displaced by D: M = 6 EI D / L^2 at both ends,
+    V = 12 EI D / L^3 (Roark Table 8.1; slope-deflection equations, from memory)."""
+    L, EI, D = 5.0, 20000.0, -0.008
+    _, r = _solve_text(straight_beam({"A": 0.0, "B": L}, {"A": "fixed", "B": "fixed"},
+                                     [{"settlement": "B", "dy": D}], EI=EI, EA=1.0e6))
+    EIN = EI * KN
+    assert abs(r.end_forces["AB"][0][2]) == pytest.approx(6 * EIN * abs(D) / L**2, rel=1e-12)
+    assert abs(r.end_forces["AB"][1][2]) == pytest.approx(6 * EIN * abs(D) / L**2, rel=1e-12)
+    assert r.reactions["B"]["y"] == pytest.approx(12 * EIN * D / L**3, rel=1e-12)
+    assert r.displacements["B"][1] == pytest.approx(D, rel=1e-14)
+
+
+def test_fixed_fixed_beam_temperature_gradient():
+    """A beam held against curving carries m = -EI alpha gradient / depth along its whole
+    length and no shear (common practice); bottom hotter: hogging."""
+    L, EI, alpha, grad, h = 6.0, 30000.0, 1.2e-5, 20.0, 0.4
+    text = case_text("warm slab edge", {"A": (0.0, 0.0), "B": (L, 0.0)},
+                     beams={"AB": {"nodes": ["A", "B"], "EI": ei(EI), "EA": ea(1.0e6)}},
+                     supports={"A": "fixed", "B": "fixed"},
+                     loads=[{"member": "AB", "temperature": {"gradient": grad}}])
+    text += ('\n[materials.steel]\nE = "200 GPa"\nalpha = "1.2e-5 1/K"\n'
+             '[sections.s]\ndepth = "400 mm"\n[defaults]\nmaterial = "steel"\nsection = "s"\n')
+    _, r = _solve_text(text)
+    m = -EI * KN * alpha * grad / h
+    for end in r.end_forces["AB"]:
+        assert end[2] == pytest.approx(m, rel=1e-12)
+        assert abs(end[1]) <= 1e-12 * abs(m)
+
+
+def test_many_equal_spans_interior_moment_and_size():
+    """Continuous beam on many equal spans under uniform load: far from the ends the support
+    moment tends to -wL^2/12 (from memory: the interior span of an unending continuous beam
+    acts as a fixed-fixed span, AISC Beam Diagrams, beam fixed at both ends, uniform load).
+    Built directly from the model with 10^4 free dofs, to check the solver stays sparse."""
+    nspan, L, w, EI = 5000, 4.0, 10.0e3, 2.0e7
+    nodes = {f"N{i}": Node(f"N{i}", i * L, 0.0) for i in range(nspan + 1)}
+    members = {f"M{i}": Member(f"M{i}", "beam", f"N{i}", f"N{i + 1}", EA=2.0e9, EI=EI)
+               for i in range(nspan)}
+    supports = {"N0": Support("N0", (Restraint("N0", "x", (1.0, 0.0, 0.0)),
+                                     Restraint("N0", "y", (0.0, 1.0, 0.0))))}
+    for i in range(1, nspan + 1):
+        n = f"N{i}"
+        supports[n] = Support(n, (Restraint(n, "y", (0.0, 1.0, 0.0)),))
+    loads = tuple(DistributedLoad(f"M{i}", wy=(-w, -w)) for i in range(nspan))
+    st = Structure("long purlin", nodes, members, supports, loads)
+    assert stiffness_dofs(st) == 2 * nspan + 1  # x at every node but N0, rz everywhere
+    t0 = time.perf_counter()
+    r = solve_stiffness(st, "default")
+    elapsed = time.perf_counter() - t0
+    mid = f"M{nspan // 2}"
+    assert r.end_forces[mid][0][2] == pytest.approx(-w * L**2 / 12, rel=1e-9)
+    assert r.reactions[f"N{nspan // 2}"]["y"] == pytest.approx(w * L, rel=1e-9)
+    assert elapsed < 30.0, f"{elapsed:.1f} s for {2 * nspan + 1} dofs"
+
+
+# ---------------------------------------------------------------- features vs force method
+
+
+def _rigid_portal(**extra) -> str:
+    beam = {"EI": ei(30000.0)}
+    return case_text(
+        "axially rigid hall frame",
+        {"A": (0.0, 0.0), "B": (0.0, 4.5), "C": (4.0, 5.5), "D": (8.0, 4.5), "E": (8.0, 0.0)},
+        beams={"AB": {"nodes": ["A", "B"], **beam}, "BC": {"nodes": ["B", "C"], **beam},
+               "DC": {"nodes": ["D", "C"], **beam, "hinges": extra.get("hinges", [])},
+               "ED": {"nodes": ["E", "D"], **beam}},
+        supports={"A": "fixed", "E": extra.get("E", "pinned")},
+        loads=[{"member": "BC", "wy": -8.0}, {"member": "AB", "wx": 2.5, "to": 3.0},
+               {"node": "D", "fx": 6.0}, {"member": "DC", "at": 1.0, "fx": 3.0, "mz": 4.0}]
+        + extra.get("loads", []),
+        analysis={"displacements": ["B.x", "C.y"]},
+    )
+
+
+@pytest.mark.parametrize("hinges", [[], ["end"]], ids=["rigid-joints", "hinged-apex"])
+def test_axially_rigid_members_are_exact_constraints(hinges):
+    st = leastwork.loads_case(_rigid_portal(hinges=hinges), source="<test>")
+    sol = leastwork.solve(st)
+    res = solve_stiffness(st, "default")
+    _assert_agree(st, sol, "default", res, rel=1e-10)
+    # the columns do not shorten: their tops stay at their bases' level, to round-off
+    ub = res.displacements["B"]
+    assert abs(ub[1]) <= 1e-13 * abs(ub[0])
+    # a rigid member's end displacements have equal components along its axis
+    c, s = st.direction("BC")
+    uc = res.displacements["C"]
+    assert abs((uc[0] - ub[0]) * c + (uc[1] - ub[1]) * s) <= 1e-13 * abs(ub[0])
+
+
+_STEEL = """
+[materials.steel]
+E = "200 GPa"
+G = "77 GPa"
+alpha = "1.2e-5 1/K"
+
+[sections.s]
+depth = "400 mm"
+shear_area = "3000 mm^2"
+
+[defaults]
+material = "steel"
+section = "s"
+"""
+
+CORNERS = {
+    # a beam hinged at both ends carrying span loads, a couple and heat, with shear energy
+    "pinned-link-beam": case_text(
+        "mezzanine link", {"A": (0, 0), "B": (0, 4), "C": (6, 4), "D": (6, 0)},
+        beams={"AB": {"nodes": ["A", "B"], "EI": ei(2e4), "EA": ea(1e6)},
+               "BC": {"nodes": ["B", "C"], "EI": ei(3e4), "EA": ea(1e6),
+                      "hinges": ["start", "end"]},
+               "DC": {"nodes": ["D", "C"], "EI": ei(2e4), "EA": ea(1e6)}},
+        supports={"A": "fixed", "D": "fixed"},
+        loads=[{"member": "BC", "wy": -10.0}, {"member": "BC", "at": 2.0, "fy": -5.0, "mz": 7.0},
+               {"member": "BC", "temperature": {"uniform": 20.0, "gradient": 10.0}},
+               {"node": "B", "fx": 4.0}],
+        analysis={"shear": True}),
+    # a rotational spring where the only beam end is hinged: the spring acts on nothing
+    "spring-at-hinged-end": case_text(
+        "gantry rail", {"A": (0, 0), "B": (4, 0), "C": (8, 0)},
+        beams={"AB": {"nodes": ["A", "B"], "EI": ei(2e4), "EA": ea(1e6), "hinges": ["start"]},
+               "BC": {"nodes": ["B", "C"], "EI": ei(2e4), "EA": ea(1e6)}},
+        supports={"A": {"restrain": ["x", "y"], "springs": {"rz": "5000 kN*m/rad"}},
+                  "C": "fixed"},
+        loads=[{"member": "AB", "wy": -8.0}, {"member": "BC", "at": 1.0, "mz": 3.0}]),
+    # beams, bars, an axially rigid beam, a misfit and a turning, sliding base
+    "braced-frame-mixed": case_text(
+        "plant-room bay", {"A": (0, 0), "B": (0, 3), "C": (5, 3), "D": (5, 0)},
+        beams={"AB": {"nodes": ["A", "B"], "EI": ei(1e4), "EA": ea(5e5),
+                      "hinges": ["start", "end"]},
+               "BC": {"nodes": ["B", "C"], "EI": ei(2e4)},
+               "DC": {"nodes": ["D", "C"], "EI": ei(1e4), "EA": ea(5e5), "hinges": ["end"]}},
+        bars={"AC": {"nodes": ["A", "C"], "EA": ea(1e5)}, "DB": {"nodes": ["D", "B"], "EA": ea(1e5)}},
+        supports={"A": "pinned", "D": "fixed"},
+        loads=[{"member": "AB", "wx": 3.0},
+               {"member": "BC", "wy": [-4.0, -9.0], "from": 1.0, "to": 4.0},
+               {"member": "AC", "misfit": -0.002},
+               {"settlement": "D", "drz": 0.001, "dx": 0.003}]),
+    # a hinged beam end on an inclined roller that settles, a post under a gradient, shear on
+    "hinge-on-inclined-roller": case_text(
+        "loading ramp", {"A": (0, 0), "B": (5, 0), "C": (5, -3)},
+        beams={"AB": {"nodes": ["A", "B"], "EI": ei(1e4), "hinges": ["end"]},
+               "CB": {"nodes": ["C", "B"], "EI": ei(1e4), "EA": ea(5e5)}},
+        supports={"A": "fixed", "B": {"type": "roller", "surface_angle": "20 deg"},
+                  "C": "fixed"},
+        loads=[{"member": "AB", "wy": -8.0}, {"settlement": "B", "dn": -0.003},
+               {"member": "CB", "temperature": {"gradient": -15.0}}],
+        analysis={"shear": True}),
+}
+
+
+@pytest.mark.parametrize("key", CORNERS)
+def test_feature_combinations_agree_with_force_method(key):
+    st = leastwork.loads_case(CORNERS[key] + _STEEL, source=f"<{key}>")
+    sol = leastwork.solve(st)
+    assert not sol.warnings
+    _assert_agree(st, sol, "default", solve_stiffness(st, "default"), rel=1e-10)
+
+
+def test_settlement_of_a_spring_base():
+    """A settlement given on a spring direction moves the spring's ground end (the force
+    method's reading: the spring force is -k (u - settlement)); built from the model, since
+    case files refuse it."""
+    text = straight_beam({"A": 0.0, "B": 5.0, "C": 9.0},
+                         {"A": "pinned", "B": {"springs": {"y": "6000 kN/m"}}, "C": "roller"},
+                         [{"member": "AB", "wy": -6.0}], EI=15000.0)
+    st = leastwork.loads_case(text, source="<test>")
+    st = Structure(st.name, st.nodes, st.members, st.supports,
+                   st.loads + (Settlement("B", (("y", -0.004),)),), source=st.source)
+    sol = leastwork.solve(st)
+    res = solve_stiffness(st, "default")
+    _assert_agree(st, sol, "default", res)
+    k = 6000.0 * KN
+    assert res.reactions["B"]["y"] == pytest.approx(-k * (res.displacements["B"][1] + 0.004),
+                                                    rel=1e-12)
+
+
+def test_rotation_restraint_at_a_pin_joint_is_reported_as_zero():
+    """A fixed support where only bars meet cannot take a moment: its rz entry is 0.0, as the
+    force method reports it, and the node has no rotation of its own."""
+    text = case_text("bracket", {"A": (0.0, 0.0), "B": (3.0, 0.0), "C": (0.0, 2.0)},
+                     bars={"AB": {"nodes": ["A", "B"], "EA": ea(2.0e5)},
+                           "CB": {"nodes": ["C", "B"], "EA": ea(1.0e5)}},
+                     supports={"A": "fixed", "C": "pinned"},
+                     loads=[{"node": "B", "fy": -20.0}])
+    st = leastwork.loads_case(text, source="<test>")
+    res = solve_stiffness(st, "default")
+    assert res.reactions["A"]["rz"] == 0.0
+    assert res.displacements["B"][2] is None
+    _assert_agree(st, leastwork.solve(st), "default", res)
+
+
+def test_only_the_loads_of_the_case_are_solved():
+    text = straight_beam({"A": 0.0, "B": 6.0}, {"A": "fixed", "B": "roller"},
+                         [{"member": "AB", "wy": -10.0, "case": "snow"},
+                          {"node": "B", "mz": 5.0, "case": "wind"}], EI=20000.0)
+    st = leastwork.loads_case(text, source="<test>")
+    snow, wind = solve_stiffness(st, "snow"), solve_stiffness(st, "wind")
+    assert snow.reactions["B"]["y"] == pytest.approx(3 * 10.0e3 * 6.0 / 8, rel=1e-12)
+    # a couple M at the prop of a propped cantilever: prop reaction 3M/(2L) (from memory)
+    assert abs(wind.reactions["B"]["y"]) == pytest.approx(3 * 5.0e3 / (2 * 6.0), rel=1e-12)
+    empty = solve_stiffness(st, "no such case")
+    assert all(v == 0.0 for rs in empty.reactions.values() for v in rs.values())
+
+
+# ---------------------------------------------------------------- errors
+
+
+def test_beam_on_two_rollers_is_a_mechanism():
+    st = leastwork.loads_case(straight_beam({"A": 0.0, "B": 6.0, "C": 10.0},
+                                            {"A": "roller", "C": "roller"},
+                                            [{"member": "AB", "wy": -5.0}], EI=1.0e4),
+                              source="<test>")
+    with pytest.raises(MechanismError) as err:
+        solve_stiffness(st, "default")
+    assert {"A.x", "B.x", "C.x"} <= set(err.value.motions)
+
+
+def test_hinge_too_many_is_a_mechanism():
+    st = leastwork.loads_case(straight_beam({"A": 0.0, "B": 4.0, "C": 8.0},
+                                            {"A": "pinned", "C": "roller"},
+                                            [{"member": "AB", "wy": -5.0}], EI=1.0e4,
+                                            hinges={"AB": ["end"]}), source="<test>")
+    with pytest.raises(MechanismError) as err:
+        solve_stiffness(st, "default")
+    assert "B.y" in err.value.motions
+
+
+def test_couple_on_a_pin_joint_is_a_mechanism():
+    text = case_text("pin joint", {"A": (0.0, 0.0), "B": (3.0, 0.0), "C": (0.0, 2.0)},
+                     bars={"AB": {"nodes": ["A", "B"], "EA": ea(2.0e5)},
+                           "CB": {"nodes": ["C", "B"], "EA": ea(1.0e5)}},
+                     supports={"A": "pinned", "C": "pinned"},
+                     loads=[{"node": "B", "mz": 3.0}])
+    st = leastwork.loads_case(text, source="<test>")
+    with pytest.raises(MechanismError):
+        solve_stiffness(st, "default")
+
+
+def test_over_constrained_rigid_parts():
+    """Two fixed ends on an axially rigid beam: the thrust between them is not determined
+    by stiffness and is taken as zero, as the force method takes a redundant without
+    flexibility; under transverse loads both methods agree. A misfit there cannot be taken
+    up at all."""
+    spec = dict(xs={"A": 0.0, "B": 6.0}, supports={"A": "fixed", "B": "fixed"}, EI=1.0e4)
+    st = leastwork.loads_case(straight_beam(loads=[{"member": "AB", "wy": -5.0},
+                                                   {"member": "AB", "at": 2.0, "fy": -8.0}],
+                                            **spec), source="<test>")
+    sol = leastwork.solve(st)
+    assert sol.warnings  # the force method says the thrust has no flexibility
+    res = solve_stiffness(st, "default")
+    _assert_agree(st, sol, "default", res)
+    assert res.end_forces["AB"][0][0] == 0.0
+    st = leastwork.loads_case(straight_beam(loads=[{"member": "AB", "misfit": 0.002}], **spec),
+                              source="<test>")
+    with pytest.raises(CaseError, match="imposed deformation"):
+        solve_stiffness(st, "default")
+
+
+def test_dof_count():
+    """Two spans, pinned-roller-roller: 9 node dofs less the 4 restrained ones."""
+    st = leastwork.loads_case(straight_beam({"A": 0.0, "B": 5.0, "C": 9.0},
+                                            {"A": "pinned", "B": "roller", "C": "roller"},
+                                            [{"member": "AB", "wy": -1.0}], EI=1.0e4,
+                                            EA=1.0e6), source="<test>")
+    assert stiffness_dofs(st) == 5
+    assert math.isclose(sum(solve_stiffness(st, "default").reactions[n]["y"] for n in "ABC"),
+                        5.0e3, rel_tol=1e-12)
+    assert np.isfinite(stiffness_dofs(st))
