@@ -68,12 +68,12 @@ def energy_terms(st: Structure) -> str:
 
 
 class _Units:
-    """Case units of a structure: SI factors and labels for force^a * length^b."""
+    """Units results are shown in: SI factors and labels for force^a * length^b."""
 
-    def __init__(self, st: Structure):
-        self.F = st.units.factor("force")
-        self.L = st.units.factor("length")
-        self.fu, self.lu = st.units.force, st.units.length
+    def __init__(self, units):
+        self.F = units.factor("force")
+        self.L = units.factor("length")
+        self.fu, self.lu = units.force, units.length
 
     def conv(self, value, f: int, l: int):
         """SI value of dimension force^f length^l in the case units."""
@@ -154,7 +154,7 @@ class _Context:
         self.sol = sol
         self.st = sol.structure
         self.topo = sol.topology
-        self.u = _Units(self.st)
+        self.u = _Units(sol.units)
         self.json = sol.to_dict()
         self.cases = list(case_names or sol.cases)
         self.red = list(sol.redundant_columns)

@@ -46,6 +46,7 @@ def _parser() -> argparse.ArgumentParser:
                    help="comma-separated redundants, e.g. C.y,BC (overrides the case)")
     s.add_argument("--at", metavar="LIST",
                    help="comma-separated displacements to add, e.g. B.y,C.rz,AB@2.5.y,A-C")
+    _presentation_options(s)
     s.add_argument("--no-verify", action="store_true",
                    help="skip the cross-check by the independent direct-stiffness solver")
     s.add_argument("--symbolic", action="store_true",
@@ -65,6 +66,33 @@ def _parser() -> argparse.ArgumentParser:
                        formatter_class=argparse.RawDescriptionHelpFormatter)
     c.add_argument("case", help="case file (TOML)")
     return p
+
+
+def _presentation_options(p: argparse.ArgumentParser) -> None:
+    p.add_argument("--units", metavar="FORCE,LENGTH",
+                   help="report results in these units instead of the case's, e.g. kN,mm "
+                        "(inputs, including distances in --at, stay in the case units)")
+    p.add_argument("--no-color", action="store_true", help="plain text, no colours")
+    p.add_argument("-q", "--quiet", action="store_true",
+                   help="only the redundants, the checks and any warning")
+
+
+def _display_units(text: str | None):
+    """The UnitSystem of ``--units FORCE,LENGTH``, or None."""
+    if text is None:
+        return None
+    from .units import UnitSystem, check_unit
+
+    parts = [t.strip() for t in text.split(",")]
+    if len(parts) != 2 or not all(parts):
+        raise CaseError(f'expected FORCE,LENGTH such as "kN,mm", got "{text}"',
+                        source="command line", where="--units")
+    try:
+        check_unit(parts[0], "force")
+        check_unit(parts[1], "length")
+    except ValueError as exc:
+        raise CaseError(str(exc), source="command line", where="--units") from None
+    return UnitSystem(parts[0], parts[1])
 
 
 def _version() -> str:
@@ -100,7 +128,7 @@ def _run(argv) -> int:
     from rich.console import Console
 
     from .caseio import load_case
-    from .report.terminal import print_check, print_steps, print_summary
+    from .report.terminal import print_brief, print_check, print_steps, print_summary
     from .solve import solve
     from .topology import build_topology, check_stable, choose_redundants
 
@@ -109,7 +137,8 @@ def _run(argv) -> int:
         _parser().print_help()
         return 2
     st = load_case(args.case)
-    console = Console()
+    plain = getattr(args, "no_color", False)
+    console = Console(color_system=None, highlight=False) if plain else Console()
     if args.command == "check":
         topo = build_topology(st)
         if not topo.stable:
@@ -131,7 +160,10 @@ def _run(argv) -> int:
     if args.redundants is not None and not names:
         raise CaseError("expected a comma-separated list of redundants", source="command line",
                         where="--redundants")
+    units = _display_units(args.units)
     sol = solve(st, names, verify=False if args.no_verify else None)
+    if units is not None:
+        sol.display_units = units
     cases = None
     if args.load_case is not None:
         if args.load_case not in sol.cases:
@@ -152,6 +184,8 @@ def _run(argv) -> int:
         buf = Console(record=True, file=io.StringIO(), width=_FILE_WIDTH, color_system=None)
         (print_steps if args.steps else print_summary)(buf, sol, cases)
         _emit(buf.export_text(), args, st)
+    elif args.quiet:
+        print_brief(console, sol, cases)
     elif args.steps:
         print_steps(console, sol, cases)
     else:

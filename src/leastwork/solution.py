@@ -221,6 +221,12 @@ class Solution:
     warnings: tuple[str, ...] = ()
     released: object = None
     condition: float = 1.0  #: condition number of the Jacobi-scaled flexibility matrix
+    display_units: object = None  #: UnitSystem to report in, if not the case's own
+
+    @property
+    def units(self):
+        """The units results are reported in: ``display_units`` or the case's units."""
+        return self.display_units or self.structure.units
 
     @property
     def redundant_names(self) -> list[str]:

@@ -20,9 +20,8 @@ def _is_moment_column(col) -> bool:
     return col.kind in ("start_m", "end_m") or (col.kind == "reaction" and col.name.endswith(".rz"))
 
 
-def quantity_factors(st):
-    """SI value of one case unit of force, length, moment."""
-    u = st.units
+def quantity_factors(u):
+    """SI value of one unit of force, length, moment of the unit system ``u``."""
     return u.factor("force"), u.factor("length"), u.factor("moment")
 
 
@@ -36,7 +35,8 @@ def _num(x: float) -> float:
 def solution_to_dict(sol) -> dict:
     st = sol.structure
     topo = sol.topology
-    Ff, Lf, Mf = quantity_factors(st)
+    u = sol.units
+    Ff, Lf, Mf = quantity_factors(u)
     red_cols = [topo.columns[j] for j in sol.redundant_columns]
     # unit of each redundant (force or moment) and of its conjugate displacement
     x_unit = [Mf if _is_moment_column(c) else Ff for c in red_cols]
@@ -98,8 +98,8 @@ def solution_to_dict(sol) -> dict:
     return {
         "schema": SCHEMA,
         "name": st.name,
-        "units": {"force": st.units.force, "length": st.units.length,
-                  "moment": f"{st.units.force}*{st.units.length}", "rotation": "rad"},
+        "units": {"force": u.force, "length": u.length, "moment": f"{u.force}*{u.length}",
+                  "rotation": "rad"},
         "indeterminacy": {"degree": topo.degree, "external": topo.external,
                           "internal": topo.internal, "stable": topo.stable},
         "redundants": [c.name for c in red_cols],

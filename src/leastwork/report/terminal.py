@@ -12,7 +12,7 @@ from ..displacements import deflection_extreme
 from ..sheet import Formula, Grid, Para, Sheet, fmt, split_grid
 from .jsonout import _is_moment_column, quantity_factors
 
-__all__ = ["print_summary", "print_check", "print_steps", "print_sheet", "CAUTION", "ASSUMPTIONS",
+__all__ = ["print_summary", "print_brief", "print_check", "print_steps", "print_sheet", "CAUTION", "ASSUMPTIONS",
            "energy_terms"]
 
 def _g(x: float, sig: int = 5) -> str:
@@ -63,8 +63,8 @@ def _indeterminacy(console: Console, topo) -> None:
 
 def print_summary(console: Console, sol, case_names=None) -> None:
     st, topo = sol.structure, sol.topology
-    Ff, Lf, Mf = quantity_factors(st)
-    fu, mu, lu = st.units.force, f"{st.units.force}*{st.units.length}", st.units.length
+    Ff, Lf, Mf = quantity_factors(sol.units)
+    fu, mu, lu = sol.units.force, f"{sol.units.force}*{sol.units.length}", sol.units.length
     console.print(f"[bold]{st.name}[/bold]  ({st.source})")
     console.print(f"Assumptions: {ASSUMPTIONS}")
     console.print(energy_terms(st))
@@ -151,6 +151,25 @@ def print_summary(console: Console, sol, case_names=None) -> None:
                       f" {fu} — {status}")
         _print_cross_check(console, res)
     console.print(Panel(CAUTION, title="Caution", style="yellow"))
+
+
+def print_brief(console: Console, sol, case_names=None) -> None:
+    """One line per redundant and load case, the checks, and every warning (``--quiet``)."""
+    Ff, _, Mf = quantity_factors(sol.units)
+    u = sol.units
+    for w in sol.warnings:
+        console.print(f"[yellow]Warning: {escape(w)}[/yellow]")
+    for name in case_names or list(sol.cases):
+        res = sol.cases[name]
+        for j, x in zip(sol.redundant_columns, res.redundants, strict=True):
+            col = sol.topology.columns[j]
+            mom = _is_moment_column(col)
+            console.print(f"{name}  {col.name} = {_g(x / (Mf if mom else Ff))} "
+                          f"{u.moment if mom else u.force}", highlight=False)
+        eq = "OK" if res.equilibrium_ok else "[bold red]FAILED[/bold red]"
+        c = res.stiffness
+        cc = ("not run" if c is None else "agrees" if c.ok else "[bold red]FAILED[/bold red]")
+        console.print(f"{name}  equilibrium {eq}, cross-check {cc}")
 
 
 def _print_cross_check(console: Console, res) -> None:
