@@ -222,6 +222,7 @@ class Solution:
     released: object = None
     condition: float = 1.0  #: condition number of the Jacobi-scaled flexibility matrix
     display_units: object = None  #: UnitSystem to report in, if not the case's own
+    flexibility_solver: object = None  #: solve.FlexibilitySolver: delta X = rhs, factorised
 
     @property
     def units(self):

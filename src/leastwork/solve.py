@@ -29,7 +29,7 @@ from .topology import (
     weakest_mode,
 )
 
-__all__ = ["solve", "CONDITION_WARN"]
+__all__ = ["solve", "FlexibilitySolver", "CONDITION_WARN"]
 
 
 def solve(structure: Structure, redundants=None, *, where: str | None = None,
@@ -123,7 +123,7 @@ def solve(structure: Structure, redundants=None, *, where: str | None = None,
                 notes.append(_disagreement(res))
     return Solution(st, topo, red, chosen_by_user, B, F, delta, results,
                     warnings=tuple(solver.warnings + notes), released=released,
-                    condition=solver.cond)
+                    condition=solver.cond, flexibility_solver=solver)
 
 
 #: Jacobi-scaled condition number of the flexibility matrix above which the choice of
@@ -137,7 +137,7 @@ def _flexibility(st: Structure, topo, red: list[int], F: np.ndarray):
     B = released.unit_redundant_states()
     delta = B.T @ F @ B
     delta = 0.5 * (delta + delta.T)
-    solver = _FlexibilitySolver(delta, [topo.columns[j].name for j in red], st.source)
+    solver = FlexibilitySolver(delta, [topo.columns[j].name for j in red], st.source)
     return released, B, delta, solver
 
 
@@ -167,7 +167,7 @@ def _names(topo, red: list[int]) -> str:
     return ", ".join(topo.columns[j].name for j in red)
 
 
-class _FlexibilitySolver:
+class FlexibilitySolver:
     """Solve delta X = rhs, Jacobi-scaled; a redundant (or a combination) with no
     flexibility is explained and taken as zero (minimum-norm solution)."""
 
@@ -200,19 +200,23 @@ class _FlexibilitySolver:
         self.cond = float(w[keep].max() / w[keep].min()) if keep.any() else float("inf")
 
     def solve(self, rhs: np.ndarray) -> np.ndarray:
+        """X for one right-hand side (nred,) or several (nred, k)."""
+        rhs = np.asarray(rhs, dtype=float)
         if self.n == 0:
-            return np.zeros(0)
-        b = self.D * rhs
+            return np.zeros(rhs.shape)
+        D = self.D if rhs.ndim == 1 else self.D[:, None]
+        b = D * rhs
         coef = self.V.T @ b
         y = np.zeros_like(coef)
-        y[self.keep] = coef[self.keep] / self.w[self.keep]
+        y[self.keep] = coef[self.keep] / (self.w[self.keep] if rhs.ndim == 1
+                                          else self.w[self.keep][:, None])
         resid = coef[~self.keep]
         if resid.size and np.max(np.abs(resid)) > 1e-9 * max(np.max(np.abs(b)), 1e-300):
             raise CaseError(
                 "the compatibility equations have no solution: an imposed deformation "
                 "(temperature, misfit or settlement) acts on a part with no flexibility "
                 "(an axially rigid member or a rigid support chain)", source=self.source)
-        return self.D * (self.V @ y)
+        return D * (self.V @ y)
 
 
 def _check_targets(st: Structure, topo) -> None:
