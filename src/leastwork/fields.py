@@ -45,6 +45,27 @@ class Piecewise:
         for k in range(len(self.breaks) - 1):
             yield self.breaks[k], self.breaks[k + 1], self.coef[k]
 
+    def extremes(self) -> tuple[tuple[float, float], tuple[float, float]]:
+        """((largest value, at), (smallest value, at)) over the whole span: piece ends and
+        the real roots of the derivative inside pieces; among ties the first position."""
+        span = max(float(self.breaks[-1] - self.breaks[0]), 1.0)
+        xs, vals = [], []
+        for a, b, coef in self.pieces():
+            cand = [a, b]
+            trimmed = np.trim_zeros(coef, "b")
+            if trimmed.size > 2:
+                for r in P.polyroots(P.polyder(trimmed)):
+                    if abs(r.imag) < 1e-9 * span and a < r.real < b:
+                        cand.append(float(r.real))
+            xs += cand
+            vals += [float(P.polyval(x, coef)) for x in cand]
+        v, x = np.array(vals), np.array(xs)
+        tol = 1e-12 * max(float(np.max(np.abs(v))), 1e-300)
+        top = np.flatnonzero(v >= v.max() - tol)
+        bottom = np.flatnonzero(v <= v.min() + tol)
+        i, j = top[np.argmin(x[top])], bottom[np.argmin(x[bottom])]
+        return (float(v[i]), float(x[i])), (float(v[j]), float(x[j]))
+
     @staticmethod
     def zero(length: float) -> Piecewise:
         return Piecewise(np.array([0.0, length]), np.zeros((1, _DEG + 1)))

@@ -7,7 +7,6 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 import numpy as np
-from numpy.polynomial import polynomial as P
 
 from .fields import Piecewise, gauss_integral
 from .model import DistributedLoad, NodalLoad, PointLoad, Structure
@@ -61,28 +60,8 @@ def member_result(st: Structure, topo, mid: str, s: np.ndarray, pf) -> MemberRes
     n, v, mm = Piecewise(breaks, cn), Piecewise(breaks, cv), Piecewise(breaks, cm)
     start = (float(n(0.0)), float(v(0.0)), float(mm(0.0)))
     end = (float(n(L, "left")), float(v(L, "left")), float(mm(L, "left")))
-    xs, vals = [], []
-    for a, b, coef in mm.pieces():
-        cand = [a, b]
-        dc = P.polyder(np.trim_zeros(coef, "b") if np.any(coef) else np.zeros(1))
-        if len(dc) > 1 or (len(dc) == 1 and dc[0] != 0):
-            roots = P.polyroots(dc) if len(dc) > 1 else []
-            for r in roots:
-                if abs(r.imag) < 1e-9 * max(L, 1.0) and a < r.real < b:
-                    cand.append(float(r.real))
-        for x in cand:
-            xs.append(x)
-            vals.append(float(P.polyval(x, coef)))
-    vals_a = np.array(vals)
-    xs_a = np.array(xs)
-    scale = max(float(np.max(np.abs(vals_a))), 1e-300)
-    # among ties, the first position wins
-    imax = int(np.flatnonzero(vals_a >= vals_a.max() - 1e-12 * scale)[np.argmin(
-        xs_a[vals_a >= vals_a.max() - 1e-12 * scale])])
-    imin = int(np.flatnonzero(vals_a <= vals_a.min() + 1e-12 * scale)[np.argmin(
-        xs_a[vals_a <= vals_a.min() + 1e-12 * scale])])
-    return MemberResult(mid, L, n, v, mm, start, end, (vals_a[imax], xs_a[imax]),
-                        (vals_a[imin], xs_a[imin]))
+    m_max, m_min = mm.extremes()
+    return MemberResult(mid, L, n, v, mm, start, end, m_max, m_min)
 
 
 @dataclass
