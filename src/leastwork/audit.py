@@ -29,7 +29,7 @@ from .sheet import Formula, Grid, Para, Sheet, Step, fmt
 from .solution import member_result
 from .solve import CONDITION_WARN
 
-__all__ = ["audit_sheet", "ASSUMPTIONS", "CAUTION", "energy_terms"]
+__all__ = ["audit_sheet", "envelope_grids", "ASSUMPTIONS", "CAUTION", "energy_terms"]
 
 ASSUMPTIONS = (
     "Linear elastic material, small displacements, plane (2D) structure; prismatic members; "
@@ -582,6 +582,7 @@ class _Context:
                 blocks.append(Grid(f"Load case {case}: bending moment extremes along beams",
                                    ("beam", f"m max [{ml}]", f"at [{u.lu}]", f"m min [{ml}]",
                                     f"at [{u.lu}]"), tuple(rows)))
+        blocks.extend(envelope_grids(sol))
         return Step(6, "Solution, superposition and reactions", tuple(blocks))
 
     # ------------------------------------------------------------------ step 7
@@ -671,6 +672,36 @@ class _Context:
         for w in self.sol.warnings:
             blocks.append(Para(f"Warning: {w}", "warning"))
         return Step(8, "Equilibrium check, cross-check and caution", tuple(blocks))
+
+
+def envelope_grids(sol) -> list[Grid]:
+    """Tables of the envelope over the load combinations of ``sol`` (none without them)."""
+    combos = [name for name, _ in sol.structure.combinations]
+    if not combos:
+        return []
+    env = sol.to_dict()["envelope"]
+    u = _Units(sol.units)
+    ml = u.label(1, 1)
+    rows = []
+    for mid, qs in env["members"].items():
+        for q, unit in (("m", ml), ("v", u.fu), ("n", u.fu)):
+            e = qs[q]
+            rows.append((mid, f"{q} [{unit}]", e["max"]["value"], e["max"]["at"],
+                         e["max"]["combination"], e["min"]["value"], e["min"]["at"],
+                         e["min"]["combination"]))
+    members = Grid(f"Envelope over the combinations ({', '.join(combos)}): section forces",
+                   ("member", "force", "max", f"at [{u.lu}]", "governing", "min",
+                    f"at [{u.lu}]", "governing"), tuple(rows), keys=2)
+    rows = []
+    for node, ds in env["reactions"].items():
+        for d, e in ds.items():
+            unit = ml if d == "rz" else u.fu
+            rows.append((node, f"{d} [{unit}]", e["max"]["value"], e["max"]["combination"],
+                         e["min"]["value"], e["min"]["combination"]))
+    reactions = Grid("Envelope over the combinations: reactions",
+                     ("support", "component", "max", "governing", "min", "governing"),
+                     tuple(rows), keys=2)
+    return [members, reactions]
 
 
 def _virtual_state(st, topo, res, target: str):

@@ -31,6 +31,7 @@ __all__ = [
     "Structure",
     "DEFAULT_CASE",
     "rotational_nodes",
+    "scaled_load",
 ]
 
 #: Name of the load case of loads that do not name one.
@@ -201,6 +202,24 @@ class Settlement:
 Load = NodalLoad | PointLoad | DistributedLoad | TemperatureLoad | Misfit | Settlement
 
 
+def scaled_load(load: Load, factor: float, case: str) -> Load:
+    """``load`` times ``factor``, put in load case ``case`` (for load combinations; every
+    effect is linear, so a factored load gives factored results)."""
+    from dataclasses import replace
+
+    f = factor
+    if isinstance(load, NodalLoad | PointLoad):
+        return replace(load, fx=f * load.fx, fy=f * load.fy, mz=f * load.mz, case=case)
+    if isinstance(load, DistributedLoad):
+        return replace(load, wx=(f * load.wx[0], f * load.wx[1]),
+                       wy=(f * load.wy[0], f * load.wy[1]), case=case)
+    if isinstance(load, TemperatureLoad):
+        return replace(load, uniform=f * load.uniform, gradient=f * load.gradient, case=case)
+    if isinstance(load, Misfit):
+        return replace(load, elongation=f * load.elongation, case=case)
+    return replace(load, values=tuple((d, f * v) for d, v in load.values), case=case)
+
+
 @dataclass(frozen=True)
 class Structure:
     """A whole case: geometry, members, supports, loads and analysis options (SI units)."""
@@ -216,6 +235,9 @@ class Structure:
     shear: bool = False  #: include shear energy of beams
     source: str = "<structure>"  #: file the case came from, for messages
     case_order: tuple[str, ...] = ()  #: load case names in order of first appearance
+    #: load combinations: (name, ((case, factor), ...)); their factored loads are among
+    #: ``loads`` under the combination's name, so a combination solves like a load case
+    combinations: tuple[tuple[str, tuple[tuple[str, float], ...]], ...] = ()
 
     def length(self, member_id: str) -> float:
         m = self.members[member_id]

@@ -95,7 +95,7 @@ def solution_to_dict(sol) -> dict:
             "displacements": disp,
             "checks": checks,
         }
-    return {
+    out = {
         "schema": SCHEMA,
         "name": st.name,
         "units": {"force": u.force, "length": u.length, "moment": f"{u.force}*{u.length}",
@@ -106,3 +106,23 @@ def solution_to_dict(sol) -> dict:
         "cases": cases,
         "warnings": list(sol.warnings),
     }
+    combos = [name for name, _ in st.combinations]
+    if combos:
+        out["envelope"] = _envelope_dict(sol, combos, Ff, Lf, Mf)
+    return out
+
+
+def _envelope_dict(sol, combos, Ff, Lf, Mf) -> dict:
+    from ..envelope import envelope
+
+    env = envelope(sol, combos)
+    fac = {"n": Ff, "v": Ff, "m": Mf}
+    members = {
+        mid: {q: {k: {"value": _num(v / fac[q]), "at": _num(at / Lf), "combination": c}
+                  for k, (v, at, c) in e.items()} for q, e in qs.items()}
+        for mid, qs in env["members"].items()}
+    reactions = {
+        node: {d: {k: {"value": _num(v / (Mf if d == "rz" else Ff)), "combination": c}
+                   for k, (v, c) in e.items()} for d, e in ds.items()}
+        for node, ds in env["reactions"].items()}
+    return {"combinations": combos, "members": members, "reactions": reactions}

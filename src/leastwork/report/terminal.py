@@ -150,6 +150,11 @@ def print_summary(console: Console, sol, case_names=None) -> None:
         console.print(f"Equilibrium check: largest residual {_g(res.equilibrium_residual / Ff, 2)}"
                       f" {fu} — {status}")
         _print_cross_check(console, res)
+    from ..audit import envelope_grids
+
+    for grid in envelope_grids(sol):
+        for part in split_grid(grid, console.width):
+            console.print(_rich_table(part))
     console.print(Panel(CAUTION, title="Caution", style="yellow"))
 
 

@@ -1,0 +1,37 @@
+"""Envelopes over load combinations: per member the largest and smallest n, v and m along
+it, per support the extreme reactions, each with the combination that governs."""
+
+from __future__ import annotations
+
+__all__ = ["envelope"]
+
+
+def envelope(sol, names) -> dict:
+    """Extremes over the load cases (or combinations) ``names`` of ``sol`` (SI values).
+
+    Returns ``{"members": {ID: {q: {"max": (value, at, name), "min": (...)}}},
+    "reactions": {NODE: {d: {"max": (value, name), "min": (value, name)}}}}`` with q in
+    n, v, m. Ties keep the first name in ``names``.
+    """
+    members: dict = {}
+    reactions: dict = {}
+    for name in names:
+        res = sol.cases[name]
+        for mid, mr in res.members.items():
+            slot = members.setdefault(mid, {})
+            for q, field in (("n", mr.n), ("v", mr.v), ("m", mr.m)):
+                (hi, at_hi), (lo, at_lo) = field.extremes()
+                e = slot.setdefault(q, {"max": (hi, at_hi, name), "min": (lo, at_lo, name)})
+                if hi > e["max"][0]:
+                    e["max"] = (hi, at_hi, name)
+                if lo < e["min"][0]:
+                    e["min"] = (lo, at_lo, name)
+        for node, comps in res.reactions.items():
+            slot = reactions.setdefault(node, {})
+            for d, v in comps.items():
+                e = slot.setdefault(d, {"max": (v, name), "min": (v, name)})
+                if v > e["max"][0]:
+                    e["max"] = (v, name)
+                if v < e["min"][0]:
+                    e["min"] = (v, name)
+    return {"members": members, "reactions": reactions}
