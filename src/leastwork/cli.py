@@ -65,6 +65,15 @@ def _parser() -> argparse.ArgumentParser:
                        description=_DESCRIPTION,
                        formatter_class=argparse.RawDescriptionHelpFormatter)
     c.add_argument("case", help="case file (TOML)")
+    n = sub.add_parser("new", help="print a commented starter case to standard output",
+                       description="Print a commented starter case; redirect it to a file "
+                                   "and edit it: leastwork new portal-frame > shed.toml")
+    n.add_argument("kind", nargs="?", help="kind of structure (see --list)")
+    n.add_argument("--list", action="store_true", help="list the kinds, one per line")
+    sub.add_parser("demo", help="solve a bundled example and show what the tool can do")
+    from . import studies_cli
+
+    studies_cli.add_parsers(sub)
     return p
 
 
@@ -120,6 +129,8 @@ def main(argv: list[str] | None = None) -> int:
         return 3
     except KeyboardInterrupt:
         return 130
+    except SystemExit as exc:  # --help and --version print and stop
+        return exc.code if isinstance(exc.code, int) else 0
 
 
 def _run(argv) -> int:
@@ -136,9 +147,19 @@ def _run(argv) -> int:
     if args.command is None:
         _parser().print_help()
         return 2
+    if args.command == "new":
+        return _new(args)
+    if args.command == "demo":
+        from .demo import run_demo
+
+        return run_demo(Console())
     st = load_case(args.case)
     plain = getattr(args, "no_color", False)
     console = Console(color_system=None, highlight=False) if plain else Console()
+    if args.command in ("fitup", "influence"):
+        from . import studies_cli
+
+        return studies_cli.run(args, console)
     if args.command == "check":
         topo = build_topology(st)
         if not topo.stable:
@@ -205,6 +226,19 @@ _FILE_WIDTH = 100
 
 _SUFFIX_FORMAT = {".md": "md", ".markdown": "md", ".tex": "latex", ".json": "json",
                   ".txt": "text"}
+
+
+def _new(args) -> int:
+    from .starters import starter_kinds, starter_text
+
+    if args.list:
+        print("\n".join(starter_kinds()))
+        return 0
+    if not args.kind:
+        raise CaseError("name a kind of structure, or --list to see them: "
+                        + ", ".join(starter_kinds()), source="command line", where="new")
+    sys.stdout.write(starter_text(args.kind))
+    return 0
 
 
 def _output_format(args) -> str:

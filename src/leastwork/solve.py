@@ -211,7 +211,8 @@ class FlexibilitySolver:
         y[self.keep] = coef[self.keep] / (self.w[self.keep] if rhs.ndim == 1
                                           else self.w[self.keep][:, None])
         resid = coef[~self.keep]
-        if resid.size and np.max(np.abs(resid)) > 1e-9 * max(np.max(np.abs(b)), 1e-300):
+        size = np.max(np.abs(b), axis=0, initial=0.0)  # per right-hand side
+        if resid.size and np.any(np.max(np.abs(resid), axis=0) > 1e-9 * np.maximum(size, 1e-300)):
             raise CaseError(
                 "the compatibility equations have no solution: an imposed deformation "
                 "(temperature, misfit or settlement) acts on a part with no flexibility "

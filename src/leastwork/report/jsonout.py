@@ -25,11 +25,11 @@ def quantity_factors(u):
     return u.factor("force"), u.factor("length"), u.factor("moment")
 
 
-def _num(x: float) -> float:
+def _num(x: float) -> float | None:
+    """A plain float for JSON; a value that is not finite (never expected) becomes null
+    rather than the invalid JSON token NaN."""
     x = float(x)
-    if x == 0.0 or not math.isfinite(x):
-        return 0.0 if x == 0.0 else x
-    return x
+    return x if math.isfinite(x) else None
 
 
 def solution_to_dict(sol) -> dict:

@@ -76,6 +76,7 @@ def print_summary(console: Console, sol, case_names=None) -> None:
                       "(after scaling its diagonal to one).")
     for w in sol.warnings:
         console.print(f"[yellow]Warning: {w}[/yellow]")
+    sol_json = sol.to_dict()  # reactions as the JSON gives them (round-off shown as zero)
     for name in case_names or list(sol.cases):
         res = sol.cases[name]
         console.rule(f"Load case: {name}")
@@ -97,12 +98,12 @@ def print_summary(console: Console, sol, case_names=None) -> None:
         t = Table(title="Reactions (force the support applies to the structure)",
                   header_style="bold")
         t.add_column("support")
-        t.add_column(f"x [{fu}]", justify="right")
-        t.add_column(f"y [{fu}]", justify="right")
-        t.add_column(f"rz [{mu}]", justify="right")
-        t.add_column(f"normal n [{fu}]", justify="right")
-        for node, comps in res.reactions.items():
-            t.add_row(node, *[_g(comps[d] / (Mf if d == "rz" else Ff)) if d in comps else "—"
+        t.add_column(escape(f"x [{fu}]"), justify="right")
+        t.add_column(escape(f"y [{fu}]"), justify="right")
+        t.add_column(escape(f"rz [{mu}]"), justify="right")
+        t.add_column(escape(f"normal n [{fu}]"), justify="right")
+        for node, comps in sol_json["cases"][name]["reactions"].items():
+            t.add_row(node, *[_g(comps[d]) if d in comps else "—"
                               for d in ("x", "y", "rz", "n")])
         console.print(t)
         t = Table(title="Member end forces (section forces: n tension +, m sagging +, v = dm/dx)",
@@ -110,7 +111,7 @@ def print_summary(console: Console, sol, case_names=None) -> None:
         t.add_column("member")
         for h in (f"n start [{fu}]", f"v start [{fu}]", f"m start [{mu}]", f"n end [{fu}]",
                   f"v end [{fu}]", f"m end [{mu}]"):
-            t.add_column(h, justify="right")
+            t.add_column(escape(h), justify="right")
         scale = max(1e-300, max(abs(v) for mr in res.members.values() for v in (*mr.start,
                                                                                *mr.end)))
         for mid, mr in res.members.items():
@@ -123,12 +124,12 @@ def print_summary(console: Console, sol, case_names=None) -> None:
             t = Table(title="Bending moment extremes and largest deflection along beams",
                       header_style="bold")
             t.add_column("beam")
-            t.add_column(f"m max [{mu}]", justify="right")
-            t.add_column(f"at [{lu}]", justify="right")
-            t.add_column(f"m min [{mu}]", justify="right")
-            t.add_column(f"at [{lu}]", justify="right")
-            t.add_column(f"deflection [{lu}]", justify="right")
-            t.add_column(f"at [{lu}]", justify="right")
+            t.add_column(escape(f"m max [{mu}]"), justify="right")
+            t.add_column(escape(f"at [{lu}]"), justify="right")
+            t.add_column(escape(f"m min [{mu}]"), justify="right")
+            t.add_column(escape(f"at [{lu}]"), justify="right")
+            t.add_column(escape(f"deflection [{lu}]"), justify="right")
+            t.add_column(escape(f"at [{lu}]"), justify="right")
             for mid in beams:
                 mr = res.members[mid]
                 w, at = deflection_extreme(st, topo, res, mid)

@@ -1,0 +1,148 @@
+"""A short tour of leastwork on one starter case: ``leastwork demo``.
+
+It solves the ``tied-beam`` starter (a canopy cantilever held up by a tie rod with a
+turnbuckle, see :mod:`leastwork.starters`) and shows, in a few screens, the summary of one
+load case with its equilibrium check and direct-stiffness cross-check, a glimpse of the
+audit trail (flexibility, load terms and the compatibility equation), the forces locked in
+by tightening the turnbuckle (a misfit) and their superposition with the loads, and the
+commands to try next. Everything is computed on the spot; nothing is written to disk.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+
+from rich.console import Console
+from rich.markup import escape
+from rich.panel import Panel
+from rich.table import Table
+
+__all__ = ["run_demo", "DEMO_KIND", "NEXT_COMMANDS"]
+
+#: The starter the demo solves.
+DEMO_KIND = "tied-beam"
+
+#: The commands suggested at the end of the demo, with what each does.
+NEXT_COMMANDS: tuple[tuple[str, str], ...] = (
+    ("leastwork new --list", "the kinds of starter case"),
+    (f"leastwork new {DEMO_KIND} > canopy.toml", "this demo's case, commented, to edit"),
+    ("leastwork check canopy.toml", "degree of indeterminacy, stability, redundants"),
+    ("leastwork solve canopy.toml", "the summary of every load case"),
+    ("leastwork solve canopy.toml --steps", "the whole audit trail, in eight steps"),
+    ("leastwork solve canopy.toml --case turnbuckle", "one load case only"),
+    ("leastwork solve canopy.toml --redundants A.rz", "another redundant, the same answer"),
+    ("leastwork solve canopy.toml --json", "the JSON result, for other programs"),
+    ("leastwork solve canopy.toml --format md -o calc.md", "a calculation sheet (Markdown)"),
+)
+
+#: Steps of the audit trail shown as a glimpse (numbers of :func:`leastwork.audit.audit_sheet`).
+_GLIMPSE_STEPS = (4, 5)
+
+
+def _structure_note(text: str) -> str:
+    """The "Structure" paragraph of a starter's opening comment, as plain text."""
+    out: list[str] = []
+    for line in text.splitlines():
+        if not line.startswith("#"):
+            break
+        body = line[1:].strip()
+        head, sep, rest = body.partition(":")
+        heading = bool(sep) and head.strip() != "" and " " not in head.strip()
+        if heading and head.strip() == "Structure":
+            out.append(rest.strip())
+        elif out and (heading or not body):
+            break
+        elif out:
+            out.append(body)
+    return " ".join(out)
+
+
+def _value(d: dict, case: str, *path: str) -> float:
+    node = d["cases"][case]
+    for key in path:
+        node = node[key]
+    return float(node)
+
+
+def _effects_table(d: dict, cases: list[str]) -> Table:
+    """Tie force, wall moment and tip deflection per load case (case units)."""
+    u = d["units"]
+    t = Table(title="What each load case does", header_style="bold")
+    t.add_column("load case")
+    # headers escaped: "[kN]" would otherwise be read as rich markup and vanish
+    t.add_column(escape(f"tie rod force, tension + [{u['force']}]"), justify="right")
+    t.add_column(escape(f"m at the wall A, sagging + [{u['moment']}]"), justify="right")
+    t.add_column(escape(f"tip B.y, up + [{u['length']}]"), justify="right")
+    for c in cases:
+        t.add_row(c, f"{_value(d, c, 'redundants', 'CB'):.4g}",
+                  f"{_value(d, c, 'members', 'AB', 'start', 'm'):.4g}",
+                  f"{_value(d, c, 'displacements', 'B.y'):.3g}")
+    return t
+
+
+def run_demo(console: Console) -> int:
+    """Show what leastwork does on the ``tied-beam`` starter; returns exit status 0."""
+    from .audit import audit_sheet
+    from .caseio import loads_case
+    from .report.terminal import print_sheet, print_summary
+    from .solve import solve
+    from .starters import STARTERS, starter_text
+
+    text = starter_text(DEMO_KIND)
+    st = loads_case(text, source=f"starter {DEMO_KIND}")
+    sol = solve(st)
+    d = sol.to_dict()
+    cases = list(sol.cases)
+    first = cases[0]
+
+    console.rule("[bold]leastwork demo — 1/4: the structure and its summary[/bold]")
+    console.print(Panel(
+        escape(f"{STARTERS[DEMO_KIND][0][0].upper()}{STARTERS[DEMO_KIND][0][1:]}: ")
+        + escape(_structure_note(text)) + "\n\n"
+        "leastwork finds the degree of indeterminacy from the rank of the equilibrium "
+        "matrix, releases the redundants, writes the least-work equations ∂U/∂Xi = Δi "
+        "from the bending, axial and spring energy, solves them, checks equilibrium and "
+        "solves the case again by the direct stiffness method as a cross-check.",
+        title=f"Starter \"{DEMO_KIND}\""))
+    print_summary(console, sol, [first])
+
+    console.rule("[bold]2/4: a glimpse of the audit trail (--steps shows all eight steps)"
+                 "[/bold]")
+    sheet = audit_sheet(sol, cases[:2])
+    glimpse = dataclasses.replace(
+        sheet, assumptions=(), cautions=(),
+        steps=tuple(s for s in sheet.steps if s.number in _GLIMPSE_STEPS))
+    print_sheet(console, glimpse)
+
+    console.rule("[bold]3/4: a misfit locks in forces[/bold]")
+    console.print(
+        "Tightening the turnbuckle shortens the rod by 3 mm (a misfit of -3 mm). The "
+        "structure is indeterminate, so the rod cannot simply take up its new length: "
+        "beam and rod are forced together and carry forces with no load at all.")
+    console.print(_effects_table(d, cases))
+    if {"canopy", "turnbuckle", "both"} <= set(cases):
+        a, b, ab = (_value(d, c, "redundants", "CB") for c in ("canopy", "turnbuckle", "both"))
+        console.print(
+            f"Linear elastic, so effects add up: {a:.5g} + {b:.5g} = {a + b:.5g} "
+            f"{d['units']['force']}, the rod force of case \"both\" ({ab:.5g}).")
+    for c in cases:
+        res = sol.cases[c]
+        eq = "OK" if res.equilibrium_ok else "FAILED"
+        cross = ("not run" if res.stiffness is None else
+                 "agrees" if res.stiffness.ok else "DISAGREES")
+        console.print(f"Load case {c}: equilibrium check {eq}; direct-stiffness "
+                      f"cross-check {cross}.")
+
+    console.rule("[bold]4/4: what to try next[/bold]")
+    t = Table(show_header=False, box=None, pad_edge=False)
+    t.add_column("command", style="bold", no_wrap=True)
+    t.add_column("does")
+    for cmd, what in NEXT_COMMANDS:
+        t.add_row(escape(cmd), escape(what))
+    console.print(t)
+    console.print("Other starters: " + ", ".join(STARTERS) + ". The tutorial is docs/guide.md,"
+                  " the method docs/method.md.")
+    console.print(Panel("Results come from an idealised model and must be checked by a "
+                        "qualified engineer against the governing codes before use.",
+                        title="Caution", style="yellow"))
+    return 0
