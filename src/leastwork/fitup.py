@@ -1,0 +1,491 @@
+"""Fit-up tolerance study: forces locked in by members made within a length tolerance.
+
+A misfit e_k of member k (fabricated length minus the distance between its nodes) is an
+initial deformation on its axial basic force (:mod:`leastwork.energy`). With no loads the
+released structure carries nothing (s0 = 0), so by the force method (:mod:`leastwork.solve`)
+
+    X = -delta^-1 B' E e,     s = B X = G e,     G = -B delta^-1 B' E,
+
+where column k of E selects the axial force of toleranced member k. G (N per m of misfit)
+is found for all toleranced members at once: one multi-right-hand-side solve with the
+factorised flexibility matrix. Every reported quantity (axial forces, beam end moments,
+reactions) is a row of ``Q G``.
+
+The response is linear and the tolerance box |e_k| <= t_k symmetric, so the exact extremes
+are at a corner: max = sum |G_qk| t_k with e_k = sign(G_qk) t_k, and min = -max with the
+opposite pattern. Monte Carlo samples of e (uniform over +-t, or normal with sigma = t/3)
+give the spread; for a linear response its standard deviation is exactly
+sqrt(sum (G_qk sigma_k)^2) with sigma_k = t_k/sqrt(3) (uniform) or t_k/3 (normal).
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from collections.abc import Mapping
+from dataclasses import dataclass
+
+import numpy as np
+
+from .errors import CaseError
+from .influence import reaction_rows
+from .model import Structure
+from .units import UnitSystem, ureg
+
+__all__ = [
+    "Reported",
+    "WorstCase",
+    "MonteCarlo",
+    "FitupStudy",
+    "Adjustment",
+    "DISTRIBUTIONS",
+    "MAX_SAMPLES",
+    "parse_tolerances",
+    "axial_column",
+    "reported_quantities",
+    "misfit_influence",
+    "worst_case",
+    "exact_std",
+    "monte_carlo",
+    "fitup_study",
+    "adjustment",
+    "study_to_dict",
+    "adjustment_to_dict",
+    "new_seed",
+]
+
+DISTRIBUTIONS = ("uniform", "normal")
+#: Largest number of Monte Carlo samples, and of stored responses (samples x quantities).
+MAX_SAMPLES = 1_000_000
+_MAX_STORED = 50_000_000
+#: Entries of G below this fraction of the largest force of their column (moments over the
+#: longest member) are round-off and taken as zero.
+_ROUND_OFF = 1e-12
+#: |G[target, adjust]| below this fraction of the largest force the adjusted member's misfit
+#: sets up is "no effect" for the inverse question.
+_NO_EFFECT = 1e-9
+_SOURCE, _WHERE = "command line", "--tolerance"
+_NUMBER_FIRST = re.compile(r"^[-+]?(?:\d|\.\d)")
+
+
+# ------------------------------------------------------------------------------ input
+def _tolerance_value(st: Structure, item: str, text: str) -> float:
+    """One tolerance (m) from ``text``: a length with units, or a bare number in the case
+    length unit."""
+    def bad(msg: str) -> CaseError:
+        return CaseError(f'"{item}": {msg}', source=_SOURCE, where=_WHERE)
+
+    try:
+        value = float(text) * st.units.factor("length")
+    except ValueError:
+        if not _NUMBER_FIRST.match(text):
+            raise bad(f'"{text}" is not a length (expected a number with or without a unit, '
+                      'e.g. 2mm or 0.002)') from None
+        try:
+            q = ureg().parse_expression(text)
+            value = st.units.to_si(q if hasattr(q, "magnitude") else float(q), "length")
+        except ValueError as exc:
+            raise bad(str(exc)) from None
+        except Exception:  # the unit parser raises several kinds
+            raise bad(f'cannot read "{text}" as a length (e.g. 2mm or 0.002)') from None
+    if not math.isfinite(value):
+        raise bad(f"the tolerance must be a finite length, got {text}")
+    if value < 0.0:
+        raise bad(f"a tolerance is a +- band and cannot be negative, got {text}")
+    return value
+
+
+def parse_tolerances(text: str, st: Structure) -> dict[str, float]:
+    """Read a tolerance spec such as ``"DA=2mm,*=1mm"``: ``MEMBER=LENGTH`` items separated by
+    commas; ``*`` stands for every other bar or beam with an axial stiffness. Bare numbers are
+    in the case length unit. Returns {member: tolerance in m}, in the structure's member
+    order (members with a zero tolerance are kept).
+
+    Raises CaseError (source "command line", where "--tolerance") naming the item for an
+    unknown member, a negative or non-finite value, a malformed or repeated item, or a
+    tolerance of half the member length or more.
+    """
+    explicit: dict[str, float] = {}
+    said: dict[str, str] = {}  # member (or *) -> its item, for messages
+    star: float | None = None
+    items = [t.strip() for t in text.split(",")]
+    if not any(items):
+        raise CaseError("expected MEMBER=LENGTH items such as DA=2mm,*=1mm",
+                        source=_SOURCE, where=_WHERE)
+    for item in items:
+        if not item:
+            continue
+        name, sep, value = (s.strip() for s in item.partition("="))
+        if not sep or not name or not value:
+            raise CaseError(f'"{item}": expected MEMBER=LENGTH (e.g. DA=2mm or *=1mm)',
+                            source=_SOURCE, where=_WHERE)
+        if name == "*":
+            if star is not None:
+                raise CaseError(f'"{item}": * is given twice', source=_SOURCE, where=_WHERE)
+            star = _tolerance_value(st, item, value)
+            said["*"] = item
+            continue
+        if name not in st.members:
+            import difflib
+
+            close = difflib.get_close_matches(name, list(st.members), n=1, cutoff=0.5)
+            hint = f' (did you mean "{close[0]}"?)' if close else ""
+            raise CaseError(f'"{item}": unknown member "{name}"{hint}', source=_SOURCE,
+                            where=_WHERE)
+        if name in explicit:
+            raise CaseError(f'"{item}": member {name} is given twice', source=_SOURCE,
+                            where=_WHERE)
+        explicit[name] = _tolerance_value(st, item, value)
+        said[name] = item
+    out: dict[str, float] = {}
+    for mid, m in st.members.items():
+        if mid in explicit:
+            t = explicit[mid]
+        elif star is not None and m.EA is not None:
+            t = star
+        else:
+            continue
+        L = st.length(mid)
+        if t >= 0.5 * L:
+            raise CaseError(f'"{said.get(mid, said.get("*"))}": the tolerance of {mid} is half '
+                            "its length or more, outside the small-displacement assumption",
+                            source=_SOURCE, where=_WHERE)
+        out[mid] = t
+    if not out:
+        raise CaseError("* matches no member (no bar or beam with an axial stiffness)",
+                        source=_SOURCE, where=_WHERE)
+    return out
+
+
+# ------------------------------------------------------------------------ quantities
+@dataclass(frozen=True)
+class Reported:
+    """The quantities of the study as rows over the basic forces.
+
+    ``groups`` is "members" (axial force, key the member id), "moments" (beam end moments,
+    ``ID.start.m``/``ID.end.m``) or "reactions" (``NODE.x|y|rz|n``); ``dims`` "force" or
+    "moment"; ``rows`` (nq, ncol).
+    """
+
+    names: tuple[str, ...]
+    groups: tuple[str, ...]
+    dims: tuple[str, ...]
+    rows: np.ndarray
+
+
+def axial_column(st: Structure, topo, mid: str) -> int:
+    """Column of the axial basic force of member ``mid``."""
+    return topo.column_index[mid if st.members[mid].kind == "bar" else f"{mid}.n"]
+
+
+def reported_quantities(st: Structure, topo) -> Reported:
+    """Every member's axial force, every beam end moment (hinged ends have none) and every
+    reaction component."""
+    ncol = len(topo.columns)
+    names, groups, dims, rows = [], [], [], []
+
+    def add(name: str, group: str, dim: str, row: np.ndarray) -> None:
+        names.append(name)
+        groups.append(group)
+        dims.append(dim)
+        rows.append(row)
+
+    for mid in st.members:
+        add(mid, "members", "force", np.eye(ncol)[axial_column(st, topo, mid)])
+    for j, c in enumerate(topo.columns):
+        if c.kind in ("start_m", "end_m"):
+            add(c.name, "moments", "moment", np.eye(ncol)[j])
+    for name, (row, dim) in reaction_rows(st, topo).items():
+        add(name, "reactions", dim, row)
+    return Reported(tuple(names), tuple(groups), tuple(dims),
+                    np.array(rows).reshape(len(rows), ncol))
+
+
+def misfit_influence(sol, members) -> np.ndarray:
+    """G (ncol, k): basic forces and reactions (N, N*m) per metre of misfit of each of
+    ``members``, from one multi-right-hand-side solve with the factorised flexibility."""
+    st, topo = sol.structure, sol.topology
+    E = np.zeros((len(topo.columns), len(members)))
+    for k, mid in enumerate(members):
+        E[axial_column(st, topo, mid), k] = 1.0
+    from .influence import _flexibility_solver
+
+    X = _flexibility_solver(sol).solve(-sol.B.T @ E)
+    return sol.B @ X
+
+
+def _clean(Gq: np.ndarray, dims, lmax: float) -> np.ndarray:
+    """Round-off entries (below 1e-12 of their column's largest force) set to zero."""
+    if Gq.size == 0:
+        return Gq
+    lever = np.array([lmax if d == "moment" else 1.0 for d in dims])[:, None]
+    scaled = np.abs(Gq) / lever
+    top = scaled.max(axis=0, keepdims=True)
+    return np.where(scaled <= _ROUND_OFF * top, 0.0, Gq)
+
+
+# ----------------------------------------------------------------------- statistics
+@dataclass(frozen=True)
+class WorstCase:
+    """Exact extremes over the tolerance box (SI) and the misfits (m) that give them:
+    ``pattern_max[q, k]`` is member k's length error for the max of quantity q (0 where
+    member k does not affect q)."""
+
+    max: np.ndarray
+    min: np.ndarray
+    pattern_max: np.ndarray
+    pattern_min: np.ndarray
+
+
+def worst_case(Gq: np.ndarray, t: np.ndarray) -> WorstCase:
+    """Extremes of ``Gq @ e`` over |e_k| <= t_k: ``sum |G_qk| t_k`` at e = sign(G_q) t."""
+    pattern = np.sign(Gq) * t[None, :]
+    upper = np.abs(Gq) @ t
+    return WorstCase(upper, -upper, pattern, -pattern)
+
+
+def exact_std(Gq: np.ndarray, t: np.ndarray, distribution: str) -> np.ndarray:
+    """Standard deviation of the linear response: sqrt(sum (G_qk sigma_k)^2) with
+    sigma = t/sqrt(3) (uniform over +-t) or t/3 (normal)."""
+    sigma = t / (math.sqrt(3.0) if distribution == "uniform" else 3.0)
+    return np.sqrt(np.sum((Gq * sigma[None, :]) ** 2, axis=1))
+
+
+@dataclass(frozen=True)
+class MonteCarlo:
+    """Sample statistics per quantity (SI): mean, std (n-1), 5th and 95th percentiles."""
+
+    mean: np.ndarray
+    std: np.ndarray
+    p05: np.ndarray
+    p95: np.ndarray
+
+
+def monte_carlo(Gq: np.ndarray, t: np.ndarray, samples: int, distribution: str,
+                seed: int) -> MonteCarlo:
+    """Sample misfits (uniform over +-t, or normal with sigma = t/3, not truncated) with a
+    numpy Generator seeded by ``seed``, in blocks, and the statistics of ``Gq @ e``.
+
+    The same seed gives the same samples whatever the block size. Rows of ``Gq`` that are
+    zero give exact zeros; the others are evaluated through a rank-revealing factorisation
+    ``Gq diag(sigma) = A V`` (its rank is at most the number of redundants) when that is
+    cheaper; sigma = t (uniform, z on (-1, 1)) or t/3 (normal, z standard normal).
+    """
+    if distribution not in DISTRIBUTIONS:
+        raise CaseError(f'unknown distribution "{distribution}"; expected uniform or normal',
+                        source=_SOURCE, where="--distribution")
+    nq, nt = Gq.shape
+    rng = np.random.default_rng(seed)
+    live = np.flatnonzero(np.any(Gq != 0.0, axis=1))
+    # e = t * z with z uniform on (-1, 1), or standard normal / 3 (the 1/3 folded in here)
+    sigma = t if distribution == "uniform" else t / 3.0
+    A, V = _factors(Gq[live] * sigma[None, :])
+    R = np.empty((live.size, samples))
+    block = max(1, 2 ** 21 // max(nt, 1))
+    for a in range(0, samples, block):
+        m = min(block, samples - a)
+        if distribution == "uniform":
+            Z = rng.uniform(-1.0, 1.0, size=(m, nt))
+        else:
+            Z = rng.standard_normal(size=(m, nt))
+        R[:, a:a + m] = A @ (V @ Z.T) if V is not None else A @ Z.T
+    out = np.zeros((4, nq))
+    if live.size:
+        out[0, live] = R.mean(axis=1)
+        out[1, live] = R.std(axis=1, ddof=1)
+        out[2:, live] = np.percentile(R, [5.0, 95.0], axis=1, overwrite_input=True)
+    return MonteCarlo(*out)
+
+
+def _factors(M: np.ndarray) -> tuple[np.ndarray, np.ndarray | None]:
+    """(A, V) with M = A V and the fewest products per sample, or (M, None)."""
+    n, k = M.shape
+    if n == 0 or k == 0:
+        return M, None
+    U, sv, Vt = np.linalg.svd(M, full_matrices=False)
+    r = int(np.sum(sv > 1e-13 * sv[0])) if sv[0] > 0 else 0
+    if r * (n + k) >= n * k:
+        return M, None
+    return U[:, :r] * sv[:r], Vt[:r]
+
+
+@dataclass(frozen=True)
+class FitupStudy:
+    """A fit-up study in SI: tolerances (m), the influence matrix ``G`` (nq, nt) of the
+    reported quantities per metre of misfit, the exact extremes, the Monte Carlo
+    statistics and the exact standard deviation."""
+
+    tolerances: dict[str, float]
+    quantities: Reported
+    G: np.ndarray
+    worst: WorstCase
+    stats: MonteCarlo
+    std_exact: np.ndarray
+    samples: int
+    distribution: str
+    seed: int
+
+
+def new_seed() -> int:
+    """A fresh random seed (0 <= seed < 2**32), to be reported so a run can be repeated."""
+    return int(np.random.SeedSequence().generate_state(1)[0])
+
+
+def fitup_study(sol, tolerances: Mapping[str, float], samples: int = 10000,
+                distribution: str = "uniform", seed: int | None = None) -> FitupStudy:
+    """The forces locked in by length errors within ``tolerances`` (m per member) alone,
+    without the case loads (add a load case's result by superposition).
+
+    Raises CaseError for a number of samples outside 2..MAX_SAMPLES (or too many to store).
+    """
+    st, topo = sol.structure, sol.topology
+    if not 2 <= samples <= MAX_SAMPLES:
+        raise CaseError(f"expected from 2 to {MAX_SAMPLES} samples, got {samples}",
+                        source=_SOURCE, where="--samples")
+    seed = new_seed() if seed is None else int(seed)
+    if seed < 0:
+        raise CaseError(f"the seed must be zero or positive, got {seed}", source=_SOURCE,
+                        where="--seed")
+    rep = reported_quantities(st, topo)
+    if samples * len(rep.names) > _MAX_STORED:
+        raise CaseError(f"{samples} samples of {len(rep.names)} quantities are too many to "
+                        f"keep; use at most {_MAX_STORED // len(rep.names)} samples",
+                        source=_SOURCE, where="--samples")
+    members = list(tolerances)
+    t = np.array([tolerances[m] for m in members], dtype=float)
+    lmax = max((st.length(m) for m in st.members), default=1.0)
+    Gq = _clean(rep.rows @ misfit_influence(sol, members), rep.dims, lmax)
+    return FitupStudy(dict(tolerances), rep, Gq, worst_case(Gq, t),
+                      monte_carlo(Gq, t, samples, distribution, seed),
+                      exact_std(Gq, t, distribution), samples, distribution, seed)
+
+
+# ----------------------------------------------------------------- inverse question
+@dataclass(frozen=True)
+class Adjustment:
+    """The length change (m; positive = make longer, i.e. a misfit of that value) of member
+    ``member`` that makes the axial force of ``target`` zero in load case ``case``.
+
+    ``force_before`` (N) is the target's force before; ``rate`` (N/m) its change per metre
+    of length change; ``before``/``after`` every member's axial force (N).
+    """
+
+    member: str
+    target: str
+    case: str
+    change: float
+    force_before: float
+    rate: float
+    before: dict[str, float]
+    after: dict[str, float]
+
+
+def adjustment(sol, member: str, target: str, case: str | None = None) -> Adjustment:
+    """Solve ``delta_e = -N_target / G[target, member]`` under the loads of ``case`` (default:
+    the only load case, or the first).
+
+    Raises CaseError when a member is unknown, the load case does not exist, or the length
+    of ``member`` does not affect the force in ``target`` (|G| below 1e-9 of the largest
+    force its misfit sets up, or no force at all).
+    """
+    st, topo = sol.structure, sol.topology
+    for mid, where in ((member, "--adjust"), (target, "--zero")):
+        if mid not in st.members:
+            import difflib
+
+            close = difflib.get_close_matches(mid, list(st.members), n=1, cutoff=0.5)
+            hint = f' (did you mean "{close[0]}"?)' if close else ""
+            raise CaseError(f'unknown member "{mid}"{hint}', source=_SOURCE, where=where)
+    if case is None:
+        case = next(iter(sol.cases))
+    if case not in sol.cases:
+        raise CaseError(f'no load case "{case}"; the case has: ' + ", ".join(sol.cases),
+                        source=_SOURCE, where="--case")
+    col = misfit_influence(sol, [member])[:, 0]
+    axial = {mid: axial_column(st, topo, mid) for mid in st.members}
+    lmax = max((st.length(m) for m in st.members), default=1.0)
+    scale = max([abs(col[j]) for j in axial.values()]
+                + [abs(v) / lmax for j, v in enumerate(col)
+                   if topo.columns[j].kind in ("start_m", "end_m")] + [0.0])
+    rate = float(col[axial[target]])
+    if scale == 0.0:
+        raise CaseError(f"a length change of {member} locks in no force at all (the "
+                        f"structure follows it freely), so it cannot change the force in "
+                        f"{target}", source=_SOURCE, where="--adjust")
+    if abs(rate) <= _NO_EFFECT * scale:
+        raise CaseError(f"a length change of {member} does not change the force in {target} "
+                        "(the two share no redundant load path); adjust another member",
+                        source=_SOURCE, where="--adjust")
+    s = sol.cases[case].s
+    force = float(s[axial[target]])
+    change = -force / rate
+    before = {mid: float(s[j]) for mid, j in axial.items()}
+    after = {mid: float(s[j] + col[j] * change) for mid, j in axial.items()}
+    return Adjustment(member, target, case, change, force, rate, before, after)
+
+
+# ------------------------------------------------------------------------------ JSON
+def _num(x: float) -> float:
+    x = float(x)
+    return 0.0 if x == 0.0 else x
+
+
+def study_to_dict(study: FitupStudy, units: UnitSystem) -> dict:
+    """The JSON of ``leastwork fitup`` (see docs/studies.md), in the report units: forces in
+    the force unit, moments in force*length, tolerances and patterns in the length unit."""
+    Lf = units.factor("length")
+    members = list(study.tolerances)
+    rep = study.quantities
+    out: dict = {
+        "tolerances": {m: _num(v / Lf) for m, v in study.tolerances.items()},
+        "samples": study.samples,
+        "distribution": study.distribution,
+        "seed": study.seed,
+        "members": {},
+        "moments": {},
+        "reactions": {},
+    }
+    w, mc = study.worst, study.stats
+    for q, (name, group, dim) in enumerate(zip(rep.names, rep.groups, rep.dims, strict=True)):
+        f = units.factor(dim)
+        out[group][name] = {
+            "worst": {
+                "max": _num(w.max[q] / f),
+                "min": _num(w.min[q] / f),
+                "pattern_max": {m: _num(e / Lf) for m, e in zip(members, w.pattern_max[q],
+                                                                   strict=True)},
+                "pattern_min": {m: _num(e / Lf) for m, e in zip(members, w.pattern_min[q],
+                                                                   strict=True)},
+            },
+            "mean": _num(mc.mean[q] / f),
+            "std": _num(mc.std[q] / f),
+            "std_exact": _num(study.std_exact[q] / f),
+            "p05": _num(mc.p05[q] / f),
+            "p95": _num(mc.p95[q] / f),
+        }
+    out["units"] = _units(units)
+    return out
+
+
+def adjustment_to_dict(adj: Adjustment, units: UnitSystem) -> dict:
+    """The ``"adjust"`` entry of the JSON, in the report units."""
+    Ff, Lf = units.factor("force"), units.factor("length")
+    top = max([abs(v) for v in (*adj.before.values(), *adj.after.values())] + [0.0])
+
+    def force(v: float) -> float:
+        return 0.0 if abs(v) <= _ROUND_OFF * top else _num(v / Ff)
+
+    return {
+        "case": adj.case,
+        "member": adj.member,
+        "zero": adj.target,
+        "length_change": _num(adj.change / Lf),
+        "force_before": _num(adj.force_before / Ff),
+        "force_per_length": _num(adj.rate * Lf / Ff),
+        "before": {m: force(v) for m, v in adj.before.items()},
+        "after": {m: force(v) for m, v in adj.after.items()},
+    }
+
+
+def _units(units: UnitSystem) -> dict:
+    return {"force": units.force, "length": units.length, "moment": units.moment}

@@ -1,0 +1,258 @@
+"""Command line of the studies: ``leastwork fitup`` and ``leastwork influence``.
+
+``add_parsers(sub)`` adds both subcommands to the subparsers of :mod:`leastwork.cli` (whose
+parser class turns a bad option into exit status 2 with one line); ``run(args, console)``
+solves the case once and prints rich tables (units in the headers) or the JSON of
+docs/studies.md.
+"""
+
+from __future__ import annotations
+
+import json
+import sys
+
+import numpy as np
+from rich.markup import escape
+
+from .errors import CaseError
+
+__all__ = ["add_parsers", "run", "COMMANDS"]
+
+COMMANDS = ("fitup", "influence")
+
+_FITUP = """\
+Fit-up tolerance study: the forces locked into the structure by members made within a
+length tolerance (no loads): the exact worst case with the pattern of length errors that
+gives it, and Monte Carlo statistics. With --adjust/--zero: the length change of one
+member that makes the axial force of another zero under a load case.
+"""
+
+_INFLUENCE = """\
+Influence line: the value of a quantity as a downward load of one force unit moves along
+the listed members, for all positions at once by the force method.
+"""
+
+
+def add_parsers(sub) -> None:
+    """Add the ``fitup`` and ``influence`` subcommands to ``sub``, the subparsers action of
+    :func:`leastwork.cli._parser` (made with ``parser_class=_Parser``, so that a bad option
+    exits with status 2 and one line)."""
+    import argparse
+
+    kw = {"formatter_class": argparse.RawDescriptionHelpFormatter}
+    f = _add(sub, "fitup", "fit-up tolerance study (and length adjustment)", _FITUP, kw)
+    f.add_argument("case", help="case file (TOML)")
+    f.add_argument("--tolerance", metavar="SPEC",
+                   help="length tolerances, e.g. DA=2mm,*=1mm (* = every other bar or beam "
+                        "with an axial stiffness; bare numbers in the case length unit)")
+    f.add_argument("--samples", type=int, default=10000, metavar="N",
+                   help="Monte Carlo samples (default 10000)")
+    f.add_argument("--seed", type=int, metavar="S",
+                   help="seed of the random numbers (default: a fresh one, reported)")
+    f.add_argument("--distribution", choices=("uniform", "normal"), default="uniform",
+                   help="length errors uniform over +-t (default) or normal with sigma = t/3")
+    f.add_argument("--case", dest="load_case", metavar="NAME",
+                   help="load case of --adjust (default: the only or the first one)")
+    f.add_argument("--adjust", metavar="MEMBER",
+                   help="member whose length is changed (shim) ...")
+    f.add_argument("--zero", metavar="MEMBER",
+                   help="... so that the axial force of this member is zero")
+    f.add_argument("--json", action="store_true", help="print only the JSON result")
+    f.add_argument("--no-color", action="store_true", help="plain text, no colours")
+    i = _add(sub, "influence", "influence line of a reaction or internal force",
+             _INFLUENCE, kw)
+    i.add_argument("case", help="case file (TOML)")
+    i.add_argument("--quantity", required=True, metavar="Q",
+                   help="B.y (reaction x, y, rz, n), a member id (axial force), "
+                        "AB.start.m, or a section force AB@2.5.m (m, v or n; distance in "
+                        "the case length unit)")
+    i.add_argument("--along", required=True, metavar="MEMBERS",
+                   help="comma-separated members the load moves along, e.g. AB,BC")
+    i.add_argument("--points", type=int, default=10, metavar="N",
+                   help="equal intervals per member (default 10: the ends and 9 interior "
+                        "points)")
+    i.add_argument("--json", action="store_true", help="print only the JSON result")
+    i.add_argument("--no-color", action="store_true", help="plain text, no colours")
+
+
+def _add(sub, name: str, help_text: str, description: str, kw: dict):
+    return sub.add_parser(name, help=help_text, description=description, **kw)
+
+
+def run(args, console) -> int:
+    """Run ``fitup`` or ``influence``; returns the exit status (errors are raised as
+    CaseError / MechanismError for :func:`leastwork.cli.main` to report)."""
+    from .caseio import load_case
+
+    st = load_case(args.case)
+    if args.command == "fitup":
+        return _fitup(args, st, console)
+    if args.command == "influence":
+        return _influence(args, st, console)
+    raise CaseError(f'unknown study "{args.command}"', source="command line")
+
+
+# ---------------------------------------------------------------------------- fitup
+def _fitup(args, st, console) -> int:
+    from .fitup import adjustment, adjustment_to_dict, fitup_study, parse_tolerances
+    from .fitup import study_to_dict as to_dict
+    from .solve import solve
+
+    if args.tolerance is None and args.adjust is None and args.zero is None:
+        raise CaseError("give --tolerance SPEC (e.g. DA=2mm,*=1mm) and/or --adjust MEMBER "
+                        "--zero MEMBER", source="command line", where="--tolerance")
+    if (args.adjust is None) != (args.zero is None):
+        raise CaseError("--adjust MEMBER and --zero MEMBER go together", source="command line",
+                        where="--adjust" if args.zero is None else "--zero")
+    if args.load_case is not None and args.adjust is None:
+        raise CaseError("--case picks the load case of --adjust; the tolerance study itself "
+                        "uses no loads", source="command line", where="--case")
+    tol = parse_tolerances(args.tolerance, st) if args.tolerance is not None else None
+    sol = solve(st)
+    units = sol.units
+    study = (fitup_study(sol, tol, args.samples, args.distribution, args.seed)
+             if tol is not None else None)
+    adj = (adjustment(sol, args.adjust, args.zero, args.load_case)
+           if args.adjust is not None else None)
+    if args.json:
+        out: dict = {"name": st.name}
+        if study is not None:
+            out.update(to_dict(study, units))
+        if adj is not None:
+            out["adjust"] = adjustment_to_dict(adj, units)
+        out["units"] = {"force": units.force, "length": units.length, "moment": units.moment}
+        out["warnings"] = list(sol.warnings)
+        sys.stdout.write(json.dumps(out, indent=2) + "\n")
+        return 0
+    _header(console, sol)
+    if study is not None:
+        _print_study(console, study, units)
+    if adj is not None:
+        _print_adjustment(console, adj, units)
+    return 0
+
+
+def _header(console, sol) -> None:
+    st = sol.structure
+    console.print(f"[bold]{escape(st.name)}[/bold]  ({escape(st.source)})")
+    console.print("Linear elastic, small displacements. Results must be checked by a "
+                  "qualified engineer against the governing local codes before use.")
+    for w in sol.warnings:
+        console.print(f"[yellow]Warning: {escape(w)}[/yellow]")
+
+
+def _g(x: float) -> str:
+    return f"{x:.4g}" if x != 0 else "0"
+
+
+def _length(x_si: float, units) -> str:
+    return f"{x_si / units.factor('length'):+.4g}"
+
+
+def _print_study(console, study, units) -> None:
+    from rich.table import Table
+
+    rep = study.quantities
+    tol = ", ".join(f"{m} ±{_g(t / units.factor('length'))}" for m, t in study.tolerances.items())
+    dist = ("uniform over ±t" if study.distribution == "uniform"
+            else "normal, sigma = t/3")
+    console.print(escape(f"Fit-up study: forces locked in by length errors alone (no loads). "
+                         f"Tolerances [{units.length}]: {tol}"))
+    console.print(f"Monte Carlo: {study.samples} samples, {dist}, seed {study.seed}.")
+    titles = {("members", "force"): "Axial forces", ("moments", "moment"): "Beam end moments",
+              ("reactions", "force"): "Reactions", ("reactions", "moment"): "Reaction couples"}
+    for (group, dim), title in titles.items():
+        idx = [q for q in range(len(rep.names)) if rep.groups[q] == group and rep.dims[q] == dim]
+        if not idx:
+            continue
+        u = units.force if dim == "force" else units.moment
+        f = units.factor(dim)
+        t = Table(title=escape(f"{title} [{u}]: exact worst case and Monte Carlo"),
+                  header_style="bold")
+        t.add_column("quantity", no_wrap=True)
+        for head in ("worst ±", "mean", "std", "std exact", "p05", "p95"):
+            t.add_column(escape(f"{head} [{u}]"), justify="right", overflow="fold")
+        for q in idx:
+            t.add_row(rep.names[q], *(_g(v[q] / f) for v in (
+                study.worst.max, study.stats.mean, study.stats.std, study.std_exact,
+                study.stats.p05, study.stats.p95)))
+        console.print(t)
+    axial = [q for q in range(len(rep.names)) if rep.groups[q] == "members"]
+    if axial:
+        q = max(axial, key=lambda k: study.worst.max[k])
+        if study.worst.max[q] > 0:
+            pat = ", ".join(f"{m} {_length(e, units)}" for m, e in zip(
+                study.tolerances, study.worst.pattern_max[q], strict=True) if e != 0)
+            console.print(escape(
+                f"Largest worst-case axial force: {rep.names[q]}, "
+                f"{_g(study.worst.max[q] / units.factor('force'))} {units.force}, with the "
+                f"length errors [{units.length}] {pat} (the opposite signs give the minimum)."))
+
+
+def _print_adjustment(console, adj, units) -> None:
+    from rich.table import Table
+
+    Ff, Lf = units.factor("force"), units.factor("length")
+    how = "longer" if adj.change > 0 else "shorter"
+    console.print(
+        f"Load case {adj.case}: the axial force in {adj.target} is "
+        f"{_g(adj.force_before / Ff)} {units.force} and changes by "
+        f"{_g(adj.rate * Lf / Ff)} {units.force} per {units.length} of length change of "
+        f"{adj.member}. Make {adj.member} [bold]{_g(abs(adj.change) / Lf)} {units.length} "
+        f"{how}[/bold] (misfit {_length(adj.change, units)} {units.length}) to make it zero.")
+    t = Table(title=escape(f"Axial forces [{units.force}], load case {adj.case}"),
+              header_style="bold")
+    for head in ("member", f"before [{units.force}]", f"after [{units.force}]"):
+        t.add_column(escape(head), justify="left" if head == "member" else "right")
+    top = max([abs(v) for v in (*adj.before.values(), *adj.after.values())] + [0.0])
+    for m in adj.before:
+        after = adj.after[m] if abs(adj.after[m]) > 1e-12 * top else 0.0
+        t.add_row(m, _g(adj.before[m] / Ff), _g(after / Ff))
+    console.print(t)
+
+
+# ------------------------------------------------------------------------ influence
+def _influence(args, st, console) -> int:
+    from .influence import influence_line, influence_to_dict, parse_members, parse_quantity
+    from .solve import solve
+    from .topology import build_topology
+
+    topo = build_topology(st)
+    q = parse_quantity(st, topo, args.quantity)  # refuse bad input before solving
+    parse_members(st, args.along)
+    sol = solve(st)
+    units = sol.units
+    line = influence_line(sol, q, args.along, args.points, units)
+    d = influence_to_dict(line, units, st.name)
+    if args.json:
+        d["warnings"] = list(sol.warnings)
+        sys.stdout.write(json.dumps(d, indent=2) + "\n")
+        return 0
+    from rich.table import Table
+
+    _header(console, sol)
+    u = d["units"]
+    along = ", ".join(dict.fromkeys(p["member"] for p in d["points"]))
+    console.print(f"Influence line of [bold]{escape(d['quantity'])}[/bold] for a load of "
+                  f"{escape(u['load'])} moving along {escape(along)} ({args.points} intervals "
+                  "per member).")
+    t = Table(header_style="bold")
+    t.add_column("member")
+    t.add_column(escape(f"at [{u['length']}]"), justify="right")
+    t.add_column(escape(f"value [{u['value']}]"), justify="right")
+    sides = any("side" in p for p in d["points"])
+    if sides:
+        t.add_column("load")
+    for p in d["points"]:
+        row = [p["member"], _g(p["at"]), _g(p["value"])]
+        if sides:
+            row.append({"start": "just before the section", "end": "just after the section"}
+                       .get(p.get("side", ""), ""))
+        t.add_row(*row)
+    console.print(t)
+    vals = np.array([p["value"] for p in d["points"]])
+    for label, k in (("largest", int(np.argmax(vals))), ("smallest", int(np.argmin(vals)))):
+        p = d["points"][k]
+        console.print(f"{label.capitalize()} ordinate: {_g(p['value'])} {u['value']} with the "
+                      f"load on {p['member']} at {_g(p['at'])} {u['length']}.")
+    return 0
