@@ -600,6 +600,9 @@ class _Context:
             for target, value in cj["displacements"].items():
                 any_target = True
                 s_u, dim = _virtual_state(st, topo, res, target)
+                s_final = self._denoise(res.s[:, None])[:, 0]
+                if s_u is not None:
+                    s_u = self._denoise(s_u[:, None])[:, 0]
                 lab = "rad" if dim == (0, 0) else u.lu
                 if s_u is None:
                     blocks.append(Para(f"Load case {case}: {target} = {fmt(value)} {lab} "
@@ -609,7 +612,7 @@ class _Context:
                 rows = []
                 for t in self.terms:
                     cols = list(t.columns)
-                    v = u.conv(float(s_u[cols] @ t.block @ res.s[cols]), *dim)
+                    v = u.conv(float(s_u[cols] @ t.block @ s_final[cols]), *dim)
                     if v != 0.0:
                         rows.append((t.owner, t.term, v))
                 for d in self._deformations(res):
@@ -670,7 +673,7 @@ class _Context:
                                    + ". These numbers must not be used before the cause is "
                                    "found.", "alarm"))
         for w in self.sol.warnings:
-            blocks.append(Para(f"Warning: {w}", "warning"))
+            blocks.append(Para(w, "warning"))
         return Step(8, "Equilibrium check, cross-check and caution", tuple(blocks))
 
 

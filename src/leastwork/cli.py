@@ -71,6 +71,32 @@ def _parser() -> argparse.ArgumentParser:
     n.add_argument("kind", nargs="?", help="kind of structure (see --list)")
     n.add_argument("--list", action="store_true", help="list the kinds, one per line")
     sub.add_parser("demo", help="solve a bundled example and show what the tool can do")
+    pl = sub.add_parser("plot", help="draw the structure, force diagrams and deflected shape",
+                        description="Draw the structure with its supports, loads and "
+                        "redundants, the n, v and m diagrams and the deflected shape, to a "
+                        "PNG or SVG file (by the suffix).\n\n" + _DESCRIPTION,
+                        formatter_class=argparse.RawDescriptionHelpFormatter)
+    pl.add_argument("case", help="case file (TOML)")
+    pl.add_argument("-o", "--output", metavar="FILE", required=True,
+                    help="PNG or SVG file to write")
+    pl.add_argument("--case", dest="load_case", metavar="NAME",
+                    help="draw only this load case (default: every case)")
+    pl.add_argument("--diagrams", metavar="LIST", default="structure,n,v,m,deflected",
+                    help="comma-separated: structure, n, v, m, deflected (default: all)")
+    pl.add_argument("--redundants", metavar="LIST", help="redundants to mark (as for solve)")
+    pl.add_argument("--force", action="store_true", help="replace FILE if it exists")
+    rp = sub.add_parser("report", help="write a calculation report (HTML or Markdown)",
+                        description="Write a calculation report: inputs, assumptions, the "
+                        "audit steps, results, diagrams, the cross-check and the caution. "
+                        "HTML (one self-contained file) or Markdown (with SVG images beside "
+                        "it), by the suffix.\n\n" + _DESCRIPTION,
+                        formatter_class=argparse.RawDescriptionHelpFormatter)
+    rp.add_argument("case", help="case file (TOML)")
+    rp.add_argument("-o", "--output", metavar="FILE", required=True,
+                    help=".html or .md file to write")
+    rp.add_argument("--case", dest="load_case", metavar="NAME", help="only this load case")
+    rp.add_argument("--redundants", metavar="LIST", help="redundants (as for solve)")
+    rp.add_argument("--force", action="store_true", help="replace existing files")
     from . import studies_cli
 
     studies_cli.add_parsers(sub)
@@ -156,6 +182,8 @@ def _run(argv) -> int:
     st = load_case(args.case)
     plain = getattr(args, "no_color", False)
     console = Console(color_system=None, highlight=False) if plain else Console()
+    if args.command in ("plot", "report"):
+        return _drawing(args, st)
     if args.command in ("fitup", "influence"):
         from . import studies_cli
 
@@ -228,6 +256,59 @@ _SUFFIX_FORMAT = {".md": "md", ".markdown": "md", ".tex": "latex", ".json": "jso
                   ".txt": "text"}
 
 
+def _drawing(args, st) -> int:
+    """``plot`` and ``report``: solve, then write the figure or the report files."""
+    import os
+    import pathlib
+    import tempfile
+
+    from .solve import solve
+    from .writing import write_files
+
+    names = _split(args.redundants)
+    sol = solve(st, names)
+    cases = None
+    if args.load_case is not None:
+        if args.load_case not in sol.cases:
+            raise CaseError(f'no load case "{args.load_case}"; the case has: '
+                            + ", ".join(sol.cases), source="command line", where="--case")
+        cases = [args.load_case]
+    out = pathlib.Path(args.output)
+    suffix = out.suffix.lower()
+    if args.command == "plot":
+        from .report.plot import parse_diagrams, plot_case
+
+        if suffix not in (".png", ".svg"):
+            raise CaseError(f'cannot draw to "{out}": name it .png or .svg',
+                            source="command line", where="--output")
+        diagrams = parse_diagrams(args.diagrams)
+        fd, tmp = tempfile.mkstemp(suffix=suffix)
+        os.close(fd)
+        try:
+            plot_case(sol, tmp, case=args.load_case, diagrams=diagrams)
+            files = {out: pathlib.Path(tmp).read_bytes()}
+        finally:
+            os.unlink(tmp)
+    elif suffix in (".html", ".htm"):
+        from .report.html import report_html
+
+        files = {out: report_html(sol, cases, meta=_sheet_meta())}
+    elif suffix in (".md", ".markdown"):
+        from .report.html import report_markdown_files
+
+        files = report_markdown_files(sol, out, cases, meta=_sheet_meta())
+    else:
+        raise CaseError(f'cannot tell the report format of "{out}": name it .html or .md',
+                        source="command line", where="--output")
+    write_files(files, force=args.force, case=st.source)
+    for path in files:
+        print(f"leastwork: wrote {path}", file=sys.stderr)
+    if not sol.equilibrium_ok or not sol.cross_check_ok:
+        print("leastwork: WARNING: a check FAILED (equilibrium or cross-check); see the "
+              "report", file=sys.stderr)
+    return 0
+
+
 def _new(args) -> int:
     from .starters import starter_kinds, starter_text
 
@@ -277,38 +358,16 @@ def _document(sol, cases, fmt_name: str, extra=None) -> str:
 
 
 def _emit(text: str, args, st) -> None:
-    """Print ``text``, or write it to ``--output``: never over an existing file unless
-    --force, and never over the case file."""
-    import os
+    """Print ``text``, or write it to ``--output`` (see :mod:`leastwork.writing`)."""
     import pathlib
-    import tempfile
+
+    from .writing import write_files
 
     if not args.output:
         sys.stdout.write(text)
         return
-    path = pathlib.Path(args.output)
-    case = pathlib.Path(st.source)
-    if path.exists() and case.exists() and os.path.samefile(path, case):
-        raise CaseError("refusing to write the result over the case file itself",
-                        source="command line", where="--output")
-    if path.is_dir():
-        raise CaseError(f'"{path}" is a directory; give a file name', source="command line",
-                        where="--output")
-    if not path.parent.is_dir():
-        raise CaseError(f'folder "{path.parent}" does not exist', source="command line",
-                        where="--output")
-    if path.exists() and not args.force:
-        raise CaseError(f'"{path}" exists; choose another name or add --force to replace it',
-                        source="command line", where="--output")
-    if args.force:  # write beside it, then replace in one step
-        fd, tmp = tempfile.mkstemp(dir=path.parent, prefix=f".{path.name}.")
-        with os.fdopen(fd, "w", encoding="utf-8") as fh:
-            fh.write(text)
-        os.replace(tmp, path)
-    else:
-        with open(path, "x", encoding="utf-8") as fh:
-            fh.write(text)
-    print(f"leastwork: wrote {path}", file=sys.stderr)
+    write_files({pathlib.Path(args.output): text}, force=args.force, case=st.source)
+    print(f"leastwork: wrote {args.output}", file=sys.stderr)
 
 
 def _symbolic(args, st, names, cases, fmt_name) -> int:

@@ -216,7 +216,8 @@ def print_sheet(console: Console, sheet: Sheet) -> None:
                 if block.tone == "alarm":
                     console.print(Panel(escape(block.text), style="bold red"))
                 else:
-                    console.print(escape(block.text), style=_TONE[block.tone] or None)
+                    text = ("Warning: " if block.tone == "warning" else "") + block.text
+                    console.print(escape(text), style=_TONE[block.tone] or None)
             elif isinstance(block, Formula):
                 console.print("  " + escape(block.text), highlight=False)
             else:

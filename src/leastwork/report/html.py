@@ -1,0 +1,342 @@
+"""The calculation report as one self-contained HTML file (inline CSS and SVG, nothing
+fetched) that prints well, and as Markdown with one diagram file per load case beside it.
+
+No I/O here: the functions return text (and file names); the command line writes them.
+"""
+
+from __future__ import annotations
+
+import datetime
+import html
+import pathlib
+import re
+from urllib.parse import quote
+
+from ..errors import CaseError
+from ..sheet import Formula, Grid, Para, Sheet, fmt, split_grid
+
+__all__ = ["report_html", "report_markdown_files", "image_names", "default_meta", "summary_grids", "CSS",
+           "HTML_TABLE_WIDTH"]
+
+#: Widest table (characters) before it is split into parts repeating its key columns.
+HTML_TABLE_WIDTH = 120
+
+CSS = """
+:root { --ink: #1b1b1b; --muted: #5a5a5a; --rule: #b9b9b9; --head: #ececec;
+        --warn: #7a4d00; --warn-bg: #fff4dc; --warn-edge: #c98a00;
+        --alarm: #9b1010; --alarm-bg: #fde9e9; }
+html { -webkit-text-size-adjust: 100%; }
+body { font: 10.5pt/1.45 "DejaVu Sans", "Liberation Sans", Arial, sans-serif;
+       color: var(--ink); background: #fff; max-width: 200mm; margin: 10mm auto;
+       padding: 0 6mm; }
+h1 { font-size: 17pt; margin: 0 0 2mm; }
+h2 { font-size: 13pt; margin: 8mm 0 2mm; padding-bottom: 1mm;
+     border-bottom: 1px solid var(--rule); }
+h3 { font-size: 11pt; margin: 5mm 0 1.5mm; }
+p { margin: 1.5mm 0; }
+.meta { color: var(--muted); margin: 0 0 4mm; }
+.meta span { margin-right: 6mm; white-space: nowrap; }
+.scroll { overflow-x: auto; }
+table { border-collapse: collapse; margin: 1.5mm 0 4mm; font-size: 8.5pt;
+        font-variant-numeric: tabular-nums; }
+.tt { font-weight: bold; margin: 3mm 0 0; }
+th, td { border: 1px solid #c8c8c8; padding: 0.5mm 1.8mm; vertical-align: top; }
+th { background: var(--head); text-align: left; font-weight: bold; }
+td.num { text-align: right; white-space: nowrap; }
+tr.total td { font-weight: bold; border-top: 2px solid #555; }
+.formula { font-family: "DejaVu Sans Mono", "Liberation Mono", Consolas, monospace;
+           font-size: 9pt; background: #f4f4f4; border-left: 3px solid #c8c8c8;
+           padding: 1mm 2.5mm; margin: 1.5mm 0; white-space: pre-wrap; }
+.tone-note { color: var(--muted); }
+.tone-warning { background: var(--warn-bg); border-left: 4px solid var(--warn-edge);
+                color: var(--warn); padding: 1.5mm 3mm; }
+.tone-alarm { background: var(--alarm-bg); border: 2px solid var(--alarm);
+              color: var(--alarm); font-weight: bold; padding: 2mm 3mm; }
+.ok { color: #1d5a2a; font-weight: bold; }
+.bad { color: var(--alarm); font-weight: bold; }
+figure { margin: 3mm 0 6mm; }
+figure svg { display: block; width: 100%; height: auto; }
+figcaption { color: var(--muted); font-size: 9pt; margin-top: 1mm; }
+.caution { border: 1px solid var(--ink); padding: 2mm 3mm; font-weight: bold; }
+footer { margin-top: 8mm; color: var(--muted); font-size: 9pt;
+         border-top: 1px solid var(--rule); padding-top: 2mm; }
+@page { size: A4; margin: 14mm 12mm 16mm; }
+@media print {
+  body { max-width: none; margin: 0; padding: 0; font-size: 9.5pt; }
+  section.step, section.diagrams, figure.case { break-before: page; }
+  section.diagrams figure.case:first-of-type { break-before: avoid; }
+  h2, h3, .tt { break-after: avoid; }
+  tr, .formula, .tone-warning, .tone-alarm, figure, .caution { break-inside: avoid; }
+  table.short { break-inside: avoid; }
+  thead { display: table-header-group; }
+  .scroll { overflow: visible; }
+  figure svg { max-height: 240mm; }
+  a { color: inherit; text-decoration: none; }
+}
+""".strip()
+
+_TONE = {"plain": "", "note": "Note: ", "warning": "Warning: ", "alarm": "FAILED: "}
+
+
+def default_meta() -> dict[str, str]:
+    """Tool version and today's date, as the command line puts them on a sheet."""
+    from .. import __version__
+
+    return {"Prepared with": f"leastwork {__version__}",
+            "Date": datetime.date.today().isoformat()}
+
+
+def _cases(sol, case_names) -> list[str]:
+    names = list(case_names or sol.cases)
+    for c in names:
+        if c not in sol.cases:
+            raise CaseError(f'unknown load case "{c}"; the cases are {", ".join(sol.cases)}',
+                            where="case")
+    return names
+
+
+def _e(text) -> str:
+    return html.escape(str(text), quote=True)
+
+
+# ---------------------------------------------------------------------------- blocks
+
+
+def _para(b: Para) -> str:
+    prefix = _TONE.get(b.tone, "")
+    if prefix and b.text.lower().startswith(prefix.strip().lower()):
+        prefix = ""  # the text says it already
+    cls = f' class="tone-{_e(b.tone)}"' if b.tone != "plain" else ""
+    role = ' role="alert"' if b.tone == "alarm" else ""
+    lead = f"<strong>{_e(prefix.strip())}</strong> " if prefix else ""
+    return f"<p{cls}{role}>{lead}{_e(b.text)}</p>"
+
+
+def _table(g: Grid) -> str:
+    out = []
+    for part in split_grid(g, HTML_TABLE_WIDTH):
+        numeric = [not all(isinstance(r[k], str) for r in part.rows) and k >= part.keys
+                   for k in range(len(part.headers))]
+        nrows = len(part.rows) + (1 if part.total else 0)
+        cls = "short" if nrows <= 14 else "long"
+        rows = [f'<div class="tt">{_e(part.title)}</div>',
+                f'<div class="scroll"><table class="{cls}">', "<thead><tr>"
+                + "".join(f"<th>{_e(h)}</th>" for h in part.headers) + "</tr></thead>",
+                "<tbody>"]
+        for r in part.rows:
+            rows.append("<tr>" + "".join(_cell(c, numeric[k]) for k, c in enumerate(r))
+                        + "</tr>")
+        if part.total:
+            rows.append('<tr class="total">' + "".join(_cell(c, numeric[k]) for k, c
+                                                       in enumerate(part.total)) + "</tr>")
+        rows += ["</tbody></table></div>"]
+        out.append("\n".join(rows))
+    return "\n".join(out)
+
+
+def _cell(value, numeric: bool) -> str:
+    cls = ' class="num"' if numeric and not isinstance(value, str) else ""
+    return f"<td{cls}>{_e(fmt(value))}</td>"
+
+
+def _blocks(blocks) -> str:
+    out = []
+    for b in blocks:
+        if isinstance(b, Para):
+            out.append(_para(b))
+        elif isinstance(b, Formula):
+            out.append(f'<div class="formula">{_e(b.text)}</div>')
+        else:
+            out.append(_table(b))
+    return "\n".join(out)
+
+
+# ---------------------------------------------------------------------------- sections
+
+
+def _redundant_unit(sol, j: int) -> str:
+    col = sol.topology.columns[j]
+    st = sol.structure
+    moment = col.kind in ("start_m", "end_m") or (col.kind == "reaction"
+                                                   and col.name.endswith(".rz"))
+    return f"{st.units.force}*{st.units.length}" if moment else st.units.force
+
+
+def summary_grids(sol, cases: list[str]) -> list[Grid]:
+    """The redundants of every case, and the checks (equilibrium and the direct-stiffness
+    cross-check), as tables in the case units."""
+    data = sol.to_dict()
+    grids = []
+    names = sol.redundant_names
+    if names:
+        rows = tuple((f"X{i + 1}", n, _redundant_unit(sol, j),
+                      *[data["cases"][c]["redundants"][n] for c in cases])
+                     for i, (n, j) in enumerate(zip(names, sol.redundant_columns,
+                                                    strict=True)))
+        grids.append(Grid("The redundants", ("X", "redundant", "unit", *cases), rows, keys=3))
+    rows = []
+    for c in cases:
+        ch = data["cases"][c]["checks"]
+        res = sol.cases[c]
+        sc = res.stiffness
+        if sc is None:
+            cross, where, verdict = "-", "-", "not run"
+        elif sc.difference is None:
+            cross, where, verdict = "no answer", sc.failure, "FAILED"
+        else:
+            cross, where = fmt(sc.difference, 2), sc.where or "-"
+            verdict = "OK" if sc.ok else "FAILED"
+        rows.append((c, ch["equilibrium_residual"], ch["equilibrium_tolerance"],
+                     "OK" if ch["equilibrium_ok"] else "FAILED", cross, where, verdict))
+    grids.append(Grid("Checks: equilibrium, and the independent direct-stiffness method",
+                      ("case", f"residual [{sol.structure.units.force}]", "tolerance",
+                       "equilibrium", "difference (relative)", "at", "cross-check"),
+                      tuple(rows)))
+    return grids
+
+
+def _inputs(sol) -> str:
+    st = sol.structure
+    lu = st.units.length
+    out = [f"<p>Units of the case: forces in {_e(st.units.force)}, lengths in {_e(lu)}; "
+           "every number below is in these units.</p>"]
+    rows = tuple((n.id, n.x / st.units.factor("length"), n.y / st.units.factor("length"),
+                  "yes" if n.id in st.supports else "-") for n in st.nodes.values())
+    out.append(_table(Grid("Nodes", ("node", f"x [{lu}]", f"y [{lu}]", "support"), rows)))
+    opts = [("redundants", ", ".join(sol.redundant_names) or "none (statically determinate)"),
+            ("chosen by", "the user" if sol.chosen_by_user else "the tool"),
+            ("shear energy", "included" if st.shear else "not included"),
+            ("displacements asked", ", ".join(st.displacements) or "none"),
+            ("load cases", ", ".join(sol.cases))]
+    out.append(_table(Grid("Analysis", ("item", "value"), tuple(opts))))
+    out.append("<p>Members, supports and loads: see step 1.</p>")
+    return "\n".join(out)
+
+
+def _diagrams(sol, cases: list[str]) -> str:
+    from .plot import figure_svg
+
+    out = []
+    for k, c in enumerate(cases, 1):
+        svg = _inline_svg(figure_svg(sol, c), f"Diagrams of load case {c}", f"fig{k}-")
+        out.append(f'<figure class="case">{svg}<figcaption>Load case {_e(c)}: the structure '
+                   "with its loads and redundants, the axial force n, shear force v and "
+                   "bending moment m along each member (m drawn on the tension side), and "
+                   "the deflected shape, magnified as stated.</figcaption></figure>")
+    return "\n".join(out)
+
+
+def _inline_svg(svg: str, label: str, prefix: str) -> str:
+    """SVG text made fit to sit inside HTML: no XML prolog, doctype or metadata, its ids
+    prefixed (several figures share one document), labelled for screen readers."""
+    start = svg.find("<svg")
+    body = svg[start:] if start >= 0 else svg
+    body = re.sub(r"<metadata>.*?</metadata>\s*", "", body, flags=re.S)
+    body = re.sub(r'\bid="', f'id="{prefix}', body)
+    body = re.sub(r"url\(#", f"url(#{prefix}", body)
+    body = re.sub(r'href="#', f'href="#{prefix}', body)
+    return body.replace("<svg", f'<svg role="img" aria-label="{_e(label)}"', 1)
+
+
+def report_html(sol, case_names=None, meta: dict[str, str] | None = None) -> str:
+    """The whole calculation as one HTML document: title, summary of the redundants and
+    checks, inputs, assumptions, diagrams (inline SVG), the eight steps of the audit
+    trail, cautions, tool version and date (``meta``; default: this tool and today)."""
+    from ..audit import audit_sheet
+
+    cases = _cases(sol, case_names)
+    sheet = audit_sheet(sol, cases, meta=default_meta() if meta is None else meta)
+    return _document(sol, sheet, cases)
+
+
+def _document(sol, sheet: Sheet, cases: list[str]) -> str:
+    head = ['<!DOCTYPE html>', '<html lang="en">', "<head>", '<meta charset="utf-8"/>',
+            '<meta name="viewport" content="width=device-width, initial-scale=1"/>',
+            f"<title>{_e(sheet.title)} — calculation report</title>",
+            f"<style>\n{CSS}\n</style>", "</head>", "<body>"]
+    meta = "".join(f"<span>{_e(k)}: {_e(v)}</span>" for k, v in sheet.meta.items())
+    body = ["<header>", f"<h1>{_e(sheet.title)}</h1>",
+            f'<p class="meta"><span>Case file: {_e(sheet.source)}</span>{meta}</p>',
+            "</header>"]
+    body += ['<section class="summary">', "<h2>Summary</h2>"]
+    body += [_table(g) for g in summary_grids(sol, cases)]
+    if not sol.equilibrium_ok or not sol.cross_check_ok:
+        body.append(_para(Para("A check failed (see the table above and step 8): these "
+                               "results must not be used before the cause is found.",
+                               "alarm")))
+    body += [_para(Para(w, "warning")) for w in sol.warnings]
+    body += ["</section>", '<section class="inputs">', "<h2>Inputs</h2>", _inputs(sol),
+             "</section>", '<section class="assumptions">', "<h2>Assumptions</h2>", "<ul>"]
+    body += [f"<li>{_e(a)}</li>" for a in sheet.assumptions]
+    body += ["</ul>", "</section>", '<section class="diagrams">', "<h2>Diagrams</h2>",
+             _diagrams(sol, cases), "</section>"]
+    for step in sheet.steps:
+        body += [f'<section class="step" id="step-{step.number}">',
+                 f"<h2>Step {step.number}. {_e(step.title)}</h2>", _blocks(step.blocks),
+                 "</section>"]
+    body += ['<section class="cautions">', "<h2>Caution</h2>"]
+    body += [f'<p class="caution">{_e(c)}</p>' for c in sheet.cautions]
+    body += ["</section>", "<footer>"
+             + " · ".join(_e(f"{k}: {v}") for k, v in sheet.meta.items()) + "</footer>",
+             "</body>", "</html>"]
+    return "\n".join(head + body) + "\n"
+
+
+# ---------------------------------------------------------------------------- Markdown
+
+
+def image_names(md_path, cases) -> dict[str, str]:
+    """File name of each load case's diagram, beside the Markdown file:
+    ``STEM-CASE.svg`` with anything but letters, digits, '-', '_' and '.' in the case name
+    replaced by '_' (a number is added when two names would clash).
+
+    >>> image_names("out/calc.md", ["dead", "wind/left", "wind left"])
+    {'dead': 'calc-dead.svg', 'wind/left': 'calc-wind_left.svg', 'wind left': 'calc-wind_left-2.svg'}
+    """
+    stem = pathlib.Path(md_path).stem
+    out: dict[str, str] = {}
+    taken: set[str] = set()
+    for c in cases:
+        base = f"{stem}-{re.sub(r'[^A-Za-z0-9_.-]+', '_', c).strip('.') or 'case'}"
+        name, k = f"{base}.svg", 2
+        while name.lower() in taken:
+            name, k = f"{base}-{k}.svg", k + 1
+        taken.add(name.lower())
+        out[c] = name
+    return out
+
+
+def _md_escape(text: str) -> str:
+    return re.sub(r"([\\`*_\[\]<>|])", r"\\\1", str(text))
+
+
+def report_markdown_files(sol, md_path, case_names=None,
+                          meta: dict[str, str] | None = None) -> dict[pathlib.Path, bytes | str]:
+    """The Markdown report (the audit trail with a summary of the checks and the diagrams
+    linked) and one SVG diagram per load case beside it: {path: content}, the Markdown
+    file first. Nothing is written here."""
+    from ..audit import audit_sheet
+    from .documents import sheet_markdown
+    from .plot import figure_svg
+
+    md_path = pathlib.Path(md_path)
+    cases = _cases(sol, case_names)
+    sheet = audit_sheet(sol, cases, meta=default_meta() if meta is None else meta)
+    names = image_names(md_path, cases)
+    images: dict[pathlib.Path, bytes | str] = {}
+    lines = []
+    for c in cases:
+        images[md_path.with_name(names[c])] = figure_svg(sol, c)
+        lines += [f"![Diagrams of load case {_md_escape(c)}]({quote(names[c])})", "",
+                  f"*Load case {_md_escape(c)}: structure, loads and redundants; n, v, m "
+                  "(m on the tension side); deflected shape, magnified as stated.*", ""]
+    checks = []
+    for g in summary_grids(sol, cases):
+        checks += [f"**{g.title}**", "",
+                   "| " + " | ".join(_md_escape(h) for h in g.headers) + " |",
+                   "|" + "|".join("---" for _ in g.headers) + "|"]
+        checks += ["| " + " | ".join(_md_escape(fmt(c)) for c in r) + " |" for r in g.rows]
+        checks.append("")
+    text = sheet_markdown(sheet, extra=[("Summary of the redundants and checks", checks),
+                                        ("Diagrams", lines)])
+    return {md_path: text, **images}
