@@ -54,7 +54,10 @@ from .model import (
 __all__ = ["StiffnessResult", "solve_stiffness", "stiffness_dofs"]
 
 #: Smallest accepted pivot of the Jacobi-scaled reduced stiffness (below: a mechanism).
-_PIVOT_TOL = 1e-11
+_PIVOT_TOL = 1e-9
+#: Largest accepted ratio of scaled response to scaled load (above: a mechanism that
+#: round-off hid from the pivots).
+_AMPLIFICATION = 1e9
 #: Relative size below which an eliminated constraint row counts as dependent.
 _DEPENDENT_TOL = 1e-10
 _GAUSS_X, _GAUSS_W = np.polynomial.legendre.leggauss(4)  # exact to degree 7
@@ -572,6 +575,12 @@ def _solve_reduced(st: Structure, index, elim: _Elimination, K, rhs: np.ndarray,
     b = D * rhs
     y = lu.solve(b)
     y += lu.solve(b - A @ y)  # one step of iterative refinement
+    # a pivot can hide a zero eigenvalue (round-off of the elimination); an amplification
+    # no well-posed structure shows is the second sign of a mechanism
+    if np.linalg.norm(y) > _AMPLIFICATION * max(np.linalg.norm(b), 1e-300):
+        raise _mechanism(st, index, elim, A, D, lref,
+                         f"the response is {np.linalg.norm(y) / np.linalg.norm(b):.2g} "
+                         "times the load in scaled terms")
     return D * y
 
 
