@@ -243,9 +243,15 @@ class _Context:
                 rows.append((r.name, what))
         blocks.append(Grid("Supports (reaction components)", ("restraint", "kind"),
                            tuple(rows)))
+        combos = dict(st.combinations)
         blocks.append(Grid("Loads", ("case", "load", "on", "values"),
                            tuple(_load_row(st, u, ld) for ld in st.loads
-                                 if ld.case in self.cases)))
+                                 if ld.case in self.cases and ld.case not in combos)))
+        if combos:
+            blocks.append(Grid("Load combinations (solved as load cases of factored loads)",
+                               ("combination", "factors"),
+                               tuple((name, " + ".join(f"{fmt(f)} × {c}" for c, f in parts))
+                                     for name, parts in combos.items())))
         blocks.append(Para(
             f"Degree of indeterminacy by rank: {len(topo.columns)} unknown forces - rank "
             f"{topo.rank} of the equilibrium matrix = {topo.degree} "

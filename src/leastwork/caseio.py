@@ -11,6 +11,7 @@ import difflib
 import math
 import re
 import tomllib
+from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
@@ -29,14 +30,15 @@ from .model import (
     Support,
     TemperatureLoad,
     rotational_nodes,
+    scaled_load,
 )
 from .units import UnitSystem, check_unit, example_for, ureg
 
-__all__ = ["load_case", "loads_case"]
+__all__ = ["load_case", "loads_case", "CaseRecord", "read_case_record"]
 
 _TABLES = (
     "structure", "parameters", "materials", "sections", "defaults", "nodes", "beams",
-    "bars", "supports", "loads", "analysis",
+    "bars", "supports", "loads", "combinations", "analysis",
 )
 _ID = re.compile(r"^[A-Za-z_][A-Za-z0-9_]*$|^[0-9]+[A-Za-z0-9_]*$")
 _SUPPORT_TYPES = {"fixed": ("x", "y", "rz"), "pinned": ("x", "y"), "roller": ("y",)}
@@ -68,11 +70,47 @@ def load_case(path: str | Path) -> Structure:
 
 def loads_case(text: str, source: str = "<string>") -> Structure:
     """Read a case from TOML text; ``source`` names it in error messages."""
+    return _Reader(_parse_toml(text, source), source).structure()
+
+
+def _parse_toml(text: str, source: str) -> dict[str, Any]:
     try:
-        data = tomllib.loads(text)
+        return tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
         raise CaseError(f"not valid TOML: {exc}", source=source) from None
-    return _Reader(data, source).structure()
+
+
+@dataclass(frozen=True)
+class CaseRecord:
+    """What the reader saw, for a reader that needs more than SI floats (the exact
+    arithmetic of :mod:`leastwork.symbolic`).
+
+    Attributes
+    ----------
+    data : dict
+        The parsed TOML.
+    fields : dict
+        Every quantity field read, as written (a number or a string) with its dimension,
+        keyed by its place in the file as error messages name it: ``"[nodes] B[0] (x)"``,
+        ``"[materials.steel] E"``, ``"[beams] AB.EI"``, ``"[supports] B.springs.y"``,
+        ``"[[loads]] #2.wy"`` (``.wy[0]``/``.wy[1]`` for a [start, end] pair).
+    parameters : dict
+        Each ``[parameters]`` name with its value as read (a pint quantity).
+    """
+
+    data: dict[str, Any]
+    fields: dict[str, tuple[Any, str]]
+    parameters: dict[str, Any]
+
+
+def read_case_record(text: str, source: str = "<string>") -> tuple[Structure, CaseRecord]:
+    """Read a case from TOML text like :func:`loads_case`, and also return the
+    :class:`CaseRecord` of every quantity as written."""
+    data = _parse_toml(text, source)
+    reader = _Reader(data, source)
+    reader.record = {}
+    st = reader.structure()
+    return st, CaseRecord(data, dict(reader.record), dict(reader._param_val))
 
 
 def _hint(word: str, choices) -> str:
@@ -90,6 +128,8 @@ class _Reader:
         self._param_raw: dict[str, Any] = {}
         self._param_val: dict[str, Any] = {}
         self._param_busy: list[str] = []
+        #: where -> (value as written, dimension) of every quantity read, when asked for
+        self.record: dict[str, tuple[Any, str]] | None = None
 
     # ------------------------------------------------------------------ helpers
     def err(self, where: str, message: str) -> CaseError:
@@ -144,6 +184,8 @@ class _Reader:
         if abs(si) > _SI_LIMIT:
             raise self.err(where, f"{value!r} is beyond any sensible {dimension} (more than "
                            f"{_SI_LIMIT:g} in SI units); check the value and its units")
+        if self.record is not None:
+            self.record[where] = (value, dimension)
         return si
 
     def positive(self, value: Any, dimension: str, where: str) -> float:
@@ -251,6 +293,7 @@ class _Reader:
         used = {m.start for m in members.values()} | {m.end for m in members.values()}
         supports = self._supports(nodes, used)
         loads, case_order = self._loads(nodes, members, supports, used, materials)
+        combinations = self._combinations(loads, case_order)
         redundants, displacements, shear = self._analysis(members)
         if shear:
             for m in members.values():
@@ -264,7 +307,7 @@ class _Reader:
         return Structure(
             name=name, nodes=nodes, members=members, supports=supports, loads=tuple(loads),
             units=self.units, redundants=redundants, displacements=displacements, shear=shear,
-            source=self.source, case_order=tuple(case_order),
+            source=self.source, case_order=tuple(case_order), combinations=combinations,
         )
 
     def _units(self, spec: Any) -> UnitSystem:
@@ -637,6 +680,34 @@ class _Reader:
                 raise self.err(where + ".gradient", f'member "{member.id}" has no section '
                                "depth: give depth in its section for a temperature gradient")
         return TemperatureLoad(member.id, uniform, gradient, case)
+
+    def _combinations(self, loads: list, case_order: list) -> tuple:
+        """``[combinations]``: NAME = { CASE = factor, ... }. Each combination's factored
+        loads are appended to ``loads`` under its name (and the name to ``case_order``), so
+        that it solves like a load case."""
+        spec = self.table("combinations")
+        out = []
+        cases = list(case_order)
+        for name, parts in spec.items():
+            where = f"[combinations] {name}"
+            if not _ID.match(name):
+                raise self.err(where, "a combination name is made of letters, digits and _")
+            if name in cases:
+                raise self.err(where, f'"{name}" is already the name of a load case')
+            if not isinstance(parts, dict) or not parts:
+                raise self.err(where, 'expected { CASE = factor, ... }, e.g. '
+                               '{ dead = 1.35, live = 1.5 }, got ' + _kind(parts))
+            factors = []
+            for case, value in parts.items():
+                if case not in cases:
+                    raise self.err(f"{where}.{case}", f'no load case "{case}"'
+                                   f"{_hint(case, cases)}; the cases are: " + ", ".join(cases))
+                factors.append((case, self.quantity(value, "number", f"{where}.{case}")))
+            for case, f in factors:
+                loads.extend(scaled_load(ld, f, name) for ld in list(loads) if ld.case == case)
+            case_order.append(name)
+            out.append((name, tuple(factors)))
+        return tuple(out)
 
     def _analysis(self, members):
         spec = self.table("analysis")
