@@ -60,7 +60,11 @@ def _stable(case):
             with pytest.raises(MechanismError):
                 solve_stiffness(structure, name)
         assume(False)
-    return structure, leastwork.solve(structure)
+    sol = leastwork.solve(structure, verify=False)
+    # a near-mechanism (hinges or bearings almost in line after rounding the coordinates)
+    # is warned about by the tool; agreement to 1e-8 is not expected there
+    assume(not any("near-mechanism" in w for w in sol.warnings))
+    return structure, sol
 
 
 def _scales(structure, cr) -> tuple[float, float, float]:
@@ -68,7 +72,11 @@ def _scales(structure, cr) -> tuple[float, float, float]:
     lmax = max(structure.length(m) for m in structure.members)
     forces = [abs(v) for rs in cr.reactions.values() for k, v in rs.items() if k != "rz"]
     forces += [abs(v) for m in cr.members.values() for v in (*m.start[:2], *m.end[:2])]
-    force = max(forces)
+    # moments over the longest member count too: a couple carried by a rotational spring
+    # alone leaves every force zero
+    forces += [abs(v) / lmax for rs in cr.reactions.values() for k, v in rs.items() if k == "rz"]
+    forces += [abs(v) / lmax for m in cr.members.values() for v in (m.start[2], m.end[2])]
+    force = max(max(forces), cr.equilibrium_scale)
     topo_dofs = cr.released.topo.dofs
     u = cr.nodal_displacements
     trans = max(abs(v) for d, v in zip(topo_dofs, u) if not d.endswith(".rz"))

@@ -15,7 +15,6 @@ import sys
 import time
 from pathlib import Path
 
-import numpy as np
 import pytest
 
 sys.path.insert(0, str(Path(__file__).parent))
@@ -398,6 +397,7 @@ def test_only_the_loads_of_the_case_are_solved():
                           {"node": "B", "mz": 5.0, "case": "wind"}], EI=20000.0)
     st = leastwork.loads_case(text, source="<test>")
     snow, wind = solve_stiffness(st, "snow"), solve_stiffness(st, "wind")
+    # propped cantilever, uniform load: prop reaction 3wL/8 (AISC Manual, beam diagrams)
     assert snow.reactions["B"]["y"] == pytest.approx(3 * 10.0e3 * 6.0 / 8, rel=1e-12)
     # a couple M at the prop of a propped cantilever: prop reaction 3M/(2L) (from memory)
     assert abs(wind.reactions["B"]["y"]) == pytest.approx(3 * 5.0e3 / (2 * 6.0), rel=1e-12)
@@ -468,4 +468,3 @@ def test_dof_count():
     assert stiffness_dofs(st) == 5
     assert math.isclose(sum(solve_stiffness(st, "default").reactions[n]["y"] for n in "ABC"),
                         5.0e3, rel_tol=1e-12)
-    assert np.isfinite(stiffness_dofs(st))
