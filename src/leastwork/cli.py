@@ -221,7 +221,7 @@ def _run(argv) -> int:
         cases = [args.load_case]
     fmt_name = _output_format(args)
     if args.symbolic:
-        return _symbolic(args, st, names, cases, fmt_name)
+        return _symbolic(args, st, sol, names, cases, fmt_name)
     if fmt_name == "json":
         d = sol.to_dict()
         if cases:
@@ -370,9 +370,43 @@ def _emit(text: str, args, st) -> None:
     print(f"leastwork: wrote {args.output}", file=sys.stderr)
 
 
-def _symbolic(args, st, names, cases, fmt_name) -> int:
-    raise CaseError("--symbolic is not available yet", source="command line",
-                    where="--symbolic")
+def _symbolic(args, st, sol, names, cases, fmt_name) -> int:
+    """``solve --symbolic``: closed forms (terminal, JSON strings, or a sheet section)."""
+    from rich.console import Console
+
+    from .report.closed_forms import (
+        closed_forms_latex,
+        closed_forms_markdown,
+        print_closed_forms,
+    )
+    from .symbolic import solve_symbolic
+
+    err = Console(stderr=True)
+    with err.status(f"closed forms (at most {args.time_limit:g} s)...", spinner="dots"):
+        sym = solve_symbolic(args.case, redundants=names,
+                             extra_displacements=_split(args.at) or [],
+                             time_limit=args.time_limit)
+    if fmt_name == "json":
+        d = sym.to_dict()
+        if cases:
+            d["cases"] = {k: v for k, v in d["cases"].items() if k in cases}
+        _emit(json.dumps(d, indent=2) + "\n", args, st)
+        return 0
+    if fmt_name in ("md", "latex"):
+        lines = (closed_forms_markdown if fmt_name == "md" else closed_forms_latex)(sym, cases)
+        _emit(_document(sol, cases, fmt_name, extra=[("Closed forms", lines)]), args, st)
+        return 0
+    plain = args.no_color or bool(args.output)
+    console = (Console(record=True, file=io.StringIO(), width=_FILE_WIDTH, color_system=None)
+               if args.output else Console(color_system=None) if plain else Console())
+    if args.steps:
+        from .report.terminal import print_steps
+
+        print_steps(console, sol, cases)
+    print_closed_forms(console, sym, cases)
+    if args.output:
+        _emit(console.export_text(), args, st)
+    return 0
 
 
 if __name__ == "__main__":  # pragma: no cover

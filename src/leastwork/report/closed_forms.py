@@ -1,0 +1,98 @@
+"""Closed forms of a symbolic solve (``--symbolic``) on the terminal and in sheets: each
+result as an expression of the parameters with its value at the parameter values."""
+
+from __future__ import annotations
+
+from ..sheet import fmt
+
+__all__ = ["closed_form_rows", "print_closed_forms", "closed_forms_markdown",
+           "closed_forms_latex"]
+
+
+def closed_form_rows(sym, case_names=None) -> list[tuple[str, str, object, float, str]]:
+    """(case, quantity, expression, value, unit) of every result of ``sym`` (a
+    :class:`leastwork.symbolic.SymbolicSolution`), in the order of the JSON result."""
+    u = sym.units
+    force, moment, length = u["force"], u["moment"], u["length"]
+    rows = []
+    for name in case_names or list(sym.cases):
+        c = sym.cases[name]
+        for k, v in c.redundants.items():
+            is_moment = k.endswith(".m") or k.endswith(".rz")
+            rows.append((name, f"redundant {k}", v, moment if is_moment else force))
+        for node, comps in c.reactions.items():
+            for d, v in comps.items():
+                rows.append((name, f"reaction {node}.{d}", v, moment if d == "rz" else force))
+        for mid, r in c.members.items():
+            for end in ("start", "end"):
+                for q in "nvm":
+                    rows.append((name, f"{mid} {end} {q}", r[end][q],
+                                 moment if q == "m" else force))
+            for k in ("m_max", "m_min"):
+                rows.append((name, f"{mid} {k}", r[k]["value"], moment))
+                rows.append((name, f"{mid} {k} at", r[k]["at"], length))
+        for t, v in c.displacements.items():
+            rows.append((name, f"displacement {t}", v, "rad" if t.endswith(".rz") else length))
+    return [(case, q, e, sym.numeric(e), unit) for case, q, e, unit in rows]
+
+
+def _parameters_line(sym) -> str:
+    return ", ".join(f"{n} = {fmt(sym.values[s])} {sym.parameter_units[n]}".rstrip()
+                     for n, s in sym.parameters.items())
+
+
+def print_closed_forms(console, sym, case_names=None) -> None:
+    """Tables of closed forms on the terminal."""
+    from rich.markup import escape
+    from rich.table import Table
+
+    console.print(f"[bold]{escape(sym.name)}[/bold]  ({escape(sym.source)}) — closed forms")
+    console.print("Parameters (symbols, in the case units): " + escape(_parameters_line(sym)))
+    console.print(f"Redundants: {', '.join(sym.redundant_names) or 'none'}; degree "
+                  f"{sym.degree}")
+    for w in sym.warnings:
+        console.print(f"[yellow]Warning: {escape(w)}[/yellow]")
+    current, table = None, None
+    for case, q, expr, value, unit in closed_form_rows(sym, case_names):
+        if case != current:
+            if table is not None:
+                console.print(table)
+            current = case
+            table = Table(title=f"Load case {case}", header_style="bold")
+            table.add_column("quantity")
+            table.add_column("closed form")
+            table.add_column("value", justify="right")
+            table.add_column("unit")
+        table.add_row(escape(q), escape(str(expr)), fmt(value), escape(unit))
+    if table is not None:
+        console.print(table)
+
+
+def closed_forms_markdown(sym, case_names=None) -> list[str]:
+    """Markdown lines: parameters, then one table of closed forms per load case."""
+    out = [f"Parameters (symbols, in the case units): {_parameters_line(sym)}", ""]
+    current = None
+    for case, q, expr, value, unit in closed_form_rows(sym, case_names):
+        if case != current:
+            current = case
+            out += ["", f"**Load case {case}**", "", "| quantity | closed form | value | unit |",
+                    "|:---|:---|---:|:---|"]
+        out.append(f"| {q} | `{expr}` | {fmt(value)} | {unit} |")
+    return out
+
+
+def closed_forms_latex(sym, case_names=None) -> list[str]:
+    """LaTeX lines: one typeset equation per result with its value."""
+    import sympy
+
+    from .documents import tex_escape
+
+    out = [tex_escape("Parameters (symbols, in the case units): " + _parameters_line(sym)), ""]
+    current = None
+    for case, q, expr, value, unit in closed_form_rows(sym, case_names):
+        if case != current:
+            current = case
+            out.append(rf"\subsection*{{Load case {tex_escape(case)}}}")
+        out.append(rf"\noindent {tex_escape(q)}: $\displaystyle {sympy.latex(expr)}$ "
+                   rf"$= {fmt(value)}$ {tex_escape(unit)}\\[2pt]")
+    return out

@@ -1,0 +1,604 @@
+"""Exact arithmetic for the symbolic force method.
+
+Every quantity of the pipeline is an element of one rational-function field
+K = QQ(parameters, auxiliaries): the parameter symbols, plus one *auxiliary* symbol for
+each irrational part of the input (a member length sqrt(h**2 + b**2), the sine of a roller
+angle, pi). Arithmetic in K is exact and always fully cancelled, and far faster than
+general sympy expressions; the auxiliaries are put back (and the results simplified) only
+at the end. A result that is an identity of rational functions with independent
+auxiliaries stays true when they take their values.
+
+Every element can also be evaluated at the parameter values (60 significant digits) to
+make the decisions that depend on them: the order of positions along a member, pivots,
+which root of dm/dx is a moment extreme.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable, Iterable, Sequence
+from dataclasses import dataclass
+from typing import Any
+
+import mpmath
+import sympy
+from sympy import QQ
+from sympy.polys.fields import field as frac_field
+
+__all__ = [
+    "Atomizer",
+    "Algebra",
+    "Poly",
+    "Piecewise",
+    "SparseLU",
+    "cramer",
+    "factors",
+    "Lin",
+    "Closure",
+    "padd",
+    "psub",
+    "pscale",
+    "pmul",
+    "pint",
+    "peval",
+    "pder",
+    "ptrim",
+]
+
+_DPS = 60
+
+
+class Atomizer:
+    """Replace the irrational parts of expressions (non-integer powers, functions such as
+    sin, and constants such as pi) by auxiliary symbols, remembering what they stand for."""
+
+    def __init__(self, values: dict[sympy.Symbol, sympy.Expr]):
+        self._values = values  # exact parameter values
+        self._aux: dict[sympy.Expr, sympy.Symbol] = {}
+        #: (auxiliary symbol, what it stands for), in order of creation
+        self.definitions: list[tuple[sympy.Symbol, sympy.Expr]] = []
+        self.numeric: dict[sympy.Symbol, mpmath.mpf] = {}
+
+    def __call__(self, expr) -> sympy.Expr:
+        expr = sympy.sympify(expr)
+        parts: set[sympy.Expr] = set()
+        parts |= {f for f in expr.atoms(sympy.Function)}
+        parts |= {p for p in expr.atoms(sympy.Pow) if not p.exp.is_Integer}
+        parts |= set(expr.atoms(sympy.NumberSymbol))
+        if not parts:
+            return expr
+        return expr.xreplace({p: self._symbol(p) for p in parts})
+
+    def _symbol(self, part: sympy.Expr) -> sympy.Symbol:
+        if part in self._aux:
+            return self._aux[part]
+        value = self.value_of(part)
+        if value > 0:
+            sym = sympy.Dummy(f"aux{len(self.definitions)}", positive=True)
+        elif value < 0:
+            sym = sympy.Dummy(f"aux{len(self.definitions)}", negative=True)
+        else:
+            sym = sympy.Dummy(f"aux{len(self.definitions)}", real=True)
+        self._aux[part] = sym
+        self.definitions.append((sym, part))
+        self.numeric[sym] = value
+        return sym
+
+    def value_of(self, expr: sympy.Expr) -> mpmath.mpf:
+        """Numeric value (60 digits) of an expression in parameters and auxiliaries."""
+        e = sympy.sympify(expr).xreplace(self._values)
+        e = e.xreplace({s: sympy.Float(v, _DPS) for s, v in self.numeric.items()})
+        v = sympy.N(e, _DPS)
+        if not v.is_real:
+            raise ValueError(f"{expr} is not real at the parameter values")
+        with mpmath.workdps(_DPS):
+            return mpmath.mpf(str(v))
+
+    def restore(self, expr: sympy.Expr) -> sympy.Expr:
+        """Put back what the auxiliaries stand for (newest first: a definition may use an
+        older auxiliary)."""
+        for sym, part in reversed(self.definitions):
+            if expr.has(sym):
+                expr = expr.xreplace({sym: part})
+        return expr
+
+
+class Algebra:
+    """The field K of the pipeline, with exact conversion and numeric evaluation.
+
+    Parameters
+    ----------
+    parameters : sequence of Symbol
+    values : dict
+        Exact value of each parameter.
+    atomizer : Atomizer
+        Its auxiliaries become further generators of K.
+    """
+
+    def __init__(self, parameters: Sequence[sympy.Symbol], values: dict, atomizer: Atomizer):
+        self.atomizer = atomizer
+        aux = [s for s, _ in atomizer.definitions]
+        self.gens = [*parameters, *aux]
+        self.K = frac_field(self.gens, QQ)[0]
+        self.zero = self.K.zero
+        self.one = self.K.one
+        with mpmath.workdps(_DPS):
+            nums = []
+            for g in parameters:
+                nums.append(mpmath.mpf(str(sympy.N(values[g], _DPS))))
+            nums += [atomizer.numeric[s] for s in aux]
+        self._vals = nums
+
+    def el(self, expr) -> object:
+        """An expression (rational in the generators) as an element of K."""
+        expr = self.atomizer(sympy.sympify(expr))
+        return self.K.from_expr(expr) if expr != 0 else self.K.zero
+
+    def expr(self, el) -> sympy.Expr:
+        """Back to a sympy expression, auxiliaries still in place."""
+        return el.as_expr() if el else sympy.S.Zero
+
+    def num(self, el) -> mpmath.mpf:
+        """Value at the parameter values (60 digits)."""
+        with mpmath.workdps(_DPS):
+            return self._poly(el.numer) / self._poly(el.denom)
+
+    def fnum(self, el) -> float:
+        return float(self.num(el))
+
+    def _poly(self, p) -> mpmath.mpf:
+        total = mpmath.mpf(0)
+        vals = self._vals
+        for monom, coeff in p.terms():
+            t = mpmath.mpf(int(coeff.numerator)) / int(coeff.denominator)
+            for v, e in zip(vals, monom):
+                if e:
+                    t *= v**e
+            total += t
+        return total
+
+    def order(self, positions: Iterable, first=None, last=None) -> list:
+        """Distinct positions (elements of K) sorted by their values; ``first`` and
+        ``last`` (when given) sort before/after any position of equal value."""
+        distinct: list = []
+        for p in positions:
+            if not any(p == q for q in distinct):
+                distinct.append(p)
+
+        lo = self.num(first) if first is not None else None
+        hi = self.num(last) if last is not None else None
+
+        def key(item):
+            i, p = item
+            rank = -1 if (first is not None and p == first) else (
+                1 if (last is not None and p == last) else 0)
+            v = self.num(p)
+            v = max(v, lo) if lo is not None else v  # within round-off of an end: at it
+            v = min(v, hi) if hi is not None else v
+            return (v, rank, i)
+
+        return [p for _, p in sorted(enumerate(distinct), key=key)]
+
+
+# --------------------------------------------------------------------- polynomials
+#: a polynomial in the position x along a member: ascending coefficients (elements of K)
+Poly = tuple
+
+
+def ptrim(a: Poly) -> Poly:
+    n = len(a)
+    while n > 1 and not a[n - 1]:
+        n -= 1
+    return tuple(a[:n])
+
+
+def padd(a: Poly, b: Poly) -> Poly:
+    if len(a) < len(b):
+        a, b = b, a
+    return ptrim(tuple(x + y for x, y in zip(a, b)) + tuple(a[len(b):]))
+
+
+def pscale(a: Poly, k) -> Poly:
+    return ptrim(tuple(x * k for x in a))
+
+
+def psub(a: Poly, b: Poly) -> Poly:
+    return padd(a, pscale(b, -1))
+
+
+def pmul(a: Poly, b: Poly) -> Poly:
+    zero = (a[0] - a[0])
+    out = [zero] * (len(a) + len(b) - 1)
+    for i, x in enumerate(a):
+        if not x:
+            continue
+        for j, y in enumerate(b):
+            if y:
+                out[i + j] = out[i + j] + x * y
+    return ptrim(tuple(out))
+
+
+def peval(a: Poly, x):
+    out = a[-1]
+    for c in reversed(a[:-1]):
+        out = out * x + c
+    return out
+
+
+def pint(a: Poly, lower) -> Poly:
+    """The antiderivative that vanishes at ``lower``."""
+    zero = a[0] - a[0]
+    anti = [zero] + [c / (i + 1) for i, c in enumerate(a)]
+    anti = tuple(anti)
+    return padd(anti, (-peval(anti, lower),))
+
+
+def pder(a: Poly) -> Poly:
+    if len(a) == 1:
+        return (a[0] - a[0],)
+    return ptrim(tuple(c * i for i, c in enumerate(a) if i > 0))
+
+
+def pdivmod(a: Poly, b: Poly) -> tuple[Poly, Poly]:
+    """Quotient and remainder of a / b (b's leading coefficient nonzero)."""
+    a = list(ptrim(a))
+    b = ptrim(b)
+    zero = a[0] - a[0]
+    if len(a) < len(b):
+        return (zero,), tuple(a)
+    q = [zero] * (len(a) - len(b) + 1)
+    for k in range(len(a) - len(b), -1, -1):
+        f = a[k + len(b) - 1] / b[-1]
+        q[k] = f
+        for j, c in enumerate(b):
+            a[k + j] = a[k + j] - f * c
+    rem = ptrim(tuple(a[: len(b) - 1])) if len(b) > 1 else (zero,)
+    return ptrim(tuple(q)), rem
+
+
+def pintegral(a: Poly, lo, hi):
+    """Exact integral of a from lo to hi."""
+    anti = pint(a, lo)
+    return peval(anti, hi)
+
+
+@dataclass
+class Piecewise:
+    """A piecewise polynomial in the position x (absolute, from the member's start):
+    ``breaks`` are k+1 increasing positions (elements of K), ``pieces`` the k polynomials."""
+
+    breaks: list
+    pieces: list
+
+    def map(self, fn: Callable[[Poly], Poly]) -> Piecewise:
+        return Piecewise(list(self.breaks), [fn(p) for p in self.pieces])
+
+
+def merged(alg: Algebra, f: Piecewise, g: Piecewise):
+    """Pieces of the common refinement of two piecewise polynomials on the same member:
+    yields (x0, x1, piece of f, piece of g)."""
+    last = f.breaks[-1]
+    brk = alg.order([*f.breaks, *g.breaks], first=f.breaks[0], last=last)
+    i = j = 0
+    for x0, x1 in zip(brk[:-1], brk[1:]):
+        while i < len(f.pieces) - 1 and _at_or_after(alg, x0, f.breaks[i + 1], brk):
+            i += 1
+        while j < len(g.pieces) - 1 and _at_or_after(alg, x0, g.breaks[j + 1], brk):
+            j += 1
+        yield x0, x1, f.pieces[i], g.pieces[j]
+
+
+def _at_or_after(alg: Algebra, x, b, order: list) -> bool:
+    """Is position x at or after break b in the merged order?"""
+    ix = next(k for k, p in enumerate(order) if p == x)
+    ib = next(k for k, p in enumerate(order) if p == b)
+    return ix >= ib
+
+
+# --------------------------------------------------------------------- linear algebra
+class SparseLU:
+    """Gaussian elimination of a square sparse matrix over K, pivots chosen by their
+    values at the parameters (threshold partial pivoting, sparse rows preferred); every
+    pivot is checked to be exactly nonzero.
+
+    ``rows`` : list of dict {column: element}.
+    """
+
+    def __init__(self, alg: Algebra, rows: list[dict[int, object]], tick: Callable[[], None],
+                 row_scale: Sequence[float] | None = None):
+        n = len(rows)
+        self.n = n
+        self.alg = alg
+        work = [dict(r) for r in rows]
+        scale = list(row_scale) if row_scale is not None else [1.0] * n
+        fl = [{c: abs(float(alg.num(v))) * scale[r] for c, v in row.items()}
+              for r, row in enumerate(work)]
+        self.ops: list[tuple[int, int, object]] = []
+        self.order: list[int] = []
+        active = set(range(n))
+        by_col: dict[int, set[int]] = {}
+        for r, row in enumerate(work):
+            for c in row:
+                by_col.setdefault(c, set()).add(r)
+        for k in range(n):
+            tick()
+            cand = [r for r in by_col.get(k, ()) if r in active and work[r].get(k)]
+            if not cand:
+                raise ZeroDivisionError("singular matrix")
+            big = max(fl[r].get(k, 0.0) for r in cand)
+            good = [r for r in cand if fl[r].get(k, 0.0) >= 0.1 * big] or cand
+            p = min(good, key=lambda r: (len(work[r]), -fl[r].get(k, 0.0), r))
+            piv = work[p][k]
+            prow = work[p]
+            for r in cand:
+                if r == p:
+                    continue
+                f = work[r][k] / piv
+                row = work[r]
+                for c, v in prow.items():
+                    nv = row.get(c, alg.zero) - f * v
+                    if nv:
+                        row[c] = nv
+                        by_col.setdefault(c, set()).add(r)
+                    else:
+                        row.pop(c, None)
+                row.pop(k, None)
+                # values of the changed row, for the choice of later pivots
+                fl[r] = {c: abs(float(alg.num(v))) * scale[r] for c, v in row.items()}
+                self.ops.append((r, p, f))
+            active.discard(p)
+            self.order.append(p)
+        self.U = work
+
+    def solve(self, rhs: Sequence) -> list:
+        """x with M x = rhs (rhs: a sequence of n elements)."""
+        b = list(rhs)
+        for r, p, f in self.ops:
+            if b[p]:
+                b[r] = b[r] - f * b[p]
+        x = [self.alg.zero] * self.n
+        for k in range(self.n - 1, -1, -1):
+            r = self.order[k]
+            acc = b[r]
+            for c, v in self.U[r].items():
+                if c > k and x[c]:
+                    acc = acc - v * x[c]
+            x[k] = acc / self.U[r][k]
+        return x
+
+
+def cramer(alg: Algebra, M: list[list], rhs: list):
+    """Solve M x = rhs for a small dense matrix over K by Cramer's rule with fraction-free
+    (Bareiss) determinants, with no polynomial gcd at all.
+
+    M is brought to polynomials by its common denominator D, rhs by D * Dr. Returns
+    (numerators, det, Dr), polynomials with x_i = numerators[i] / (det * Dr); det depends
+    on M alone. Raises ZeroDivisionError if M is singular."""
+    from functools import reduce
+
+    n = len(M)
+    ring = alg.K.ring
+    if n == 0:
+        return [], ring.one, ring.one
+    D = reduce(lambda a, b: a.lcm(b), [e.denom for row in M for e in row if e], ring.one)
+    Dr = reduce(lambda a, b: a.lcm(b), [e.denom for e in rhs if e], ring.one)
+    P = [[e.numer * D.exquo(e.denom) if e else ring.zero for e in row] for row in M]
+    q = [e.numer * (D * Dr).exquo(e.denom) if e else ring.zero for e in rhs]
+    det = _bareiss(ring, P)
+    if not det:
+        raise ZeroDivisionError("singular matrix")
+    nums = [_bareiss(ring, [[q[r] if c == i else P[r][c] for c in range(n)] for r in range(n)])
+            for i in range(n)]
+    return nums, det, Dr
+
+
+class Lin:
+    """A value after the compatibility solve, kept linear in the redundants:
+    c[0] + sum c[i] X_i with c[i] in K, so that superposition never adds fractions whose
+    denominator is the (large) determinant of the flexibility matrix. :class:`Closure`
+    turns it into one element of K at the end."""
+
+    __slots__ = ("c",)
+
+    def __init__(self, c):
+        self.c = tuple(c)
+
+    def __bool__(self) -> bool:
+        return any(bool(x) for x in self.c)
+
+    def _coeffs(self, other):
+        if isinstance(other, Lin):
+            return other.c
+        return (other,) + tuple(x - x for x in self.c[1:])
+
+    def __add__(self, other):
+        if not isinstance(other, Lin) and not other:
+            return self
+        return Lin(a + b for a, b in zip(self.c, self._coeffs(other)))
+
+    __radd__ = __add__
+
+    def __sub__(self, other):
+        if not isinstance(other, Lin) and not other:
+            return self
+        return Lin(a - b for a, b in zip(self.c, self._coeffs(other)))
+
+    def __rsub__(self, other):
+        return Lin(b - a for a, b in zip(self.c, self._coeffs(other)))
+
+    def __neg__(self):
+        return Lin(-a for a in self.c)
+
+    def __mul__(self, other):
+        if isinstance(other, Lin):
+            raise TypeError("a product of two values linear in the redundants")
+        if isinstance(other, int) and other == 1:
+            return self
+        return Lin(a * other for a in self.c)
+
+    __rmul__ = __mul__
+
+    def __truediv__(self, other):
+        if isinstance(other, Lin):
+            raise TypeError("a quotient of two values linear in the redundants")
+        return Lin(a / other for a in self.c)
+
+
+def factors(p) -> list:
+    """Irreducible factors of a polynomial of K's ring, repeated by multiplicity."""
+    if p.is_ground:
+        return []
+    return [f for f, m in p.factor_list()[1] for _ in range(m)]
+
+
+class Closure:
+    """Closes :class:`Lin` values into elements of K once the redundants are known as
+    X_i = nums[i] / det. The one fraction of each value is cancelled by trial division by
+    the irreducible factors of its denominator (``det_factors``: det is factored once),
+    which is far cheaper than a polynomial gcd with large coefficients."""
+
+    def __init__(self, alg: Algebra, nums: list, det, det_factors: list):
+        self.alg = alg
+        self.nums = list(nums)
+        self.det = det
+        #: irreducible factors of det, repeated by multiplicity
+        self.det_factors = list(det_factors)
+        self._closed: dict[tuple, Any] = {}
+        with mpmath.workdps(_DPS):
+            d = alg._poly(det)
+            self._x = [alg._poly(p) / d for p in self.nums]
+        self._q_factors: dict[Any, list] = {}
+
+    def num(self, v) -> mpmath.mpf:
+        if not isinstance(v, Lin):
+            return self.alg.num(v)
+        with mpmath.workdps(_DPS):
+            out = self.alg.num(v.c[0]) if v.c[0] else mpmath.mpf(0)
+            for c, x in zip(v.c[1:], self._x):
+                if c:
+                    out += self.alg.num(c) * x
+            return out
+
+    def close(self, v):
+        """The value as an element of K (fully cancelled)."""
+        if not isinstance(v, Lin):
+            return v
+        c = v.c
+        if not any(c[1:]):
+            return c[0]
+        if c not in self._closed:
+            self._closed[c] = self.close_terms([(x, (i,) if i else ())
+                                                for i, x in enumerate(c) if x])
+        return self._closed[c]
+
+    def close_terms(self, terms: list[tuple[Any, tuple[int, ...]]]):
+        """sum coef * prod X_i over ``terms`` ((coef in K, indices i >= 1 of the
+        redundants)), as one cancelled element of K."""
+        K = self.alg.K
+        ring = K.ring
+        terms = [(x, idx) for x, idx in terms if x]
+        if not terms:
+            return K.zero
+        deg = max(len(idx) for _, idx in terms)
+        Q = ring.one
+        for x, _ in terms:
+            if x.denom != Q:
+                Q = Q.lcm(x.denom)
+        N = ring.zero
+        for x, idx in terms:
+            poly = x.numer * Q.exquo(x.denom)
+            for i in idx:
+                poly = poly * self.nums[i - 1]
+            for _ in range(deg - len(idx)):
+                poly = poly * self.det
+            N += poly
+        if not N:
+            return K.zero
+        den = Q * self.det**deg
+        for f in [*self.det_factors * deg, *self._factors(Q)]:
+            if not _may_divide(f, N):
+                continue
+            try:
+                N2 = N.exquo(f)
+            except Exception:  # ExactQuotientFailed: f does not divide N
+                continue
+            N, den = N2, den.exquo(f)
+        return _canonical(K, N, den)
+
+    def close_quadratic(self, a: Lin, b: Lin, k):
+        """a + k * b**2 as one cancelled element of K (a, b linear, k in K)."""
+        terms = [(x, (i,) if i else ()) for i, x in enumerate(a.c) if x]
+        bc = [(i, x) for i, x in enumerate(b.c) if x]
+        for i, x in bc:
+            for j, y in bc:
+                terms.append((k * x * y, tuple(t for t in (i, j) if t)))
+        return self.close_terms(terms)
+
+    def _factors(self, Q) -> list:
+        if Q.is_ground:
+            return []
+        key = tuple(sorted(Q.terms()))
+        if key not in self._q_factors:
+            self._q_factors[key] = [f for f, m in Q.factor_list()[1] for _ in range(m)]
+        return self._q_factors[key]
+
+
+def _may_divide(f, N) -> bool:
+    """False when the polynomial f surely does not divide N (a cheap test before an
+    exact division): a monomial is checked exactly; otherwise N and f are reduced to
+    polynomials in one variable by fixed integer values of the others, and a nonzero
+    remainder there rules division out."""
+    monoms = f.monoms()
+    if len(monoms) == 1:
+        return all(all(a >= b for a, b in zip(mono, monoms[0])) for mono in N.monoms())
+    ring = f.ring
+    degs = [max(m[i] for m in monoms) for i in range(ring.ngens)]
+    v = max(range(ring.ngens), key=lambda i: degs[i])
+    others = [(ring.gens[i], 3 + 2 * i) for i in range(ring.ngens) if i != v]
+    if not others:
+        return True
+    fu = f.evaluate(others)
+    if fu.degree() != degs[v]:  # the leading coefficient vanished there: no conclusion
+        return True
+    return not N.evaluate(others).rem(fu)
+
+
+def _canonical(K, N, den):
+    """The element N/den of K with N, den coprime, in sympy's canonical form (integer
+    coefficients without common content, denominator with a positive leading
+    coefficient), as ``PolyElement.cancel`` leaves it."""
+    from sympy import ZZ
+
+    cq, p = N.clear_denoms()
+    cp, q = den.clear_denoms()
+    cont = ZZ.gcd(ZZ(int(p.content())), ZZ(int(q.content())))
+    if cont != 1:
+        p = p.quo_ground(cont)
+        q = q.quo_ground(cont)
+    _, a, b = ZZ.cofactors(ZZ(int(cp)), ZZ(int(cq)))
+    p = p.mul_ground(a)
+    q = q.mul_ground(b)
+    if q.LC < 0:
+        p, q = -p, -q
+    return K.raw_new(p, q)
+
+
+def _bareiss(ring, M: list[list]):
+    """Determinant of a square matrix of polynomials, fraction-free (Bareiss)."""
+    M = [list(row) for row in M]
+    n = len(M)
+    prev = ring.one
+    sign = 1
+    for k in range(n - 1):
+        if not M[k][k]:
+            for r in range(k + 1, n):
+                if M[r][k]:
+                    M[k], M[r] = M[r], M[k]
+                    sign = -sign
+                    break
+            else:
+                return ring.zero
+        for i in range(k + 1, n):
+            for j in range(k + 1, n):
+                M[i][j] = (M[i][j] * M[k][k] - M[i][k] * M[k][j]).exquo(prev)
+        prev = M[k][k]
+    return M[n - 1][n - 1] * sign

@@ -1,0 +1,896 @@
+"""The force-method pipeline in exact arithmetic (see :mod:`leastwork.solve` for the same
+steps in floating point).
+
+The numeric topology decides the columns (basic forces and reactions), the degree and the
+redundants; everything else is redone here over the field K of :mod:`.algebra`:
+
+* the equilibrium matrix A (same entries as :func:`leastwork.topology.build_topology`),
+  the released structure's solve A0 s = -p by exact sparse elimination;
+* span-load fields per member (:func:`leastwork.fields.particular_fields`), as exact
+  polynomials on pieces ordered by the values of their ends;
+* the flexibility F of members and springs and the initial deformations e
+  (:mod:`leastwork.energy`), with exact integrals;
+* delta = B'FB, delta0 = B'(F s0 + e - c) + c_R, Delta = c_R, delta X = Delta - delta0,
+  s = s0 + B X (:mod:`leastwork.solve`);
+* reactions, member end forces and moment extremes (:mod:`leastwork.solution`),
+  displacements by the unit-load method (:mod:`leastwork.displacements`).
+
+The flexibility equations are solved by Cramer's rule with fraction-free determinants
+(X_i = N_i / det), and everything after them is kept linear in the redundants
+(:class:`.algebra.Lin`) and closed into one fraction per result at the end: sums of
+fractions over the large determinant would otherwise cost a polynomial gcd each.
+
+All values are in the case units.
+"""
+
+from __future__ import annotations
+
+import re
+from collections.abc import Callable
+from dataclasses import dataclass, field
+from typing import Any
+
+import mpmath
+import sympy
+
+from ..errors import CaseError
+from ..model import (
+    DistributedLoad,
+    Misfit,
+    NodalLoad,
+    PointLoad,
+    Settlement,
+    Structure,
+    TemperatureLoad,
+)
+from .algebra import (
+    Algebra,
+    Atomizer,
+    Closure,
+    Lin,
+    Piecewise,
+    SparseLU,
+    cramer,
+    factors,
+    merged,
+    padd,
+    pder,
+    pdivmod,
+    peval,
+    pint,
+    pintegral,
+    pmul,
+    pscale,
+    ptrim,
+)
+from .exact import ExactModel
+
+__all__ = ["RootValue", "QuadraticValue", "ExactCase", "ExactSolution", "run_pipeline"]
+
+_TIE = 1e-12  # relative tie of moment extremes, as the numeric solver
+#: a moment at a root of dm/dx is made one fraction when its parts have at most this many
+#: terms (beyond, the exact fraction costs much more than it helps reading)
+_COMBINE_TERMS = 12
+
+
+@dataclass(frozen=True)
+class RootValue:
+    """A value outside K: ``base + slope * (-b1 + sign*sqrt(disc)) / (2*b2)`` where the
+    quadratic b2 x^2 + b1 x + b0 = dm/dx; ``base``, ``slope``, ``b1``, ``b2``, ``disc`` are
+    elements of K. ``slope`` = 1 and ``base`` = 0 give the root itself."""
+
+    base: Any
+    slope: Any
+    b1: Any
+    b2: Any
+    disc: Any
+    sign: int
+
+
+@dataclass(frozen=True)
+class QuadraticValue:
+    """A value outside K kept as ``a + k * b**2`` (a, b, k elements of K)."""
+
+    a: Any
+    b: Any
+    k: Any
+
+
+@dataclass
+class ExactCase:
+    """One load case: values are elements of K, :class:`Lin` (closed by ``closure``) or
+    :class:`RootValue`."""
+
+    name: str
+    redundants: list
+    load_terms: list
+    imposed: list
+    reactions: dict[str, dict[str, Any]]
+    members: dict[str, dict[str, Any]]
+    displacements: dict[str, Any]
+    equilibrium_residual: list  #: exact nodal residuals (all zero when all is well)
+    closure: Any = None  #: closes the :class:`Lin` values of this case
+
+
+@dataclass
+class ExactSolution:
+    """The exact results: ``flexibility`` (elements of K) and the load cases."""
+
+    alg: Algebra
+    flexibility: list[list]
+    cases: dict[str, ExactCase]
+    warnings: list[str] = field(default_factory=list)
+
+
+@dataclass
+class _Fields:
+    """Span-load fields of a member on its simply supported analogue."""
+
+    n: Piecewise
+    v: Piecewise
+    m: Piecewise
+    start_force: tuple
+    end_force: tuple
+
+
+@dataclass
+class _Member:
+    """Exact length, direction cosines and stiffnesses of a member (None where absent)."""
+
+    L: Any
+    c: Any
+    s: Any
+    EA: Any
+    EI: Any
+    GAs: Any
+    alpha: Any
+    depth: Any
+
+
+def run_pipeline(st: Structure, topo, red: list[int], model: ExactModel,
+                 tick: Callable[[], None]) -> ExactSolution:
+    """Solve the case exactly. ``tick`` is called often; it raises when time is up."""
+    return _Pipeline(st, topo, red, model, tick).run()
+
+
+def _sqrt_expr(e: sympy.Expr) -> sympy.Expr:
+    """sqrt of a positive rational expression with square factors taken out."""
+    num, den = sympy.fraction(sympy.factor(e))
+
+    def root(p):
+        coeff, facs = sympy.factor_list(p)
+        out = sympy.sqrt(coeff)
+        rest = sympy.S.One
+        for f, k in facs:
+            out *= f ** (k // 2)
+            if k % 2:
+                rest *= f
+        return out * sympy.sqrt(rest)
+
+    return root(num) / root(den)
+
+
+class _Pipeline:
+    """One exact solve: geometry and loads over K on construction, then :meth:`run`."""
+
+    def __init__(self, st: Structure, topo, red: list[int], model: ExactModel, tick):
+        self.st = st
+        self.topo = topo
+        self.red = list(red)
+        self.model = model
+        self.tick = tick
+        self.warnings: list[str] = []
+        atom = Atomizer(model.values)
+        self.atom = atom
+        # ---- stage 1: irrational parts become auxiliaries (before K is made)
+        xy = {n: (atom(x), atom(y)) for n, (x, y) in model.nodes.items()}
+        lengths = {}
+        for mid, m in st.members.items():
+            lengths[mid] = self._length_expr(xy[m.end][0] - xy[m.start][0],
+                                             xy[m.end][1] - xy[m.start][1])
+        pair_lengths = {}
+        for t in st.displacements:
+            mt = re.match(r"^([A-Za-z0-9_]+)-([A-Za-z0-9_]+)$", t)
+            if mt and t not in pair_lengths:
+                a, b = mt.groups()
+                pair_lengths[t] = self._length_expr(xy[b][0] - xy[a][0], xy[b][1] - xy[a][1])
+        trig = {}
+        for nid, ang in model.angles.items():
+            trig[nid] = (atom(sympy.sin(ang)), atom(sympy.cos(ang)))
+        for props in model.members.values():
+            for v in props.values():
+                if v is not None:
+                    atom(v)
+        for v in model.springs.values():
+            atom(v)
+        for ld in model.loads:
+            for v in ld.values():
+                for x in _flatten(v):
+                    if isinstance(x, sympy.Basic):
+                        atom(x)
+        # ---- stage 2: the field
+        alg = Algebra(list(model.parameters.values()), model.values, atom)
+        self.alg = alg
+        self.zero = alg.zero
+        self.xy = {n: (alg.el(x), alg.el(y)) for n, (x, y) in xy.items()}
+        self.mem: dict[str, _Member] = {}
+        for mid, m in st.members.items():
+            L = alg.el(lengths[mid])
+            p = model.members[mid]
+            self.mem[mid] = _Member(
+                L=L,
+                c=(self.xy[m.end][0] - self.xy[m.start][0]) / L,
+                s=(self.xy[m.end][1] - self.xy[m.start][1]) / L,
+                **{k: (alg.el(v) if v is not None else None) for k, v in p.items()},
+            )
+        self.pair_len = {t: alg.el(e) for t, e in pair_lengths.items()}
+        self.trig = {n: (alg.el(s), alg.el(c)) for n, (s, c) in trig.items()}
+        self.springs = {k: alg.el(v) for k, v in model.springs.items()}
+
+    # ------------------------------------------------------------------ geometry
+    def _length_expr(self, dx: sympy.Expr, dy: sympy.Expr) -> sympy.Expr:
+        atom = self.atom
+        if dy == 0 or dx == 0:
+            d = dx if dy == 0 else dy
+            if d == 0:
+                raise CaseError("zero-length member or pair of coincident nodes in exact "
+                                "arithmetic", source=self.st.source)
+            return d if atom.value_of(d) > 0 else -d
+        L = atom(_sqrt_expr(sympy.expand(dx**2 + dy**2)))
+        return L if atom.value_of(L) > 0 else -L
+
+    # ------------------------------------------------------------------ statics
+    def _columns(self) -> list[list[tuple[int, Any]]]:
+        """Entries of the equilibrium matrix A, column by column (as build_topology)."""
+        st, topo, alg = self.st, self.topo, self.alg
+        di = topo.dof_index
+        out = []
+        for col in topo.columns:
+            e: list[tuple[str, Any]] = []
+            if col.kind == "reaction":
+                r = topo.restraints[col.restraint_index]
+                if r.direction == "n":
+                    sn, cs = self.trig[r.node]
+                    vec = (-sn, cs, alg.zero)
+                else:
+                    vec = tuple(alg.one if d == r.direction else alg.zero
+                                for d in ("x", "y", "rz"))
+                e = [(f"{r.node}.x", vec[0]), (f"{r.node}.y", vec[1])]
+                if vec[2]:
+                    e.append((f"{r.node}.rz", vec[2]))
+            else:
+                m = st.members[col.owner]
+                g = self.mem[m.id]
+                c, s, L = g.c, g.s, g.L
+                ey = (-s, c)
+                if col.kind == "axial":
+                    e = [(f"{m.start}.x", c), (f"{m.start}.y", s), (f"{m.end}.x", -c),
+                         (f"{m.end}.y", -s)]
+                elif col.kind == "start_m":
+                    e = [(f"{m.start}.x", ey[0] / L), (f"{m.start}.y", ey[1] / L),
+                         (f"{m.start}.rz", alg.one), (f"{m.end}.x", -ey[0] / L),
+                         (f"{m.end}.y", -ey[1] / L)]
+                else:
+                    e = [(f"{m.start}.x", -ey[0] / L), (f"{m.start}.y", -ey[1] / L),
+                         (f"{m.end}.x", ey[0] / L), (f"{m.end}.y", ey[1] / L),
+                         (f"{m.end}.rz", -alg.one)]
+            acc: dict[int, Any] = {}
+            for dof, v in e:
+                if v:
+                    i = di[dof]
+                    acc[i] = acc.get(i, alg.zero) + v
+            out.append([(i, v) for i, v in acc.items() if v])
+        return out
+
+    def _factorise(self) -> None:
+        topo = self.topo
+        ncol = len(topo.columns)
+        self.ncol = ncol
+        self.ndof = len(topo.dofs)
+        self.A = self._columns()
+        self.keep = [j for j in range(ncol) if j not in self.red]
+        rows: list[dict[int, Any]] = [dict() for _ in range(self.ndof)]
+        for k, j in enumerate(self.keep):
+            for i, v in self.A[j]:
+                rows[i][k] = v
+        lengths = [self.alg.fnum(g.L) for g in self.mem.values()]
+        lref = sum(lengths) / len(lengths)
+        scale = [1.0 / lref if d.endswith(".rz") else 1.0 for d in topo.dofs]
+        try:
+            self.lu = SparseLU(self.alg, rows, self.tick, scale)
+        except ZeroDivisionError:
+            raise CaseError("the released structure is singular in exact arithmetic; choose "
+                            "other redundants", source=self.st.source) from None
+
+    def forces(self, rhs: list) -> list:
+        """Released-structure forces (ncol) in equilibrium with nodal loads ``rhs``."""
+        x = self.lu.solve([-r if r else r for r in rhs])
+        s = [self.zero] * self.ncol
+        for k, j in enumerate(self.keep):
+            s[j] = x[k]
+        return s
+
+    # ------------------------------------------------------------------ energy
+    def _flexibility(self) -> dict[tuple[int, int], Any]:
+        st, topo, alg = self.st, self.topo, self.alg
+        ci = topo.column_index
+        F: dict[tuple[int, int], Any] = {}
+
+        def add(a, b, v):
+            if a is not None and b is not None and v:
+                F[(a, b)] = F.get((a, b), alg.zero) + v
+
+        for m in st.members.values():
+            g = self.mem[m.id]
+            axial = ci[m.id] if m.kind == "bar" else ci[f"{m.id}.n"]
+            if g.EA is not None:
+                add(axial, axial, g.L / g.EA)
+            if not m.is_beam:
+                continue
+            ends = [ci.get(f"{m.id}.start.m"), ci.get(f"{m.id}.end.m")]
+            d, o = g.L / (3 * g.EI), g.L / (6 * g.EI)
+            block = [[d, o], [o, d]]
+            if st.shear and g.GAs is not None:
+                sh = alg.one / (g.L * g.GAs)
+                block = [[d + sh, o - sh], [o - sh, d + sh]]
+            for a in range(2):
+                for b in range(2):
+                    add(ends[a], ends[b], block[a][b])
+        for j, c in enumerate(topo.columns):
+            if c.kind == "reaction":
+                r = topo.restraints[c.restraint_index]
+                if r.is_spring:
+                    add(j, j, alg.one / self.springs[r.name])
+        return F
+
+    def _fmul(self, F, v: list) -> list:
+        out = [self.zero] * self.ncol
+        for (a, b), f in F.items():
+            if v[b]:
+                out[a] = out[a] + f * v[b]
+        return out
+
+    # ------------------------------------------------------------------ loads
+    def _fields(self, mid: str, points: list, dists: list) -> _Fields:
+        """Exact :func:`leastwork.fields.particular_fields` of one member.
+
+        points: (at, fx, fy, mz) global; dists: (a, b, (wx0, wx1), (wy0, wy1)) global."""
+        alg = self.alg
+        g = self.mem[mid]
+        c, s, L = g.c, g.s, g.L
+        zero = alg.zero
+        pts = [(a, fx * c + fy * s, -fx * s + fy * c, mz) for a, fx, fy, mz in points]
+        dls = []
+        for a, b, (wx0, wx1), (wy0, wy1) in dists:
+            dls.append((a, b, (wx0 * c + wy0 * s, wx1 * c + wy1 * s),
+                        (-wx0 * s + wy0 * c, -wx1 * s + wy1 * c)))
+        breaks = alg.order([zero, L, *[p[0] for p in pts], *[d[0] for d in dls],
+                            *[d[1] for d in dls]], first=zero, last=L)
+
+        def index(x) -> int:
+            return next(k for k, b in enumerate(breaks) if b == x)
+
+        nk = len(breaks) - 1
+        cn, cv, cm = [], [], []
+        n_left = v_left = m_left = zero
+        for k in range(nk):
+            x0, x1 = breaks[k], breaks[k + 1]
+            for a, px, py, mz in pts:
+                if index(a) == k:
+                    n_left -= px
+                    v_left += py
+                    m_left -= mz
+            qx = qy = (zero,)
+            for a, b, (qx0, qx1), (qy0, qy1) in dls:
+                if index(a) <= k and index(b) >= k + 1:
+                    qx = padd(qx, _line(a, b, qx0, qx1))
+                    qy = padd(qy, _line(a, b, qy0, qy1))
+            v_poly = padd((v_left,), pint(qy, x0))
+            m_poly = padd((m_left,), pint(v_poly, x0))
+            n_poly = padd((n_left,), pscale(pint(qx, x0), -1))
+            cv.append(v_poly)
+            cm.append(m_poly)
+            cn.append(n_poly)
+            n_left, v_left, m_left = peval(n_poly, x1), peval(v_poly, x1), peval(m_poly, x1)
+        r_start = -m_left / L
+        cm = [padd(p, (zero, r_start)) for p in cm]
+        cv = [padd(p, (r_start,)) for p in cv]
+        cn = [padd(p, (-n_left,)) for p in cn]
+        n0, v0 = peval(cn[0], zero), peval(cv[0], zero)
+        nL, vL = peval(cn[-1], L), peval(cv[-1], L)
+        ey = (-s, c)
+        start = (n0 * c - v0 * ey[0], n0 * s - v0 * ey[1])
+        end = (-nL * c + vL * ey[0], -nL * s + vL * ey[1])
+        return _Fields(Piecewise(breaks, cn), Piecewise(breaks, cv), Piecewise(breaks, cm),
+                       start, end)
+
+    def _loading(self, case: str) -> dict[str, Any]:
+        st, topo, alg = self.st, self.topo, self.alg
+        di = topo.dof_index
+        p = [self.zero] * self.ndof
+        nodal: list[tuple[str, Any, Any, Any]] = []
+        point: dict[str, list] = {}
+        dist: dict[str, list] = {}
+        imposed: dict[str, list] = {}
+        c = [self.zero] * self.ncol
+
+        def add_nodal(node, fx, fy, mz):
+            p[di[f"{node}.x"]] += fx
+            p[di[f"{node}.y"]] += fy
+            if mz:
+                key = f"{node}.rz"
+                if key not in di:
+                    raise CaseError(f"a moment is applied at node {node}, where every member "
+                                    "end is hinged: nothing resists it (a mechanism)",
+                                    source=st.source)
+                p[di[key]] += mz
+
+        for ld, x in zip(st.loads, self.model.loads):
+            if ld.case != case:
+                continue
+            if isinstance(ld, NodalLoad):
+                f = (alg.el(x["fx"]), alg.el(x["fy"]), alg.el(x["mz"]))
+                add_nodal(ld.node, *f)
+                nodal.append((ld.node, *f))
+            elif isinstance(ld, PointLoad):
+                m = st.members[ld.member]
+                L = self.mem[m.id].L
+                at = alg.el(x["at"])
+                f = (alg.el(x["fx"]), alg.el(x["fy"]), alg.el(x["mz"]))
+                if at == self.zero or at == L:
+                    node = m.start if at == self.zero else m.end
+                    add_nodal(node, *f)
+                    nodal.append((node, *f))
+                else:
+                    point.setdefault(m.id, []).append((at, *f))
+            elif isinstance(ld, DistributedLoad):
+                L = self.mem[ld.member].L
+                a = alg.el(x["start"])
+                b = alg.el(x["end"]) if x["end"] is not None else L
+                dist.setdefault(ld.member, []).append(
+                    (a, b, (alg.el(x["wx"][0]), alg.el(x["wx"][1])),
+                     (alg.el(x["wy"][0]), alg.el(x["wy"][1]))))
+            elif isinstance(ld, TemperatureLoad):
+                g = self.mem[ld.member]
+                acc = imposed.setdefault(ld.member, [self.zero] * 3)
+                alpha = g.alpha if g.alpha is not None else self.zero
+                acc[0] += alpha * alg.el(x["uniform"])
+                grad = alg.el(x["gradient"])
+                if grad:
+                    acc[1] += alpha * grad / g.depth
+            elif isinstance(ld, Misfit):
+                acc = imposed.setdefault(ld.member, [self.zero] * 3)
+                acc[2] += alg.el(x["elongation"])
+            elif isinstance(ld, Settlement):
+                for d, v in x["values"]:
+                    name = f"{ld.node}.{d}"
+                    if name in topo.column_index:
+                        c[topo.column_index[name]] += alg.el(v)
+        parts: dict[str, _Fields] = {}
+        for mid in dict.fromkeys([*point, *dist]):
+            self.tick()
+            m = st.members[mid]
+            pf = self._fields(mid, point.get(mid, []), dist.get(mid, []))
+            parts[mid] = pf
+            add_nodal(m.start, *pf.start_force, self.zero)
+            add_nodal(m.end, *pf.end_force, self.zero)
+        return {"p": p, "particulars": parts, "imposed": imposed, "settlement": c,
+                "nodal": nodal}
+
+    def _initial(self, parts: dict[str, _Fields], imposed: dict[str, list]) -> list:
+        """Initial deformations e (as energy.initial_deformation_terms)."""
+        st, ci = self.st, self.topo.column_index
+        e = [self.zero] * self.ncol
+        for m in st.members.values():
+            g = self.mem[m.id]
+            L = g.L
+            axial = ci[m.id] if m.kind == "bar" else ci[f"{m.id}.n"]
+            i_s, i_e = ci.get(f"{m.id}.start.m"), ci.get(f"{m.id}.end.m")
+            pf = parts.get(m.id)
+            if pf is not None:
+                if g.EA is not None:
+                    e[axial] += _integral(pf.n) / g.EA
+                if m.is_beam:
+                    ws = (self.alg.one, -self.alg.one / L)
+                    we = (self.zero, self.alg.one / L)
+                    if i_s is not None:
+                        e[i_s] += _integral(pf.m.map(lambda q, w=ws: pmul(q, w))) / g.EI
+                    if i_e is not None:
+                        e[i_e] += _integral(pf.m.map(lambda q, w=we: pmul(q, w))) / g.EI
+                if st.shear and g.GAs is not None:
+                    vint = _integral(pf.v) / (L * g.GAs)
+                    if i_s is not None:
+                        e[i_s] -= vint
+                    if i_e is not None:
+                        e[i_e] += vint
+            if m.id in imposed:
+                eps, kappa, misfit = imposed[m.id]
+                e[axial] += eps * L + misfit
+                if i_s is not None:
+                    e[i_s] += kappa * L / 2
+                if i_e is not None:
+                    e[i_e] += kappa * L / 2
+        return e
+
+    # ------------------------------------------------------------------ solve
+    def run(self) -> ExactSolution:
+        st, topo, alg = self.st, self.topo, self.alg
+        self._factorise()
+        red = self.red
+        k = len(red)
+        B = []
+        for j in red:
+            self.tick()
+            rhs = [self.zero] * self.ndof
+            for i, v in self.A[j]:
+                rhs[i] = v
+            col = self.forces(rhs)
+            col[j] = alg.one
+            B.append(col)
+        self.B = B
+        F = self._flexibility()
+        self.F = F
+        FB = [self._fmul(F, b) for b in B]
+        delta = [[_dot(B[i], FB[j]) for j in range(k)] for i in range(k)]
+        names = [topo.columns[j].name for j in red]
+        zero_rows = [i for i in range(k) if not any(delta[i][j] for j in range(k))]
+        for i in zero_rows:
+            self.warnings.append(
+                f"redundant {names[i]} has no flexibility (it strains only axially rigid "
+                "members or rigid parts); its value is not determined by compatibility and "
+                "is taken as zero")
+        rest = [i for i in range(k) if i not in zero_rows]
+        self._unit_states: dict[int, list] = {}
+        self._det_factors: dict[Any, list] = {}
+        cases = {}
+        for case in st.case_names:
+            self.tick()
+            ld = self._loading(case)
+            s0 = self.forces(ld["p"])
+            e = self._initial(ld["particulars"], ld["imposed"])
+            c = ld["settlement"]
+            Delta = [c[j] for j in red]
+            Fs0 = self._fmul(F, s0)
+            g = [a + b - d for a, b, d in zip(Fs0, e, c)]
+            load_terms = [_dot(B[i], g) + Delta[i] for i in range(k)]
+            rhs = [Delta[i] - load_terms[i] for i in range(k)]
+            for i in zero_rows:
+                if rhs[i]:
+                    raise CaseError(
+                        "the compatibility equations have no solution: an imposed "
+                        "deformation (temperature, misfit or settlement) acts on a part "
+                        "with no flexibility (an axially rigid member or a rigid support "
+                        "chain)", source=st.source)
+            try:
+                nums, det, Dr = cramer(alg, [[delta[i][j] for j in rest] for i in rest],
+                                       [rhs[i] for i in rest])
+            except ZeroDivisionError:
+                raise CaseError(
+                    "the flexibility matrix is singular (some combination of redundants "
+                    "strains no flexible part); symbolic mode does not take the "
+                    "minimum-norm solution: solve this case numerically",
+                    source=st.source) from None
+            self.tick()
+            full = [alg.K.ring.zero] * k
+            for i, x in zip(rest, nums):
+                full[i] = x
+            if det not in self._det_factors:
+                self._det_factors[det] = factors(det)
+            self.closure = Closure(alg, full, det * Dr, self._det_factors[det] + factors(Dr))
+            self.tick()
+            X = [Lin([self.zero] + [alg.one if i == j else self.zero for j in range(k)])
+                 for i in range(k)]
+            s = [Lin([s0[j]] + [B[i][j] for i in range(k)]) for j in range(self.ncol)]
+            d = [a + b for a, b in zip(self._fmul(F, s), e)]
+            cases[case] = self._results(case, ld, X, load_terms, Delta, s, d)
+            cases[case].closure = self.closure
+        return ExactSolution(alg, delta, cases, self.warnings)
+
+    def num(self, v) -> mpmath.mpf:
+        """Value at the parameters of an element of K or a :class:`Lin`."""
+        return self.closure.num(v)
+
+    # ------------------------------------------------------------------ results
+    def _results(self, case, ld, X, load_terms, Delta, s, d) -> ExactCase:
+        st, topo = self.st, self.topo
+        reactions: dict[str, dict[str, Any]] = {}
+        for sup in st.supports.values():
+            out: dict[str, Any] = {}
+            for r in sup.restraints:
+                j = topo.column_index.get(r.name)
+                val = s[j] if j is not None else self.zero
+                if r.direction == "n":
+                    sn, cs = self.trig[r.node]
+                    out["x"] = out.get("x", self.zero) + val * (-sn)
+                    out["y"] = out.get("y", self.zero) + val * cs
+                    out["n"] = val
+                else:
+                    out[r.direction] = out.get(r.direction, self.zero) + val
+            reactions[sup.node] = out
+        finals = {}
+        members = {}
+        for mid in st.members:
+            self.tick()
+            fl = self._member_fields(mid, s, ld["particulars"].get(mid))
+            finals[mid] = fl
+            members[mid] = self._member_result(mid, fl)
+        residual = self._nodal_residual(members, ld["nodal"], reactions)
+        ctx = {"d": d, "c": ld["settlement"], "finals": finals, "imposed": ld["imposed"]}
+        disp = {}
+        for t in st.displacements:
+            self.tick()
+            disp[t] = self._displacement(t, ctx)
+        return ExactCase(case, X, load_terms, Delta, reactions, members, disp, residual)
+
+    def _member_fields(self, mid: str, s: list, pf: _Fields | None) -> _Fields:
+        st, ci = self.st, self.topo.column_index
+        m = st.members[mid]
+        g = self.mem[mid]
+        z = self.zero
+        N = s[ci[mid] if m.kind == "bar" else ci[f"{mid}.n"]]
+        ms = s[ci[f"{mid}.start.m"]] if f"{mid}.start.m" in ci else z
+        me = s[ci[f"{mid}.end.m"]] if f"{mid}.end.m" in ci else z
+        if pf is None:
+            breaks = [z, g.L]
+            cn, cv, cm = [(z,)], [(z,)], [(z,)]
+        else:
+            breaks = pf.m.breaks
+            cn, cv, cm = pf.n.pieces, pf.v.pieces, pf.m.pieces
+        slope = (me - ms) / g.L
+        cn = [padd(p, (N,)) for p in cn]
+        cm = [padd(p, (ms, slope)) for p in cm]
+        cv = [padd(p, (slope,)) for p in cv]
+        return _Fields(Piecewise(breaks, cn), Piecewise(breaks, cv), Piecewise(breaks, cm),
+                       (), ())
+
+    def _member_result(self, mid: str, fl: _Fields) -> dict[str, Any]:
+        """End forces and moment extremes (as solution.member_result): the candidates are
+        compared by their values at the parameters; only the two chosen ones are worked
+        out exactly."""
+        alg = self.alg
+        L = self.mem[mid].L
+        z = self.zero
+        start = {"n": peval(fl.n.pieces[0], z), "v": peval(fl.v.pieces[0], z),
+                 "m": peval(fl.m.pieces[0], z)}
+        end = {"n": peval(fl.n.pieces[-1], L), "v": peval(fl.v.pieces[-1], L),
+               "m": peval(fl.m.pieces[-1], L)}
+        cands: list[tuple[Callable[[], tuple], mpmath.mpf, mpmath.mpf]] = []
+        br = fl.m.breaks
+        for k, poly in enumerate(fl.m.pieces):
+            a, b = br[k], br[k + 1]
+            an, bn = alg.num(a), alg.num(b)
+            for x, xn in ((a, an), (b, bn)):
+                val = peval(poly, x)
+                cands.append((lambda x=x, val=val: (x, val), xn, self.num(val)))
+            cands.extend(self._stationary(poly, an, bn))
+        vals = [cv[2] for cv in cands]
+        scale = max(max(abs(v) for v in vals), mpmath.mpf("1e-300"))
+        top, bot = max(vals), min(vals)
+        imax = min((i for i, v in enumerate(vals) if v >= top - _TIE * scale),
+                   key=lambda i: cands[i][1])
+        imin = min((i for i, v in enumerate(vals) if v <= bot + _TIE * scale),
+                   key=lambda i: cands[i][1])
+        xmax, vmax = cands[imax][0]()
+        xmin, vmin = cands[imin][0]()
+        return {"start": start, "end": end,
+                "m_max": {"value": vmax, "at": xmax}, "m_min": {"value": vmin, "at": xmin}}
+
+    def _stationary(self, poly, an, bn) -> list:
+        """Candidates at the roots of dm/dx strictly inside (a, b): (exact thunk, x#,
+        value#). The coefficients of x**2 and x**3 of a moment come from the span loads
+        alone (elements of K), so the degree of dm/dx is exact."""
+        dm = ptrim(pder(poly))
+        if len(dm) < 2:
+            return []
+        if len(dm) > 3:
+            raise CaseError("a bending moment of degree above 3 along a member; symbolic "
+                            "mode takes point loads and linearly varying distributed loads "
+                            "only", source=self.st.source)
+        out = []
+        with mpmath.workdps(60):
+            pn = [self.num(c) for c in poly]
+            dn = [self.num(c) for c in dm]
+
+            def value_at(x):
+                return sum(c * x**i for i, c in enumerate(pn))
+
+            if len(dm) == 2:
+                xn = -dn[0] / dn[1]
+                if an < xn < bn:
+                    out.append((lambda: self._linear_root(poly, dm), xn, value_at(xn)))
+                return out
+            disc = dn[1] ** 2 - 4 * dn[2] * dn[0]
+            tiny = mpmath.mpf(10) ** -40 * (dn[1] ** 2 + abs(4 * dn[2] * dn[0]))
+            if abs(disc) <= tiny:
+                exact = self._close_poly(dm)
+                if not (exact[1] * exact[1] - 4 * exact[2] * exact[0]):
+                    xn = -dn[1] / (2 * dn[2])
+                    if an < xn < bn:
+                        out.append((lambda: self._double_root(poly, dm), xn, value_at(xn)))
+                    return out
+            if disc < 0:
+                return out
+            for sign in (-1, 1):
+                xn = (-dn[1] + sign * mpmath.sqrt(disc)) / (2 * dn[2])
+                if an < xn < bn:
+                    out.append((lambda sign=sign: self._quadratic_root(poly, dm, sign), xn,
+                                value_at(xn)))
+        return out
+
+    def _close_poly(self, poly) -> tuple:
+        return tuple(self.closure.close(c) for c in poly)
+
+    def _linear_root(self, poly, dm) -> tuple:
+        """Root of d0 + d1 x (d1 in K) of a quadratic moment m0 + m1 x + m2 x**2, and the
+        moment there, m0 - m1**2 / (4 m2) (quadratic in the redundants): one fraction when
+        m0 and m1 are small, else kept as that sum (:class:`QuadraticValue`)."""
+        x = self.closure.close(dm[0] / (-dm[1]))
+        m0, m1, m2 = (tuple(poly) + (self.zero,) * 3)[:3]
+        k = -self.alg.one / (4 * m2)
+        a, b = self.closure.close(m0), self.closure.close(m1)
+        if max(len(a.numer), len(a.denom), len(b.numer), len(b.denom)) <= _COMBINE_TERMS:
+            return x, a + k * b * b
+        return x, QuadraticValue(a, b, k)
+
+    def _double_root(self, poly, dm) -> tuple:
+        d = self._close_poly(dm)
+        x = -d[1] / (2 * d[2])
+        return x, self.closure.close(peval(poly, x))
+
+    def _quadratic_root(self, poly, dm, sign: int) -> tuple:
+        """A root of the quadratic dm/dx = b0 + b1 x + b2 x**2 (b1, b2 in K) of a cubic
+        moment, and the moment there from the remainder of m / (dm/dx); both stay linear
+        in the redundants."""
+        b0, b1, b2 = self._close_poly(dm)
+        disc = b1 * b1 - 4 * b2 * b0
+        _, rem = pdivmod(poly, dm)
+        rem = self._close_poly(tuple(rem) + (self.zero,) * (2 - len(rem)))
+        return (RootValue(self.zero, self.alg.one, b1, b2, disc, sign),
+                RootValue(rem[0], rem[1], b1, b2, disc, sign))
+
+    def _nodal_residual(self, members, nodal, reactions) -> list:
+        """Exact residuals of nodal equilibrium from the final end forces, the nodal loads
+        and the reactions (as solution._equilibrium does in floating point)."""
+        st, topo = self.st, self.topo
+        z = self.zero
+        sums = {n: [z, z, z] for n in st.nodes}
+        for mid, r in members.items():
+            m = st.members[mid]
+            g = self.mem[mid]
+            ex, ey = (g.c, g.s), (-g.s, g.c)
+            n0, v0, m0 = r["start"]["n"], r["start"]["v"], r["start"]["m"]
+            nL, vL, mL = r["end"]["n"], r["end"]["v"], r["end"]["m"]
+            a, b = sums[m.start], sums[m.end]
+            a[0] += n0 * ex[0] - v0 * ey[0]
+            a[1] += n0 * ex[1] - v0 * ey[1]
+            a[2] += m0
+            b[0] += -nL * ex[0] + vL * ey[0]
+            b[1] += -nL * ex[1] + vL * ey[1]
+            b[2] += -mL
+        for node, fx, fy, mz in nodal:
+            t = sums[node]
+            t[0] += fx
+            t[1] += fy
+            t[2] += mz
+        for node, comps in reactions.items():
+            t = sums[node]
+            t[0] += comps.get("x", z)
+            t[1] += comps.get("y", z)
+            t[2] += comps.get("rz", z)
+        out = []
+        for node, (x, y, r) in sums.items():
+            out += [x, y]
+            if f"{node}.rz" in topo.dof_index:
+                out.append(r)
+        return [self.closure.close(v) for v in out]
+
+    # ------------------------------------------------------------------ displacements
+    def _unit_state(self, dof: int) -> list:
+        if dof not in self._unit_states:
+            rhs = [self.zero] * self.ndof
+            rhs[dof] = self.alg.one
+            self._unit_states[dof] = self.forces(rhs)
+        return self._unit_states[dof]
+
+    def _node_disp(self, dof_name: str, ctx) -> Any:
+        su = self._unit_state(self.topo.dof_index[dof_name])
+        d, c = ctx["d"], ctx["c"]
+        return _dot(su, [a - b for a, b in zip(d, c)])
+
+    def _displacement(self, text: str, ctx) -> Any:
+        st = self.st
+        m = re.match(r"^([A-Za-z0-9_]+)\.(x|y|rz)$", text)
+        if m:
+            return self._node_disp(text, ctx)
+        m = re.match(r"^([A-Za-z0-9_]+)@(.+)\.(x|y)$", text)
+        if m and m.group(1) in st.members:
+            mid, dist, direction = m.groups()
+            try:
+                at = sympy.Rational(dist)
+            except (TypeError, ValueError):
+                raise CaseError(f'"{text}": distance "{dist}" is not a plain decimal number',
+                                source=st.source) from None
+            return self._member_point(mid, at, direction, ctx)
+        m = re.match(r"^([A-Za-z0-9_]+)-([A-Za-z0-9_]+)$", text)
+        if m:
+            a, b = m.groups()
+            dx = self.xy[b][0] - self.xy[a][0]
+            dy = self.xy[b][1] - self.xy[a][1]
+            du = self._node_disp(f"{b}.x", ctx) - self._node_disp(f"{a}.x", ctx)
+            dv = self._node_disp(f"{b}.y", ctx) - self._node_disp(f"{a}.y", ctx)
+            return (du * dx + dv * dy) / self.pair_len[text]
+        raise CaseError(f'cannot read displacement target "{text}"', source=st.source)
+
+    def _member_point(self, mid: str, at_value, direction: str, ctx) -> Any:
+        """As displacements.member_point_displacement: a unit load at the point."""
+        st, alg, di = self.st, self.alg, self.topo.dof_index
+        mem = st.members[mid]
+        g = self.mem[mid]
+        L = g.L
+        at = alg.el(at_value)
+        if alg.num(at) >= alg.num(L):
+            at = L
+        one, z = alg.one, self.zero
+        fx, fy = (one, z) if direction == "x" else (z, one)
+        p = [z] * self.ndof
+        pf = None
+        if at == z or at == L:
+            node = mem.start if at == z else mem.end
+            p[di[f"{node}.x"]] += fx
+            p[di[f"{node}.y"]] += fy
+        else:
+            pf = self._fields(mid, [(at, fx, fy, z)], [])
+            p[di[f"{mem.start}.x"]] += pf.start_force[0]
+            p[di[f"{mem.start}.y"]] += pf.start_force[1]
+            p[di[f"{mem.end}.x"]] += pf.end_force[0]
+            p[di[f"{mem.end}.y"]] += pf.end_force[1]
+        su = self.forces(p)
+        value = _dot(su, [a - b for a, b in zip(ctx["d"], ctx["c"])])
+        if pf is None:
+            return value
+        mr = ctx["finals"][mid]
+        eps, kappa, misfit = ctx["imposed"].get(mid, [z, z, z])
+        if g.EA is not None or eps or misfit:
+            free = eps + misfit / L
+            for x0, x1, pu, pr in merged(alg, pf.n, mr.n):
+                inner = pscale(pr, one / g.EA) if g.EA is not None else (z,)
+                inner = padd(inner, (free,))
+                value += pintegral(pmul(pu, inner), x0, x1)
+        if mem.is_beam:
+            for x0, x1, pu, pr in merged(alg, pf.m, mr.m):
+                inner = padd(pscale(pr, one / g.EI), (kappa,))
+                value += pintegral(pmul(pu, inner), x0, x1)
+            if st.shear and g.GAs is not None:
+                for x0, x1, pu, pr in merged(alg, pf.v, mr.v):
+                    value += pintegral(pmul(pu, pr), x0, x1) / g.GAs
+        return value
+
+
+def _line(a, b, f0, f1) -> tuple:
+    slope = (f1 - f0) / (b - a)
+    return ptrim((f0 - slope * a, slope))
+
+
+def _integral(pw: Piecewise):
+    total = pw.breaks[0] - pw.breaks[0]
+    for k, poly in enumerate(pw.pieces):
+        total += pintegral(poly, pw.breaks[k], pw.breaks[k + 1])
+    return total
+
+
+def _dot(a: list, b: list):
+    total = None
+    for x, y in zip(a, b):
+        if x and y:
+            total = x * y if total is None else total + x * y
+    if total is None:
+        return a[0] - a[0] if a else 0
+    return total
+
+
+def _flatten(v):
+    if isinstance(v, (list, tuple)):
+        for x in v:
+            yield from _flatten(x)
+    else:
+        yield v
