@@ -75,3 +75,15 @@ def test_report_never_overwrites_the_case_file(tmp_path):
     case.write_text(PORTAL.read_text())
     assert main(["report", str(case), "-o", str(case), "--force"]) == 2
     assert case.read_text() == PORTAL.read_text()
+
+
+def test_influence_line_drawn_to_a_file(tmp_path, capsys):
+    beam = CASES / "floor-beam-3span.toml"
+    out = tmp_path / "il.svg"
+    args = ["influence", str(beam), "--quantity", "B.y", "--along", "AB,BC,CD", "-o", str(out)]
+    assert main(args) == 0
+    data = out.read_bytes()
+    assert data.startswith(b"<?xml") and b"B.y" in data
+    assert main(args) == 2 and out.read_bytes() == data
+    assert "--force" in capsys.readouterr().err
+    assert main([*args[:-2], "-o", str(tmp_path / "il.pdf")]) == 2
