@@ -71,35 +71,36 @@ def _parser() -> argparse.ArgumentParser:
     n.add_argument("kind", nargs="?", help="kind of structure (see --list)")
     n.add_argument("--list", action="store_true", help="list the kinds, one per line")
     sub.add_parser("demo", help="solve a bundled example and show what the tool can do")
-    pl = sub.add_parser("plot", help="draw the structure, force diagrams and deflected shape",
-                        description="Draw the structure with its supports, loads and "
-                        "redundants, the n, v and m diagrams and the deflected shape, to a "
-                        "PNG or SVG file (by the suffix).\n\n" + _DESCRIPTION,
-                        formatter_class=argparse.RawDescriptionHelpFormatter)
-    pl.add_argument("case", help="case file (TOML)")
-    pl.add_argument("-o", "--output", metavar="FILE", required=True,
-                    help="PNG or SVG file to write")
-    pl.add_argument("--case", dest="load_case", metavar="NAME",
-                    help="draw only this load case (default: every case)")
+    pl = _file_command(sub, "plot", "draw the structure, force diagrams and deflected shape",
+                       "Draw the structure with its supports, loads and redundants, the n, v "
+                       "and m diagrams and the deflected shape, to a PNG or SVG file (by the "
+                       "suffix).", "PNG or SVG file to write")
     pl.add_argument("--diagrams", metavar="LIST", default="structure,n,v,m,deflected",
                     help="comma-separated: structure, n, v, m, deflected (default: all)")
-    pl.add_argument("--redundants", metavar="LIST", help="redundants to mark (as for solve)")
-    pl.add_argument("--force", action="store_true", help="replace FILE if it exists")
-    rp = sub.add_parser("report", help="write a calculation report (HTML or Markdown)",
-                        description="Write a calculation report: inputs, assumptions, the "
-                        "audit steps, results, diagrams, the cross-check and the caution. "
-                        "HTML (one self-contained file) or Markdown (with SVG images beside "
-                        "it), by the suffix.\n\n" + _DESCRIPTION,
-                        formatter_class=argparse.RawDescriptionHelpFormatter)
-    rp.add_argument("case", help="case file (TOML)")
-    rp.add_argument("-o", "--output", metavar="FILE", required=True,
-                    help=".html or .md file to write")
-    rp.add_argument("--case", dest="load_case", metavar="NAME", help="only this load case")
-    rp.add_argument("--redundants", metavar="LIST", help="redundants (as for solve)")
-    rp.add_argument("--force", action="store_true", help="replace existing files")
+    _file_command(sub, "report", "write a calculation report (HTML or Markdown)",
+                  "Write a calculation report: inputs, assumptions, the audit steps, results, "
+                  "diagrams, the cross-check and the caution. HTML (one self-contained file) "
+                  "or Markdown (with SVG images beside it), by the suffix.",
+                  ".html or .md file to write")
     from . import studies_cli
 
     studies_cli.add_parsers(sub)
+    return p
+
+
+def _file_command(sub, name: str, summary: str, description: str, output_help: str):
+    """A subcommand that solves a case and writes files (``plot``, ``report``)."""
+    import textwrap
+
+    p = sub.add_parser(name, help=summary,
+                       description=textwrap.fill(description, 92) + "\n\n" + _DESCRIPTION,
+                       formatter_class=argparse.RawDescriptionHelpFormatter)
+    p.add_argument("case", help="case file (TOML)")
+    p.add_argument("-o", "--output", metavar="FILE", required=True, help=output_help)
+    p.add_argument("--case", dest="load_case", metavar="NAME",
+                   help="only this load case (default: every case)")
+    p.add_argument("--redundants", metavar="LIST", help="redundants to use (as for solve)")
+    p.add_argument("--force", action="store_true", help="replace existing files")
     return p
 
 
