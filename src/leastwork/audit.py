@@ -89,19 +89,14 @@ class _Units:
         return f"{top}/{bottom}"
 
 
-def _is_moment(col) -> bool:
-    return col.kind in ("start_m", "end_m") or (col.kind == "reaction"
-                                               and col.name.endswith(".rz"))
-
-
 def _col_dim(col) -> tuple[int, int]:
     """(force, length) exponents of a column's force."""
-    return (1, 1) if _is_moment(col) else (1, 0)
+    return (1, 1) if col.is_moment else (1, 0)
 
 
 def _disp_dim(col) -> tuple[int, int]:
     """(force, length) exponents of the displacement conjugate to a column."""
-    return (0, 0) if _is_moment(col) else (0, 1)
+    return (0, 0) if col.is_moment else (0, 1)
 
 
 def _poly_text(coef, var: str = "x", scale: float = 1.0) -> str:
@@ -164,7 +159,7 @@ class _Context:
         self.terms = flexibility_terms(self.st, self.topo)
         # round-off of the released structure's solves shown as zero (display only)
         lref = max((self.st.length(m) for m in self.st.members), default=1.0)
-        self.col_scale = np.array([lref if _is_moment(c) else 1.0 for c in self.cols])
+        self.col_scale = np.array([lref if c.is_moment else 1.0 for c in self.cols])
         self.B = self._denoise(sol.B)
         self.s0 = {k: self._denoise(r.s0[:, None])[:, 0] for k, r in sol.cases.items()}
         self.xdim = [_col_dim(c) for c in self.rcols]

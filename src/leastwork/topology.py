@@ -38,6 +38,12 @@ class Column:
     owner: str  #: member id, or node id for a reaction
     restraint_index: int = -1  #: index into Topology.restraints for reactions
 
+    @property
+    def is_moment(self) -> bool:
+        """A moment (beam end moment or rotational reaction) rather than a force."""
+        return self.kind in ("start_m", "end_m") or (self.kind == "reaction"
+                                                    and self.name.endswith(".rz"))
+
 
 @dataclass(frozen=True)
 class Topology:

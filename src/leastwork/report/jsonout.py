@@ -16,10 +16,6 @@ SCHEMA = "leastwork.result/1"
 _ROUND_OFF = 1e-12
 
 
-def _is_moment_column(col) -> bool:
-    return col.kind in ("start_m", "end_m") or (col.kind == "reaction" and col.name.endswith(".rz"))
-
-
 def quantity_factors(u):
     """SI value of one unit of force, length, moment of the unit system ``u``."""
     return u.factor("force"), u.factor("length"), u.factor("moment")
@@ -39,8 +35,8 @@ def solution_to_dict(sol) -> dict:
     Ff, Lf, Mf = quantity_factors(u)
     red_cols = [topo.columns[j] for j in sol.redundant_columns]
     # unit of each redundant (force or moment) and of its conjugate displacement
-    x_unit = [Mf if _is_moment_column(c) else Ff for c in red_cols]
-    d_unit = [1.0 if _is_moment_column(c) else Lf for c in red_cols]
+    x_unit = [Mf if c.is_moment else Ff for c in red_cols]
+    d_unit = [1.0 if c.is_moment else Lf for c in red_cols]
     flex = [[_num(sol.flexibility[i, j] * x_unit[j] / d_unit[i]) for j in range(len(red_cols))]
             for i in range(len(red_cols))]
     lmax = max((st.length(m) for m in st.members), default=1.0)

@@ -10,25 +10,14 @@ from rich.table import Table
 from ..audit import ASSUMPTIONS, CAUTION, energy_terms
 from ..displacements import deflection_extreme
 from ..sheet import Formula, Grid, Para, Sheet, fmt, split_grid
-from .jsonout import _is_moment_column, quantity_factors
+from .jsonout import quantity_factors
 
 __all__ = ["print_summary", "print_brief", "print_check", "print_steps", "print_sheet", "CAUTION", "ASSUMPTIONS",
            "energy_terms"]
 
 def _g(x: float, sig: int = 5) -> str:
-    if x == 0 or abs(x) < 1e-300:
-        return "0"
-    if abs(x) < 10 ** (-sig - 6):
-        return f"{x:.{sig - 1}e}"
-    s = f"{x:.{sig}g}"
-    if "e" in s:
-        mant, exp = s.split("e")
-        return f"{mant}e{int(exp)}"
-    return s
-
-
-def _clean(values, scale):
-    return [0.0 if abs(v) < 1e-12 * scale else v for v in values]
+    """Summary numbers: ``sig`` significant figures (:func:`leastwork.sheet.fmt`)."""
+    return fmt(x, sig)
 
 
 def print_check(console: Console, st, topo, red_cols) -> None:
@@ -92,7 +81,7 @@ def print_summary(console: Console, sol, case_names=None) -> None:
             t.add_column("unit")
             for j, x in zip(sol.redundant_columns, res.redundants, strict=True):
                 col = topo.columns[j]
-                mom = _is_moment_column(col)
+                mom = col.is_moment
                 t.add_row(col.name, _g(x / (Mf if mom else Ff)), mu if mom else fu)
             console.print(t)
         t = Table(title="Reactions (force the support applies to the structure)",
@@ -112,12 +101,8 @@ def print_summary(console: Console, sol, case_names=None) -> None:
         for h in (f"n start [{fu}]", f"v start [{fu}]", f"m start [{mu}]", f"n end [{fu}]",
                   f"v end [{fu}]", f"m end [{mu}]"):
             t.add_column(escape(h), justify="right")
-        scale = max(1e-300, max(abs(v) for mr in res.members.values() for v in (*mr.start,
-                                                                               *mr.end)))
-        for mid, mr in res.members.items():
-            vals = _clean([*mr.start, *mr.end], scale)
-            facs = [Ff, Ff, Mf, Ff, Ff, Mf]
-            t.add_row(mid, *[_g(v / f) for v, f in zip(vals, facs, strict=True)])
+        for mid, mj in sol_json["cases"][name]["members"].items():
+            t.add_row(mid, *[_g(mj[e][q]) for e in ("start", "end") for q in "nvm"])
         console.print(t)
         beams = [mid for mid in res.members if st.members[mid].is_beam]
         if beams:
@@ -169,7 +154,7 @@ def print_brief(console: Console, sol, case_names=None) -> None:
         res = sol.cases[name]
         for j, x in zip(sol.redundant_columns, res.redundants, strict=True):
             col = sol.topology.columns[j]
-            mom = _is_moment_column(col)
+            mom = col.is_moment
             console.print(f"{name}  {col.name} = {_g(x / (Mf if mom else Ff))} "
                           f"{u.moment if mom else u.force}", highlight=False)
         eq = "OK" if res.equilibrium_ok else "[bold red]FAILED[/bold red]"
