@@ -211,7 +211,8 @@ def _run(argv) -> int:
         raise CaseError("expected a comma-separated list of redundants", source="command line",
                         where="--redundants")
     units = _display_units(args.units)
-    sol = solve(st, names, verify=False if args.no_verify else None)
+    with _busy("solving"):
+        sol = solve(st, names, verify=False if args.no_verify else None)
     if units is not None:
         sol.display_units = units
     cases = None
@@ -257,6 +258,17 @@ _SUFFIX_FORMAT = {".md": "md", ".markdown": "md", ".tex": "latex", ".json": "jso
                   ".txt": "text"}
 
 
+def _busy(message: str):
+    """A spinner on standard error while something slow runs, only on a terminal."""
+    import contextlib
+
+    if not sys.stderr.isatty():
+        return contextlib.nullcontext()
+    from rich.console import Console
+
+    return Console(stderr=True).status(f"{message}...", spinner="dots")
+
+
 def _drawing(args, st) -> int:
     """``plot`` and ``report``: solve, then write the figure or the report files."""
     import os
@@ -267,7 +279,8 @@ def _drawing(args, st) -> int:
     from .writing import write_files
 
     names = _split(args.redundants)
-    sol = solve(st, names)
+    with _busy("solving"):
+        sol = solve(st, names)
     cases = None
     if args.load_case is not None:
         if args.load_case not in sol.cases:
@@ -286,18 +299,21 @@ def _drawing(args, st) -> int:
         fd, tmp = tempfile.mkstemp(suffix=suffix)
         os.close(fd)
         try:
-            plot_case(sol, tmp, case=args.load_case, diagrams=diagrams)
+            with _busy("drawing"):
+                plot_case(sol, tmp, case=args.load_case, diagrams=diagrams)
             files = {out: pathlib.Path(tmp).read_bytes()}
         finally:
             os.unlink(tmp)
     elif suffix in (".html", ".htm"):
         from .report.html import report_html
 
-        files = {out: report_html(sol, cases, meta=_sheet_meta())}
+        with _busy("writing the report"):
+            files = {out: report_html(sol, cases, meta=_sheet_meta())}
     elif suffix in (".md", ".markdown"):
         from .report.html import report_markdown_files
 
-        files = report_markdown_files(sol, out, cases, meta=_sheet_meta())
+        with _busy("writing the report"):
+            files = report_markdown_files(sol, out, cases, meta=_sheet_meta())
     else:
         raise CaseError(f'cannot tell the report format of "{out}": name it .html or .md',
                         source="command line", where="--output")
@@ -382,8 +398,7 @@ def _symbolic(args, st, sol, names, cases, fmt_name) -> int:
     )
     from .symbolic import solve_symbolic
 
-    err = Console(stderr=True)
-    with err.status(f"closed forms (at most {args.time_limit:g} s)...", spinner="dots"):
+    with _busy(f"closed forms (at most {args.time_limit:g} s)"):
         sym = solve_symbolic(args.case, redundants=names,
                              extra_displacements=_split(args.at) or [],
                              time_limit=args.time_limit)
