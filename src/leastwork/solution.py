@@ -16,8 +16,9 @@ __all__ = ["MemberResult", "CaseResult", "Solution", "EQUILIBRIUM_RTOL", "member
 #: Relative tolerance of the equilibrium check (residual / force scale).
 EQUILIBRIUM_RTOL = 1e-8
 #: Smallest force scale of a case (N): a case whose forces are all zero (a determinate
-#: structure that is only heated, say) is checked against this instead of against zero.
-FORCE_FLOOR = 1e-3
+#: structure that is only heated, say) is checked against this instead of against zero, so
+#: that round-off (of the order of 1e-10 N where EA is large) is not taken for an error.
+FORCE_FLOOR = 1.0
 
 
 @dataclass(frozen=True)
