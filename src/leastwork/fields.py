@@ -60,7 +60,9 @@ class Piecewise:
             xs += cand
             vals += [float(P.polyval(x, coef)) for x in cand]
         v, x = np.array(vals), np.array(xs)
-        tol = 1e-12 * max(float(np.max(np.abs(v))), 1e-300)
+        # ties within round-off (and values below 1e-9, SI: a flat zero field) keep the
+        # first position, so that round-off never decides where an extreme is
+        tol = max(1e-12 * float(np.max(np.abs(v))), 1e-9)
         top = np.flatnonzero(v >= v.max() - tol)
         bottom = np.flatnonzero(v <= v.min() + tol)
         i, j = top[np.argmin(x[top])], bottom[np.argmin(x[bottom])]
@@ -153,7 +155,6 @@ def particular_fields(length: float, ex: tuple[float, float], point_loads, dist_
         m_left = P.polyval(x1, m_poly)
     # simple-support conditions: m(L) = 0 (end reaction transverse), n(L) = 0 (roller)
     r_start = -m_left / L
-    cm[:, 0] += 0.0
     cm[:, 1] += r_start
     cv[:, 0] += r_start
     cn[:, 0] -= n_left

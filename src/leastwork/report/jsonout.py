@@ -4,6 +4,8 @@ from __future__ import annotations
 
 import math
 
+import numpy as np
+
 from ..displacements import deflection_extreme
 from ..solution import EQUILIBRIUM_RTOL
 
@@ -37,7 +39,11 @@ def solution_to_dict(sol) -> dict:
     # unit of each redundant (force or moment) and of its conjugate displacement
     x_unit = [Mf if c.is_moment else Ff for c in red_cols]
     d_unit = [1.0 if c.is_moment else Lf for c in red_cols]
-    flex = [[_num(sol.flexibility[i, j] * x_unit[j] / d_unit[i]) for j in range(len(red_cols))]
+    delta = sol.flexibility
+    diag = np.sqrt(np.abs(np.diag(delta)))
+    # |delta_ij| <= sqrt(delta_ii delta_jj) (positive definite); far below that is round-off
+    flex = [[_num(0.0 if abs(delta[i, j]) <= _ROUND_OFF * diag[i] * diag[j]
+                  else delta[i, j] * x_unit[j] / d_unit[i]) for j in range(len(red_cols))]
             for i in range(len(red_cols))]
     lmax = max((st.length(m) for m in st.members), default=1.0)
     cases = {}
@@ -67,9 +73,16 @@ def solution_to_dict(sol) -> dict:
         reactions = {}
         for node, comps in res.reactions.items():
             reactions[node] = {d: moment(v) if d == "rz" else force(v) for d, v in comps.items()}
+        # displacements far below the case's largest nodal movement are round-off
+        moved = np.abs(res.nodal_displacements)
+        rot = np.array([d.endswith(".rz") for d in topo.dofs], dtype=bool)
+        u_tol = _ROUND_OFF * float(np.max(moved[~rot], initial=0.0))
+        r_tol = _ROUND_OFF * float(np.max(moved[rot], initial=0.0))
         disp = {}
         for t, v in res.displacements.items():
-            disp[t] = _num(v if t.endswith(".rz") else v / Lf)
+            is_rot = t.endswith(".rz")
+            disp[t] = _num(0.0 if abs(v) <= (r_tol if is_rot else u_tol)
+                           else (v if is_rot else v / Lf))
         checks = {
             "equilibrium_residual": _num(res.equilibrium_residual / Ff),
             "equilibrium_ok": bool(res.equilibrium_ok),

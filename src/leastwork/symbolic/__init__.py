@@ -53,6 +53,11 @@ Semantics
   moment are large it is given as the sum m0 - m1**2/(4*m2) of its exact parts rather
   than one large fraction. No general-purpose ``sympy.simplify`` is run (its time has no
   bound).
+* Irrational numbers are carried through the solve as auxiliary symbols and put back at
+  the end: a square root that does not simplify (the length of a sloping member), the
+  sine and cosine of a roller angle, pi of an angle in degrees. Each one adds a variable
+  to the algebra; a frame with many sloping members at decimal coordinates may therefore
+  reach the time limit even without parameters.
 * The whole solve runs under a time limit (``time_limit``, default 60 s). In the main
   thread it is a SIGALRM interval timer; in another thread the solve runs in a forked
   child process that is killed at the limit (see :mod:`.limit`). Past the limit a

@@ -6,6 +6,7 @@ from collections.abc import Callable
 from typing import Any
 
 import sympy
+from sympy.core.mul import _keep_coeff
 
 from ..units import UnitSystem
 from .algebra import Algebra, Lin
@@ -48,34 +49,36 @@ class Finisher:
 
     def _factor(self, el) -> sympy.Expr:
         """numerator/denominator, each factored over the rationals (a numerator of more
-        than _FACTOR_TERMS terms only has its content and monomial factor taken out)."""
+        than _FACTOR_TERMS terms only has its content and monomial factor taken out), the
+        auxiliaries put back, and the rational coefficient kept in front (not multiplied
+        into a sum)."""
         if not el:
             return sympy.S.Zero
-        num = self._poly(el.numer, len(el.numer) <= _FACTOR_TERMS)
-        den = self._poly(el.denom, True)
-        return num / den
+        cn, num = self._poly(el.numer, len(el.numer) <= _FACTOR_TERMS)
+        cd, den = self._poly(el.denom, True)
+        return _keep_coeff(cn / cd, num / den)
 
-    def _poly(self, p, full: bool) -> sympy.Expr:
+    def _poly(self, p, full: bool) -> tuple[sympy.Expr, sympy.Expr]:
+        """(rational coefficient, product of factors) of a polynomial of K's ring."""
         key = (tuple(sorted(p.terms())), full)
         if key in self._polys:
             return self._polys[key]
         self.tick()
+        to_sympy = p.ring.domain.to_sympy
         if p.is_ground:
-            out = p.as_expr()
+            out = (p.as_expr(), sympy.S.One)
         elif full:
             coeff, facs = p.factor_list()
-            out = p.ring.domain.to_sympy(coeff)
-            for f, m in facs:
-                out *= f.as_expr() ** m
+            out = (to_sympy(coeff), sympy.Mul(*[f.as_expr() ** m for f, m in facs]))
         else:
             monoms = list(p.monoms())
             monom = tuple(min(e) for e in zip(*monoms))
             rest = p.ring.from_dict({tuple(a - b for a, b in zip(m, monom)): c
                                      for m, c in p.terms()})
             coeff, prim = rest.primitive()
-            out = p.ring.domain.to_sympy(coeff) * prim.as_expr()
-            for g, e in zip(p.ring.symbols, monom):
-                out *= g**e
+            body = prim.as_expr() * sympy.Mul(*[g**e for g, e in zip(p.ring.symbols, monom)])
+            out = (to_sympy(coeff), body)
+        out = (out[0], self.alg.atomizer.restore(out[1]))
         self._polys[key] = out
         return out
 
