@@ -112,13 +112,15 @@ def solve(structure: Structure, redundants=None, *, where: str | None = None,
         results[case] = CaseResult.build(st, topo, loading, X, load_terms, Delta, s, s0,
                                          nodal_disp, d, released)
     _check_targets(st, topo)
-    from .checks import should_verify, stiffness_check
-
     if verify is None:
+        from .checks import should_verify
+
         verify = should_verify(st)
     if verify:
+        from .checks import stiffness_check
+
         for res in results.values():
-            res.stiffness = stiffness_check(st, res)
+            res.stiffness = stiffness_check(st, res, solver.cond)
             if not res.stiffness.ok:
                 notes.append(_disagreement(res))
     return Solution(st, topo, red, chosen_by_user, B, F, delta, results,

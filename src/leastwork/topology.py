@@ -15,15 +15,18 @@ rank. The redundants are columns whose removal leaves a square non-singular A0.
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import TYPE_CHECKING
 
-import networkx as nx
 import numpy as np
 
 from .errors import CaseError, MechanismError
 from .model import Structure, rotational_nodes
 
+if TYPE_CHECKING:
+    import networkx as nx
+
 __all__ = ["Column", "Topology", "build_topology", "choose_redundants", "structure_graph",
-           "weakest_mode", "soft_spring_warnings", "NEAR_MECHANISM"]
+           "member_graph_counts", "weakest_mode", "soft_spring_warnings", "NEAR_MECHANISM"]
 
 _RANK_TOL = 1e-9
 _GOOD_PIVOT = 1e-3
@@ -63,7 +66,7 @@ class Topology:
     counting: dict  #: classical counting: unknowns, equations, formula text
     dropped: tuple[str, ...]  #: rz restraints dropped at nodes with no rotational stiffness
     mechanism: tuple[str, ...]  #: free motions when unstable
-    loops: int = 0  #: independent closed loops of the member graph (networkx cycle rank)
+    loops: int = 0  #: independent closed loops of the member graph (cycle rank)
     parts: int = 1  #: connected parts of the member graph
 
     @property
@@ -74,6 +77,8 @@ class Topology:
 def structure_graph(st: Structure) -> nx.MultiGraph:
     """The structure as a graph: nodes are joints (plus one ground node), edges members and
     supports."""
+    import networkx as nx
+
     g = nx.MultiGraph()
     g.add_nodes_from(st.nodes)
     g.add_node("<ground>")
@@ -82,6 +87,27 @@ def structure_graph(st: Structure) -> nx.MultiGraph:
     for s in st.supports.values():
         g.add_edge(s.node, "<ground>", key=f"support {s.node}", kind="support")
     return g
+
+
+def member_graph_counts(st: Structure) -> tuple[int, int]:
+    """Connected parts and independent closed loops (cycle rank: members - joints + parts)
+    of the member graph (joints and members, supports left out), by union-find; the same
+    counts as :func:`structure_graph` gives, without building the graph."""
+    parent = {n: n for n in st.nodes}
+
+    def root(n):
+        while parent[n] != n:
+            parent[n] = parent[parent[n]]
+            n = parent[n]
+        return n
+
+    parts = len(parent)
+    for m in st.members.values():
+        a, b = root(m.start), root(m.end)
+        if a != b:
+            parent[a] = b
+            parts -= 1
+    return parts, len(st.members) - len(parent) + parts
 
 
 def build_topology(st: Structure) -> Topology:
@@ -157,9 +183,7 @@ def build_topology(st: Structure) -> Topology:
             formula += f"  (3m + r - 3j = 3*{n_beams} + {r} - 3*{j} = {3 * n_beams + r - 3 * j})"
     counting = {"unknowns": len(columns), "equations": len(dofs),
                 "value": len(columns) - len(dofs), "formula": formula}
-    members_graph = structure_graph(st).subgraph(st.nodes)
-    parts = nx.number_connected_components(members_graph)
-    loops = members_graph.number_of_edges() - members_graph.number_of_nodes() + parts
+    parts, loops = member_graph_counts(st)
     return Topology(
         loops=loops, parts=parts,
         dofs=tuple(dofs), dof_index=dof_index, columns=tuple(columns),

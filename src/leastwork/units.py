@@ -18,8 +18,13 @@ __all__ = ["UnitSystem", "DIMENSIONS", "ureg"]
 def _registry():
     import pint
 
-    reg = pint.UnitRegistry(autoconvert_offset_to_baseunit=False)
-    return reg
+    # pint's own disk cache of the parsed definitions (the user cache folder) makes the
+    # registry about ten times cheaper to build after the first run; without a usable cache
+    # folder (read-only, a half-written file of a concurrent first run) it is built afresh.
+    try:
+        return pint.UnitRegistry(autoconvert_offset_to_baseunit=False, cache_folder=":auto:")
+    except Exception:
+        return pint.UnitRegistry(autoconvert_offset_to_baseunit=False)
 
 
 def ureg():
