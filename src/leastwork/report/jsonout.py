@@ -93,6 +93,7 @@ def solution_to_dict(sol) -> dict:
             checks["stiffness_difference"] = (None if res.stiffness.difference is None
                                               else _num(res.stiffness.difference))
             checks["stiffness_ok"] = bool(res.stiffness.ok)
+            checks["stiffness_tolerance"] = _num(res.stiffness.tolerance)
         cases[name] = {
             "redundants": {c.name: _num(x / xu) for c, x, xu in zip(red_cols, res.redundants,
                                                                     x_unit, strict=True)},
