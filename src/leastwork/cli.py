@@ -215,12 +215,7 @@ def _run(argv) -> int:
         sol = solve(st, names, verify=False if args.no_verify else None)
     if units is not None:
         sol.display_units = units
-    cases = None
-    if args.load_case is not None:
-        if args.load_case not in sol.cases:
-            raise CaseError(f'no load case "{args.load_case}"; the case has: '
-                            + ", ".join(sol.cases), source="command line", where="--case")
-        cases = [args.load_case]
+    cases = _chosen_cases(sol, args.load_case)
     fmt_name = _output_format(args)
     if args.symbolic:
         return _symbolic(args, st, sol, names, cases, fmt_name)
@@ -258,6 +253,16 @@ _SUFFIX_FORMAT = {".md": "md", ".markdown": "md", ".tex": "latex", ".json": "jso
                   ".txt": "text"}
 
 
+def _chosen_cases(sol, name: str | None) -> list[str] | None:
+    """The load cases ``--case`` asks for (None: all), checked against the solution."""
+    if name is None:
+        return None
+    if name not in sol.cases:
+        raise CaseError(f'no load case "{name}"; the case has: ' + ", ".join(sol.cases),
+                        source="command line", where="--case")
+    return [name]
+
+
 def _busy(message: str):
     """A spinner on standard error while something slow runs, only on a terminal."""
     import contextlib
@@ -281,12 +286,7 @@ def _drawing(args, st) -> int:
     names = _split(args.redundants)
     with _busy("solving"):
         sol = solve(st, names)
-    cases = None
-    if args.load_case is not None:
-        if args.load_case not in sol.cases:
-            raise CaseError(f'no load case "{args.load_case}"; the case has: '
-                            + ", ".join(sol.cases), source="command line", where="--case")
-        cases = [args.load_case]
+    cases = _chosen_cases(sol, args.load_case)
     out = pathlib.Path(args.output)
     suffix = out.suffix.lower()
     if args.command == "plot":
