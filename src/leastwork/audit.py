@@ -163,6 +163,8 @@ class _Context:
         self.B = self._denoise(sol.B)
         self.s0 = {k: self._denoise(r.s0[:, None])[:, 0] for k, r in sol.cases.items()}
         self.xdim = [_col_dim(c) for c in self.rcols]
+        self._deformation_cache: dict[str, list] = {}
+        self._source_cache: dict[str, dict] = {}
         self.ddim = [_disp_dim(c) for c in self.rcols]
 
     # ------------------------------------------------------------------ helpers
@@ -382,8 +384,8 @@ class _Context:
             rows, tot = [], np.zeros(nr)
             for m in axial:
                 k = ci[m.id] if m.kind == "bar" else ci[f"{m.id}.n"]
-                vals = [self.load_term_case(self._load_contribution(res, m.id, "axial", i), i)
-                        for i in range(nr)]
+                vec = self._load_sources(res).get((m.id, "loads, axial"), np.zeros(nr))
+                vals = [self.load_term_case(float(vec[i]), i) for i in range(nr)]
                 tot += vals
                 rows.append((m.id, u.conv(self.s0[res.name][k], 1, 0), *vals))
             out.append(Grid(f"Load case {case}: axial forces of the released structure under "
@@ -416,23 +418,12 @@ class _Context:
                             tuple(rows), total=("total", "", "", "", *tot) if nr else None))
         return out
 
-    def _load_contribution(self, res, owner: str, term: str, i: int) -> float:
-        """Contribution (SI) of member ``owner``'s energy ``term`` under the loads (forces
-        s0 and span-load deformations) to the load term of redundant i."""
-        B, s0 = self.B, self.s0[res.name]
-        total = 0.0
-        for t in self.terms:
-            if t.owner == owner and t.term == term:
-                cols = list(t.columns)
-                total += float(B[cols, i] @ t.block @ s0[cols])
-        for d in self._deformations(res):
-            if d.owner == owner and d.effect == f"span loads ({term})":
-                total += B[d.column, i] * d.value
-        return total
-
     def _deformations(self, res):
-        return initial_deformation_terms(self.st, self.topo, res.loading.particulars,
-                                         res.loading.imposed)
+        """Initial deformation terms of load case ``res`` (computed once per case)."""
+        if res.name not in self._deformation_cache:
+            self._deformation_cache[res.name] = initial_deformation_terms(
+                self.st, self.topo, res.loading.particulars, res.loading.imposed)
+        return self._deformation_cache[res.name]
 
     # ------------------------------------------------------------------ step 4
     def step_coefficients(self) -> Step:
@@ -470,7 +461,7 @@ class _Context:
         for case in self.cases:
             res = self.sol.cases[case]
             rows = []
-            for owner, what, vec in self._load_sources(res):
+            for (owner, what), vec in self._load_sources(res).items():
                 vals = [self.load_term_case(float(vec[i]), i) for i in range(nr)]
                 if any(v != 0.0 for v in vals):
                     rows.append((owner, what, *vals))
@@ -483,8 +474,11 @@ class _Context:
         return Step(4, "Flexibility coefficients δij and load terms δi0, term by term",
                     tuple(blocks))
 
-    def _load_sources(self, res):
-        """(owner, effect, vector over redundants, SI) of every load-term contribution."""
+    def _load_sources(self, res) -> dict[tuple[str, str], np.ndarray]:
+        """(owner, effect) -> vector over redundants (SI) of every load-term contribution
+        of load case ``res`` (computed once per case)."""
+        if res.name in self._source_cache:
+            return self._source_cache[res.name]
         B, s0 = self.B, self.s0[res.name]
         out: dict[tuple[str, str], np.ndarray] = {}
 
@@ -502,7 +496,8 @@ class _Context:
         for j in np.flatnonzero(c):
             if j not in self.red:
                 add(self.cols[j].name, "settlement", -B[j] * c[j])
-        return [(o, w, v) for (o, w), v in out.items()]
+        self._source_cache[res.name] = out
+        return out
 
     # ------------------------------------------------------------------ step 5
     def step_equations(self) -> Step:
@@ -583,7 +578,7 @@ class _Context:
                 blocks.append(Grid(f"Load case {case}: bending moment extremes along beams",
                                    ("beam", f"m max [{ml}]", f"at [{u.lu}]", f"m min [{ml}]",
                                     f"at [{u.lu}]"), tuple(rows)))
-        blocks.extend(envelope_grids(sol))
+        blocks.extend(envelope_grids(sol, self.json))
         return Step(6, "Solution, superposition and reactions", tuple(blocks))
 
     # ------------------------------------------------------------------ step 7
@@ -678,12 +673,13 @@ class _Context:
         return Step(8, "Equilibrium check, cross-check and caution", tuple(blocks))
 
 
-def envelope_grids(sol) -> list[Grid]:
-    """Tables of the envelope over the load combinations of ``sol`` (none without them)."""
+def envelope_grids(sol, data: dict | None = None) -> list[Grid]:
+    """Tables of the envelope over the load combinations of ``sol`` (none without them);
+    ``data`` is ``sol.to_dict()`` when the caller has it already."""
     combos = [name for name, _ in sol.structure.combinations]
     if not combos:
         return []
-    env = sol.to_dict()["envelope"]
+    env = (data or sol.to_dict())["envelope"]
     u = _Units(sol.units)
     ml = u.label(1, 1)
     rows = []

@@ -8,7 +8,6 @@ from rich.panel import Panel
 from rich.table import Table
 
 from ..audit import ASSUMPTIONS, CAUTION, energy_terms
-from ..displacements import deflection_extreme
 from ..sheet import Formula, Grid, Para, Sheet, fmt, split_grid
 from .jsonout import quantity_factors
 
@@ -52,7 +51,7 @@ def _indeterminacy(console: Console, topo) -> None:
 
 def print_summary(console: Console, sol, case_names=None) -> None:
     st, topo = sol.structure, sol.topology
-    Ff, Lf, Mf = quantity_factors(sol.units)
+    Ff, _, Mf = quantity_factors(sol.units)
     fu, mu, lu = sol.units.force, f"{sol.units.force}*{sol.units.length}", sol.units.length
     console.print(f"[bold]{st.name}[/bold]  ({st.source})")
     console.print(f"Assumptions: {ASSUMPTIONS}")
@@ -115,12 +114,12 @@ def print_summary(console: Console, sol, case_names=None) -> None:
             t.add_column(escape(f"at [{lu}]"), justify="right")
             t.add_column(escape(f"deflection [{lu}]"), justify="right")
             t.add_column(escape(f"at [{lu}]"), justify="right")
-            for mid in beams:
-                mr = res.members[mid]
-                w, at = deflection_extreme(st, topo, res, mid)
-                t.add_row(mid, _g(mr.m_max[0] / Mf), _g(mr.m_max[1] / Lf),
-                          _g(mr.m_min[0] / Mf), _g(mr.m_min[1] / Lf), _g(w / Lf, 4),
-                          _g(at / Lf, 4))
+            for mid in beams:  # as the JSON gives them (deflection found once)
+                mj = sol_json["cases"][name]["members"][mid]
+                t.add_row(mid, _g(mj["m_max"]["value"]), _g(mj["m_max"]["at"]),
+                          _g(mj["m_min"]["value"]), _g(mj["m_min"]["at"]),
+                          _g(mj["deflection_max"]["value"], 4),
+                          _g(mj["deflection_max"]["at"], 4))
             console.print(t)
         if res.displacements:
             t = Table(title="Displacements (global; rotations counter-clockwise +)",
@@ -128,9 +127,8 @@ def print_summary(console: Console, sol, case_names=None) -> None:
             t.add_column("where")
             t.add_column("value", justify="right")
             t.add_column("unit")
-            for k, v in res.displacements.items():
-                rot = k.endswith(".rz")
-                t.add_row(k, _g(v if rot else v / Lf), "rad" if rot else lu)
+            for k, v in sol_json["cases"][name]["displacements"].items():
+                t.add_row(k, _g(v), "rad" if k.endswith(".rz") else lu)
             console.print(t)
         status = "[green]OK[/green]" if res.equilibrium_ok else "[bold red]FAILED[/bold red]"
         console.print(f"Equilibrium check: largest residual {_g(res.equilibrium_residual / Ff, 2)}"
@@ -138,7 +136,7 @@ def print_summary(console: Console, sol, case_names=None) -> None:
         _print_cross_check(console, res)
     from ..audit import envelope_grids
 
-    for grid in envelope_grids(sol):
+    for grid in envelope_grids(sol, sol_json):
         for part in split_grid(grid, console.width):
             console.print(_rich_table(part))
     console.print(Panel(CAUTION, title="Caution", style="yellow"))
