@@ -15,6 +15,7 @@ import math
 import numpy as np
 
 from .energy import flexibility_terms, initial_deformation_terms
+from .errors import CaseError
 from .fields import gauss_integral
 from .model import (
     DistributedLoad,
@@ -130,6 +131,10 @@ def _pair_labels(n: int) -> list[tuple[int, int]]:
     return [(i, j) for i in range(n) for j in range(i, n)]
 
 
+#: Largest number of local self-stress states written out in the audit trail.
+AUDIT_MAX_LOCAL_STATES = 60
+
+
 def audit_sheet(sol, case_names=None, *, meta: dict[str, str] | None = None) -> Sheet:
     """Build the audit trail of ``sol`` (a :class:`~leastwork.solution.Solution`) for the
     load cases ``case_names`` (default: all)."""
@@ -160,7 +165,17 @@ class _Context:
         # round-off of the released structure's solves shown as zero (display only)
         lref = max((self.st.length(m) for m in self.st.members), default=1.0)
         self.col_scale = np.array([lref if c.is_moment else 1.0 for c in self.cols])
-        self.B = self._denoise(sol.B)
+        self.local = sol.basis == "local"
+        if self.local and len(self.red) > AUDIT_MAX_LOCAL_STATES:
+            raise CaseError(
+                f"the audit trail of {len(self.red)} local self-stress states would run to "
+                f"tens of thousands of lines (at most {AUDIT_MAX_LOCAL_STATES} are written "
+                "out); use --json for every number, or the summary", source=sol.structure.source,
+                where="--steps")
+        self.B = self._denoise(sol.B.toarray() if self.local else sol.B)
+        from .report.jsonout import flexibility_rows
+
+        self.flex = flexibility_rows(sol)  # dense, case units (the JSON is sparse if local)
         self.s0 = {k: self._denoise(r.s0[:, None])[:, 0] for k, r in sol.cases.items()}
         self.xdim = [_col_dim(c) for c in self.rcols]
         self._deformation_cache: dict[str, list] = {}
@@ -277,6 +292,8 @@ class _Context:
                    "independent of those already kept (pivoted elimination on the "
                    "column-scaled equilibrium matrix); the forces left over are the "
                    "redundants.")
+        if self.local:
+            return self._local_states_step()
         blocks: list = [Para(why)]
         rows = []
         for i, c in enumerate(self.rcols):
@@ -296,6 +313,42 @@ class _Context:
             "forces) and non-singular, so it is statically determinate and stable; it is "
             "solved once for the loads and once for a unit value of each redundant."))
         return Step(2, "Redundants and the released structure", tuple(blocks))
+
+    def _local_states_step(self) -> Step:
+        """Step 2 for a local self-stress basis: which cut each state closes."""
+        sol = self.sol
+        blocks: list = [Para(
+            "Local self-stress states (sparse path): the joints are swept outwards from a "
+            "support; each force that the joints already reached can carry by themselves "
+            "closes a self-stress found on the few members around it (the state holds that "
+            "force at 1). Each state contains its own closing force and only forces met "
+            "before it, so the states are independent; the closing forces are the "
+            "redundants, and the structure left without them is the released structure.")]
+        if sol.long_range_states:
+            blocks.append(Para(f"{sol.long_range_states} state(s) reach across the structure "
+                               "(found by one sparse factorisation at the end)."))
+        rows = []
+        for i, c in enumerate(self.rcols):
+            what = {"reaction": f"support restraint {c.name}",
+                    "axial": f"axial force of {c.owner}",
+                    "start_m": f"moment at the start of {c.owner}",
+                    "end_m": f"moment at the end of {c.owner}"}[c.kind]
+            touched = sorted({self.cols[k].owner for k in np.flatnonzero(self.B[:, i])
+                              if self.cols[k].kind != "reaction"})
+            rows.append((self.x_label(i), c.name, self.unit_of_x(i), f"closes the cut of {what}",
+                         ", ".join(touched)))
+        if rows:
+            blocks.append(Grid("States, the redundant each closes, and the members it touches",
+                               ("X", "redundant", "unit", "state", "members"), tuple(rows)))
+        n = len(self.topo.dofs)
+        blocks.append(Para(
+            f"Released structure: every force except the {len(rows)} redundants; its "
+            f"equilibrium matrix is square ({n} equations, {n} forces) and non-singular "
+            "(sparse LU), so it is statically determinate and stable; it is solved once for "
+            "the loads. X are the amplitudes of the states; each redundant force is the sum "
+            "of the states' values at its column."))
+        return Step(2, "Redundants, local self-stress states and the released structure",
+                    tuple(blocks))
 
     # ------------------------------------------------------------------ step 3
     def step_released(self) -> Step:
@@ -446,7 +499,7 @@ class _Context:
                     for i, j in pairs]
             if any(v != 0.0 for v in vals):
                 rows.append((t.owner, t.term, *vals))
-        flex = self.json["cases"][self.cases[0]]["flexibility"] if self.cases else []
+        flex = self.flex
         heads = ["member", "term"] + [f"δ{i + 1}{j + 1} [{self.delta_label(i, j)}]"
                                       for i, j in pairs]
         blocks.append(Grid("Flexibility coefficients, contribution of each member and term",
@@ -524,7 +577,7 @@ class _Context:
             cj = self.json["cases"][case]
             blocks.append(Para(f"Load case {case}:"))
             for i in range(nr):
-                lhs = " + ".join(f"({fmt(cj['flexibility'][i][j])})·X{j + 1}"
+                lhs = " + ".join(f"({fmt(self.flex[i][j])})·X{j + 1}"
                                  for j in range(nr))
                 blocks.append(Formula(f"{lhs} + ({fmt(cj['load_terms'][i])}) = "
                                       f"{fmt(cj['imposed'][i])}"))
@@ -537,7 +590,15 @@ class _Context:
         for case in self.cases:
             cj = self.json["cases"][case]
             res = sol.cases[case]
-            if self.nred:
+            X = res.redundants if res.amplitudes is None else res.amplitudes
+            if self.nred and self.local:
+                blocks.append(Grid(
+                    f"Load case {case}: amplitudes of the states and the redundants they "
+                    "close", ("X", "closes", "amplitude", "redundant force", "unit"),
+                    tuple((self.x_label(i), c.name, self.u.conv(X[i], *self.xdim[i]),
+                           cj["redundants"][c.name], self.unit_of_x(i))
+                          for i, c in enumerate(self.rcols))))
+            elif self.nred:
                 blocks.append(Grid(f"Load case {case}: the redundants",
                                    ("X", "redundant", "value", "unit"),
                                    tuple((self.x_label(i), c.name, cj["redundants"][c.name],
@@ -547,7 +608,7 @@ class _Context:
             rows = []
             for k, c in enumerate(self.cols):
                 f, l = _col_dim(c)
-                parts = [u.conv(res.redundants[i] * self.B[k, i], f, l)
+                parts = [u.conv(X[i] * self.B[k, i], f, l)
                          for i in range(self.nred)]
                 rows.append((c.name, u.label(f, l), u.conv(self.s0[res.name][k], f, l), *parts,
                              u.conv(res.s[k], f, l)))

@@ -29,11 +29,18 @@ from .topology import (
     weakest_mode,
 )
 
-__all__ = ["solve", "FlexibilitySolver", "CONDITION_WARN"]
+__all__ = ["solve", "solve_cases", "cross_check", "FlexibilitySolver", "CONDITION_WARN", "LOCAL_BASIS_MIN_COLUMNS", "BASES"]
+
+
+#: Above this many basic forces and reactions the automatic choice is the local
+#: self-stress basis (sparse path, :mod:`leastwork.sparse_solve`).
+LOCAL_BASIS_MIN_COLUMNS = 1500
+
+BASES = ("auto", "released", "local")
 
 
 def solve(structure: Structure, redundants=None, *, where: str | None = None,
-          verify: bool | None = None) -> Solution:
+          verify: bool | None = None, basis: str = "auto", progress=None) -> Solution:
     """Solve a structure by the least-work (force) method.
 
     Parameters
@@ -49,6 +56,13 @@ def solve(structure: Structure, redundants=None, *, where: str | None = None,
         Cross-check every load case with the independent direct-stiffness solver
         (:mod:`leastwork.checks`). Default: when the structure is small enough for it to be
         instant.
+    basis : {"auto", "released", "local"}
+        "released": the unit redundant states of one released structure (dense; the full
+        audit trail). "local": local self-stress states, sparse throughout, for large
+        structures (:mod:`leastwork.sparse_solve`); redundants cannot be named. "auto": local
+        above ``LOCAL_BASIS_MIN_COLUMNS`` basic forces when no redundants are named.
+    progress : callable, optional
+        Called with the name of each phase as it starts (for progress displays).
 
     Returns
     -------
@@ -63,8 +77,23 @@ def solve(structure: Structure, redundants=None, *, where: str | None = None,
         The structure, or the released structure, is unstable.
     """
     st = structure
-    topo = build_topology(st)
     names = redundants if redundants is not None else st.redundants
+    if basis not in BASES:
+        raise ValueError(f"basis must be one of {BASES}, not {basis!r}")
+    if basis == "auto":
+        basis = "local" if names is None and _column_count(st) > LOCAL_BASIS_MIN_COLUMNS \
+            else "released"
+    if basis == "local":
+        if names is not None:
+            raise CaseError("redundants cannot be named with the local self-stress basis; "
+                            "name them with the released basis, or leave them out",
+                            source=st.source, where=where or "[analysis] redundants")
+        from .sparse_solve import solve_local
+
+        return solve_local(st, verify=verify, progress=progress)
+    if progress is not None:
+        progress("equilibrium matrix")
+    topo = build_topology(st)
     if where is None:
         where = "--redundants" if redundants is not None else "[analysis] redundants"
     chosen_by_user = names is not None
@@ -96,7 +125,29 @@ def solve(structure: Structure, redundants=None, *, where: str | None = None,
                      f"to largest singular value {ratio:.1e}); the weak mode moves "
                      f"{', '.join(mode)} — bars or supports almost in line?")
     notes.extend(soft_spring_warnings(st, topo))
-    unit_loads = released.forces(np.eye(len(topo.dofs)))  # (ncol, ndof)
+    if progress is not None:
+        progress("load cases")
+    results = solve_cases(st, topo, red, B, F, released, solver)
+    _check_targets(st, topo)
+    notes.extend(cross_check(st, results, solver.cond, verify, progress))
+    return Solution(st, topo, red, chosen_by_user, B, F, delta, results,
+                    warnings=tuple(solver.warnings + notes), released=released,
+                    condition=solver.cond, flexibility_solver=solver)
+
+
+def _column_count(st: Structure) -> int:
+    """Basic forces and reactions of the structure, counted without building anything."""
+    n = 0
+    for m in st.members.values():
+        n += 1 if not m.is_beam else 1 + (not m.hinge_start) + (not m.hinge_end)
+    return n + sum(len(s.restraints) for s in st.supports.values())
+
+
+def solve_cases(st: Structure, topo, red: list[int], B, F, released, solver,
+                local: bool = False) -> dict[str, CaseResult]:
+    """Every load case of ``st`` on the states ``B`` (unit redundant states, or local
+    self-stress states when ``local``), with flexibility ``F``, the factorised released
+    structure and flexibility solver. Dense or sparse ``B`` and ``F`` alike."""
     results = {}
     for case in st.case_names:
         loading = case_loading(st, topo, case)
@@ -108,24 +159,34 @@ def solve(structure: Structure, redundants=None, *, where: str | None = None,
         X = solver.solve(Delta - load_terms)
         s = s0 + B @ X
         d = F @ s + e
-        nodal_disp = unit_loads.T @ (d - c)
-        results[case] = CaseResult.build(st, topo, loading, X, load_terms, Delta, s, s0,
-                                         nodal_disp, d, released)
-    _check_targets(st, topo)
+        nodal_disp = released.displacements(d - c)
+        res = CaseResult.build(st, topo, loading, s[red] if local else X, load_terms, Delta,
+                               s, s0, nodal_disp, d, released)
+        if local:
+            res.amplitudes = X
+        results[case] = res
+    return results
+
+
+def cross_check(st: Structure, results: dict, condition: float, verify: bool | None,
+                progress=None) -> list[str]:
+    """Cross-check every load case with the direct stiffness method when ``verify`` (None:
+    when small enough); the warnings of any disagreement."""
     if verify is None:
         from .checks import should_verify
 
         verify = should_verify(st)
+    notes: list[str] = []
     if verify:
         from .checks import stiffness_check
 
+        if progress is not None:
+            progress("cross-check")
         for res in results.values():
-            res.stiffness = stiffness_check(st, res, solver.cond)
+            res.stiffness = stiffness_check(st, res, condition)
             if not res.stiffness.ok:
                 notes.append(_disagreement(res))
-    return Solution(st, topo, red, chosen_by_user, B, F, delta, results,
-                    warnings=tuple(solver.warnings + notes), released=released,
-                    condition=solver.cond, flexibility_solver=solver)
+    return notes
 
 
 #: Jacobi-scaled condition number of the flexibility matrix above which the choice of

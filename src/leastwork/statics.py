@@ -121,6 +121,12 @@ class ReleasedStructure:
         s[self.keep] = lu_solve(self._lu, -rhs)
         return s
 
+    def displacements(self, compatible: np.ndarray) -> np.ndarray:
+        """Nodal displacements (ndof,) for member deformations less settlements
+        ``compatible`` (ncol,), by the unit-load method: u = -A0^-T compatible[keep] (a unit
+        load at each nodal direction on the released structure, all at once)."""
+        return -lu_solve(self._lu, compatible[self.keep], trans=1)
+
     def unit_redundant_states(self) -> np.ndarray:
         """B (ncol, nred): column i is the state for X_i = 1 with no loads."""
         A = self.topo.A

@@ -25,7 +25,7 @@ from .model import Structure, rotational_nodes
 if TYPE_CHECKING:
     import networkx as nx
 
-__all__ = ["Column", "Topology", "build_topology", "choose_redundants", "structure_graph",
+__all__ = ["Column", "Topology", "build_topology", "sparse_topology", "assemble_equilibrium", "choose_redundants", "structure_graph",
            "member_graph_counts", "weakest_mode", "soft_spring_warnings", "NEAR_MECHANISM"]
 
 _RANK_TOL = 1e-9
@@ -57,7 +57,7 @@ class Topology:
     columns: tuple[Column, ...]
     column_index: dict[str, int]
     restraints: tuple  #: Restraint objects, in column order of reactions
-    A: np.ndarray  #: equilibrium matrix (ndof x ncol), SI units
+    A: np.ndarray | None  #: equilibrium matrix (ndof x ncol), SI units; None when sparse only
     rank: int
     degree: int
     internal: int
@@ -68,6 +68,7 @@ class Topology:
     mechanism: tuple[str, ...]  #: free motions when unstable
     loops: int = 0  #: independent closed loops of the member graph (cycle rank)
     parts: int = 1  #: connected parts of the member graph
+    A_sparse: object = None  #: the same equilibrium matrix, scipy.sparse CSC
 
     @property
     def member_columns(self) -> list[int]:
@@ -110,8 +111,11 @@ def member_graph_counts(st: Structure) -> tuple[int, int]:
     return parts, len(st.members) - len(parent) + parts
 
 
-def build_topology(st: Structure) -> Topology:
-    """Assemble the equilibrium matrix and decide indeterminacy and stability."""
+def assemble_equilibrium(st: Structure):
+    """Rows (nodal directions), columns (basic forces and reactions), restraints, dropped
+    rz restraints and the sparse equilibrium matrix ``A`` (CSC, SI) with ``A s + p = 0``."""
+    import scipy.sparse as sp
+
     rot = rotational_nodes(st.members.values())
     dofs: list[str] = []
     for nid in st.nodes:
@@ -156,19 +160,20 @@ def build_topology(st: Structure) -> Topology:
             if vr:
                 e.append((f"{sup.node}.rz", vr))
             entries.append(e)
-    A = np.zeros((len(dofs), len(columns)))
+    rows, cols, vals = [], [], []
     for j, col_entries in enumerate(entries):
         for dof, val in col_entries:
             if val:
-                A[dof_index[dof], j] += val
-    column_index = {c.name: i for i, c in enumerate(columns)}
-    scaled = _scaled(A, dofs, st)
-    rank = _rank(scaled)
-    member_cols = [i for i, c in enumerate(columns) if c.kind != "reaction"]
-    internal = len(member_cols) - _rank(scaled[:, member_cols])
-    degree = len(columns) - rank
-    stable = rank == len(dofs)
-    mechanism = () if stable else _motion(scaled, dofs)
+                rows.append(dof_index[dof])
+                cols.append(j)
+                vals.append(val)
+    A = sp.csc_matrix((vals, (rows, cols)), shape=(len(dofs), len(columns)))
+    A.sum_duplicates()
+    return dofs, dof_index, columns, restraints, dropped, A
+
+
+def _counting(st: Structure, dofs, columns, restraints) -> dict:
+    """The classical counting formula (unknowns - equations)."""
     n_bars = sum(1 for m in st.members.values() if m.kind == "bar")
     n_beams = len(st.members) - n_bars
     releases = sum(m.hinge_start + m.hinge_end for m in st.members.values() if m.is_beam)
@@ -181,11 +186,44 @@ def build_topology(st: Structure) -> Topology:
                    f" - {len(dofs)} equations = {len(columns) - len(dofs)}")
         if n_bars == 0 and releases == 0:
             formula += f"  (3m + r - 3j = 3*{n_beams} + {r} - 3*{j} = {3 * n_beams + r - 3 * j})"
-    counting = {"unknowns": len(columns), "equations": len(dofs),
-                "value": len(columns) - len(dofs), "formula": formula}
+    return {"unknowns": len(columns), "equations": len(dofs),
+            "value": len(columns) - len(dofs), "formula": formula}
+
+
+def sparse_topology(st: Structure) -> Topology:
+    """The topology with only the sparse equilibrium matrix: rank, degree and stability are
+    left for the self-stress search (:mod:`leastwork.selfstress`) to decide and fill in
+    (the counting value stands in until then)."""
+    dofs, dof_index, columns, restraints, dropped, A_sparse = assemble_equilibrium(st)
+    parts, loops = member_graph_counts(st)
+    counting = _counting(st, dofs, columns, restraints)
+    return Topology(
+        loops=loops, parts=parts, A_sparse=A_sparse,
+        dofs=tuple(dofs), dof_index=dof_index, columns=tuple(columns),
+        column_index={c.name: i for i, c in enumerate(columns)},
+        restraints=tuple(restraints), A=None, rank=len(dofs),
+        degree=counting["value"], internal=0, external=counting["value"], stable=True,
+        counting=counting, dropped=tuple(dropped), mechanism=(),
+    )
+
+
+def build_topology(st: Structure) -> Topology:
+    """Assemble the equilibrium matrix and decide indeterminacy and stability (dense
+    singular values: for structures of up to a few thousand basic forces)."""
+    dofs, dof_index, columns, restraints, dropped, A_sparse = assemble_equilibrium(st)
+    A = A_sparse.toarray()
+    column_index = {c.name: i for i, c in enumerate(columns)}
+    scaled = _scaled(A, dofs, st)
+    rank = _rank(scaled)
+    member_cols = [i for i, c in enumerate(columns) if c.kind != "reaction"]
+    internal = len(member_cols) - _rank(scaled[:, member_cols])
+    degree = len(columns) - rank
+    stable = rank == len(dofs)
+    mechanism = () if stable else _motion(scaled, dofs)
+    counting = _counting(st, dofs, columns, restraints)
     parts, loops = member_graph_counts(st)
     return Topology(
-        loops=loops, parts=parts,
+        loops=loops, parts=parts, A_sparse=A_sparse,
         dofs=tuple(dofs), dof_index=dof_index, columns=tuple(columns),
         column_index=column_index, restraints=tuple(restraints), A=A, rank=rank,
         degree=degree, internal=internal, external=degree - internal, stable=stable,

@@ -9,7 +9,7 @@ import numpy as np
 from ..displacements import deflection_extreme
 from ..solution import EQUILIBRIUM_RTOL
 
-__all__ = ["solution_to_dict", "SCHEMA", "quantity_factors"]
+__all__ = ["solution_to_dict", "SCHEMA", "quantity_factors", "flexibility_rows"]
 
 SCHEMA = "leastwork.result/1"
 
@@ -30,6 +30,46 @@ def _num(x: float) -> float | None:
     return x if math.isfinite(x) else None
 
 
+def _x_d_units(sol) -> tuple[list[float], list[float]]:
+    """SI value of one case unit of each redundant (force or moment) and of its conjugate
+    displacement (length or rad)."""
+    Ff, Lf, Mf = quantity_factors(sol.units)
+    red_cols = [sol.topology.columns[j] for j in sol.redundant_columns]
+    return ([Mf if c.is_moment else Ff for c in red_cols],
+            [1.0 if c.is_moment else Lf for c in red_cols])
+
+
+def flexibility_rows(sol) -> list[list[float | None]]:
+    """The flexibility matrix as rows of numbers in the case units (dense; round-off far
+    below sqrt(delta_ii delta_jj) shown as zero)."""
+    x_unit, d_unit = _x_d_units(sol)
+    delta = sol.flexibility
+    if hasattr(delta, "toarray"):
+        delta = delta.toarray()
+    diag = np.sqrt(np.abs(np.diag(delta)))
+    # |delta_ij| <= sqrt(delta_ii delta_jj) (positive definite); far below that is round-off
+    n = len(x_unit)
+    return [[_num(0.0 if abs(delta[i, j]) <= _ROUND_OFF * diag[i] * diag[j]
+                  else delta[i, j] * x_unit[j] / d_unit[i]) for j in range(n)]
+            for i in range(n)]
+
+
+def _sparse_flexibility(sol, x_unit, d_unit) -> dict:
+    """Local basis: the flexibility matrix of the state amplitudes as its nonzero entries
+    (row, column, value in the case units), upper triangle and diagonal (it is symmetric)."""
+    delta = sol.flexibility.tocoo()
+    diag = np.sqrt(np.abs(sol.flexibility.diagonal()))
+    keep = (delta.row <= delta.col) & (np.abs(delta.data) > _ROUND_OFF * diag[delta.row]
+                                       * diag[delta.col])
+    r, c, v = delta.row[keep], delta.col[keep], delta.data[keep]
+    order = np.lexsort((c, r))
+    r, c, v = r[order], c[order], v[order]
+    xu, du = np.asarray(x_unit), np.asarray(d_unit)
+    return {"format": "sparse upper triangle", "size": int(delta.shape[0]),
+            "rows": [int(i) for i in r], "columns": [int(j) for j in c],
+            "values": [_num(x) for x in v * xu[c] / du[r]]}
+
+
 def solution_to_dict(sol) -> dict:
     st = sol.structure
     topo = sol.topology
@@ -39,12 +79,8 @@ def solution_to_dict(sol) -> dict:
     # unit of each redundant (force or moment) and of its conjugate displacement
     x_unit = [Mf if c.is_moment else Ff for c in red_cols]
     d_unit = [1.0 if c.is_moment else Lf for c in red_cols]
-    delta = sol.flexibility
-    diag = np.sqrt(np.abs(np.diag(delta)))
-    # |delta_ij| <= sqrt(delta_ii delta_jj) (positive definite); far below that is round-off
-    flex = [[_num(0.0 if abs(delta[i, j]) <= _ROUND_OFF * diag[i] * diag[j]
-                  else delta[i, j] * x_unit[j] / d_unit[i]) for j in range(len(red_cols))]
-            for i in range(len(red_cols))]
+    flex = (flexibility_rows(sol) if sol.basis != "local"
+            else _sparse_flexibility(sol, x_unit, d_unit))
     lmax = max((st.length(m) for m in st.members), default=1.0)
     cases = {}
     for name, res in sol.cases.items():
@@ -98,6 +134,8 @@ def solution_to_dict(sol) -> dict:
             "redundants": {c.name: _num(x / xu) for c, x, xu in zip(red_cols, res.redundants,
                                                                     x_unit, strict=True)},
             "flexibility": flex,
+            **({} if res.amplitudes is None else {"amplitudes": [
+                _num(x / xu) for x, xu in zip(res.amplitudes, x_unit, strict=True)]}),
             "load_terms": [_num(v / du) for v, du in zip(res.load_terms, d_unit, strict=True)],
             "imposed": [_num(v / du) for v, du in zip(res.imposed, d_unit, strict=True)],
             "reactions": reactions,
@@ -113,6 +151,10 @@ def solution_to_dict(sol) -> dict:
         "indeterminacy": {"degree": topo.degree, "external": topo.external,
                           "internal": topo.internal, "stable": topo.stable},
         "redundants": [c.name for c in red_cols],
+        **({} if sol.basis != "local" else {"basis": {
+            "kind": "local", "states": len(red_cols),
+            "long_range_states": int(sol.long_range_states),
+            "members_per_state": _members_per_state(sol)}}),
         "cases": cases,
         "warnings": list(sol.warnings),
     }
@@ -120,6 +162,23 @@ def solution_to_dict(sol) -> dict:
     if combos:
         out["envelope"] = _envelope_dict(sol, combos, Ff, Lf, Mf)
     return out
+
+
+def _members_per_state(sol) -> dict:
+    """Smallest, mean and largest number of members a local state touches."""
+    topo = sol.topology
+    ids = {mid: k for k, mid in enumerate(sol.structure.members)}
+    owner = np.array([ids[c.owner] if c.kind != "reaction" else -1 for c in topo.columns])
+    is_member = np.array([c.kind != "reaction" for c in topo.columns])
+    B = sol.B.tocsc()
+    counts = []
+    for i in range(B.shape[1]):
+        rows = B.indices[B.indptr[i]:B.indptr[i + 1]]
+        counts.append(len(set(owner[rows[is_member[rows]]].tolist())))
+    if not counts:
+        return {"min": 0, "mean": 0.0, "max": 0}
+    return {"min": int(min(counts)), "mean": _num(float(np.mean(counts))),
+            "max": int(max(counts))}
 
 
 def _envelope_dict(sol, combos, Ff, Lf, Mf) -> dict:

@@ -1,0 +1,301 @@
+"""A local self-stress basis of the equilibrium matrix, for large structures.
+
+A self-stress is a set of basic forces and reactions ``s`` with ``A s = 0``; the unit
+redundant states of the force method are a basis of them. Cutting members from one released
+structure gives states that may travel across the whole structure (a dense, badly
+conditioned flexibility matrix on large braced grids). Here each state is found on a small
+neighbourhood instead, so that it touches only a few members.
+
+Method (a sweep in the spirit of the turn-back and sparse null-basis methods: Topcu 1979;
+Berry, Heath et al., Numer. Math. 47, 1985; Gilbert & Heath 1987):
+
+1. The joints are numbered by a breadth-first sweep of the member graph from a supported
+   joint; each column (basic force or reaction) takes the number of its latest joint, and
+   columns are processed in that order, member forces before reactions at a joint (so that
+   reactions become the redundants, as on the small path).
+2. A column that reaches a nodal direction no earlier column reaches is independent of all
+   earlier columns: kept (a pivot of at least ``_GOOD_PIVOT`` of the column's norm is asked
+   for, so that the released structure stays well conditioned).
+3. Any other column is tested on the joints within 1, 2, ... ``_MAX_RADIUS`` members of its
+   own: if a least-squares combination of the earlier columns there reproduces it (residual
+   below ``_RANK_TOL`` on the scaled matrix), that combination with the column at 1 is a
+   local self-stress, and the column is the one whose cut the state closes; else it is kept.
+4. A state contains its own closing column and only columns processed earlier, so the
+   states are triangular in the processing order: independent by construction.
+5. Long-range self-stresses (a truss pinned at both far ends, a ring of many members) are
+   missed by step 3; they show as more kept columns than equations. They are found at the
+   end with one sparse factorisation of the kept columns bordered by a few rows (one per
+   missing state), and their closing columns picked by threshold pivoting, latest first.
+
+The kept columns less those closing columns form the released structure: square, and
+stable exactly when its sparse LU has no negligible pivot.
+
+Scaling (Pellegrino & Calladine 1986 on rank decisions): rows of moments are divided by the
+mean member length and every column is scaled to unit norm before any rank decision.
+"""
+
+from __future__ import annotations
+
+from collections import deque
+from dataclasses import dataclass
+
+import numpy as np
+import scipy.sparse as sp
+
+__all__ = ["SelfStressBasis", "local_self_stress", "equilibrium_scaling"]
+
+_RANK_TOL = 1e-9
+_GOOD_PIVOT = 1e-3
+_MAX_RADIUS = 3
+#: Entries of a state below this fraction of its largest are round-off of the local
+#: least-squares and dropped.
+_DROP = 1e-14
+
+
+@dataclass(frozen=True)
+class SelfStressBasis:
+    """Self-stress states (columns of ``states``, physical units: the closing column at 1)
+    and the released structure they close."""
+
+    states: sp.csc_matrix  #: (ncol, nstates)
+    closing: np.ndarray  #: column closed by each state (its pivot), int
+    released: np.ndarray  #: columns of the released structure (square), sorted
+    internal: int  #: states made of member forces only
+    long_range: int  #: states found by the global step (5)
+    stable: bool  #: the released structure is non-singular (so the structure is stable)
+    motion: tuple[int, ...] = ()  #: row indices moving freely, when unstable
+
+
+def equilibrium_scaling(A: sp.csc_matrix, dofs, lref: float) -> tuple[np.ndarray, np.ndarray]:
+    """Row and column scale factors (r, c) such that ``diag(r) A diag(c)`` has moment rows
+    divided by ``lref`` and columns of unit norm."""
+    r = np.array([1.0 / lref if d.endswith(".rz") else 1.0 for d in dofs])
+    S = sp.diags(r) @ A
+    norms = np.sqrt(np.asarray(S.multiply(S).sum(axis=0)).ravel())
+    norms[norms == 0] = 1.0
+    return r, 1.0 / norms
+
+
+def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]],
+                      dof_node: np.ndarray, node_neighbours: list[list[int]],
+                      priority: np.ndarray, is_member: np.ndarray, lref: float,
+                      start_nodes: list[int]) -> SelfStressBasis:
+    """Find a local self-stress basis of ``A`` (ndof x ncol, SI).
+
+    Parameters
+    ----------
+    column_nodes : joints (indices) each column acts on.
+    dof_node : joint index of each row.
+    node_neighbours : joints joined to each joint by a member.
+    priority : order of preference to keep a column at the same joint (lower is kept first).
+    is_member : True for member basic forces, False for reactions.
+    start_nodes : joints to start the sweep from, in order (supported joints first).
+    """
+    ndof, ncol = A.shape
+    rs, cs = equilibrium_scaling(A, dofs, lref)
+    S = (sp.diags(rs) @ A @ sp.diags(cs)).tocsc()
+    S.sort_indices()
+    nnode = len(node_neighbours)
+    # 1. sweep order of the joints
+    order = np.full(nnode, -1)
+    k = 0
+    for s0 in [*start_nodes, *range(nnode)]:
+        if order[s0] >= 0:
+            continue
+        order[s0] = k
+        k += 1
+        queue = deque([s0])
+        while queue:
+            n = queue.popleft()
+            for m in node_neighbours[n]:
+                if order[m] < 0:
+                    order[m] = k
+                    k += 1
+                    queue.append(m)
+    col_time = np.array([max((order[n] for n in nodes), default=0) for nodes in column_nodes])
+    col_order = np.lexsort((priority, col_time))
+    indptr, indices, data = S.indptr, S.indices, S.data
+    touched = np.zeros(ndof, dtype=bool)
+    done = np.zeros(ncol, dtype=bool)
+    kept = np.zeros(ncol, dtype=bool)
+    node_cols: list[list[int]] = [[] for _ in range(nnode)]  # processed columns per joint
+    st_rows: list[np.ndarray] = []
+    st_cols: list[np.ndarray] = []
+    st_vals: list[np.ndarray] = []
+    closing: list[int] = []
+    member_only: list[bool] = []
+
+    def entries(j: int) -> tuple[np.ndarray, np.ndarray]:
+        return indices[indptr[j]:indptr[j + 1]], data[indptr[j]:indptr[j + 1]]
+
+    def finish(j: int) -> None:
+        done[j] = True
+        rows, _ = entries(j)
+        touched[rows] = True
+        for n in column_nodes[j]:
+            node_cols[n].append(j)
+
+    def local_state(j: int):
+        """Earlier columns within growing neighbourhoods of column j that reproduce it."""
+        rows_j, vals_j = entries(j)
+        now = col_time[j]
+        ball = set(column_nodes[j])
+        frontier = list(ball)
+        for _ in range(_MAX_RADIUS):
+            nxt = []
+            for n in frontier:
+                for m in node_neighbours[n]:
+                    if m not in ball and order[m] <= now:
+                        ball.add(m)
+                        nxt.append(m)
+            frontier = nxt
+            cols = np.array(sorted({c for n in ball for c in node_cols[n]
+                                    if all(q in ball for q in column_nodes[c])}), dtype=int)
+            if not cols.size:
+                continue
+            starts, lens = indptr[cols], indptr[cols + 1] - indptr[cols]
+            offsets = np.repeat(starts - np.cumsum(lens) + lens, lens) + np.arange(lens.sum())
+            rr, vv = indices[offsets], data[offsets]
+            row_set = np.union1d(rr, rows_j)
+            M = np.zeros((len(row_set), len(cols)))
+            M[np.searchsorted(row_set, rr), np.repeat(np.arange(len(cols)), lens)] = vv
+            b = np.zeros(len(row_set))
+            b[np.searchsorted(row_set, rows_j)] = vals_j
+            x, *_ = np.linalg.lstsq(M, -b, rcond=1e-10)
+            if np.linalg.norm(M @ x + b) <= _RANK_TOL * 10:
+                return np.array(cols), x
+            if not frontier:
+                break
+        return None
+
+    def add_state(j: int, cols: np.ndarray, x: np.ndarray) -> None:
+        # scaled null vector y (y_j = 1) -> physical s = cs * y, then s_j = 1
+        y_cols = np.append(cols, j)
+        y = np.append(x, 1.0)
+        s = cs[y_cols] * y / cs[j]
+        keep = np.abs(s) > _DROP * np.max(np.abs(s))
+        st_rows.append(y_cols[keep])
+        st_cols.append(np.full(int(keep.sum()), len(closing)))
+        st_vals.append(s[keep])
+        closing.append(j)
+        member_only.append(bool(np.all(is_member[y_cols[keep]])))
+
+    # 2.-4. the sweep, one joint's columns at a time
+    pos = 0
+    while pos < ncol:
+        end = pos
+        t = col_time[col_order[pos]]
+        while end < ncol and col_time[col_order[end]] == t:
+            end += 1
+        group = [int(j) for j in col_order[pos:end]]
+        pos = end
+        # columns independent through directions no earlier column reaches
+        new_rows = sorted({int(r) for j in group for r in entries(j)[0] if not touched[r]})
+        rest = []
+        if new_rows:
+            where = {r: i for i, r in enumerate(new_rows)}
+            Q = np.zeros((len(new_rows), 0))
+            for j in group:
+                rr, vv = entries(j)
+                v = np.zeros(len(new_rows))
+                for r, val in zip(rr, vv, strict=True):
+                    if r in where:
+                        v[where[int(r)]] = val
+                res = v - Q @ (Q.T @ v)
+                nr = np.linalg.norm(res)
+                if nr > _GOOD_PIVOT:
+                    Q = np.column_stack([Q, res / nr])
+                    kept[j] = True
+                    finish(j)
+                else:
+                    rest.append(j)
+        else:
+            rest = group
+        for j in rest:
+            found = local_state(j)
+            if found is None:
+                kept[j] = True
+            else:
+                add_state(j, *found)
+            finish(j)
+
+    # 5. long-range states among the kept columns
+    K = np.flatnonzero(kept)
+    long_range = 0
+    g = len(K) - ndof
+    if g > 0:
+        rng = np.random.default_rng(20261202)
+        SK = S[:, K]
+        R = sp.csc_matrix(rng.standard_normal((g, len(K))))
+        border = sp.vstack([SK, R]).tocsc()
+        try:
+            from scipy.sparse.linalg import splu
+
+            lu = splu(border)
+            rhs = np.zeros((ndof + g, g))
+            rhs[ndof:] = np.eye(g)
+            X = lu.solve(rhs)  # (len(K), g): a basis of the null space of S[:, K]
+        except RuntimeError:
+            X = None
+        if X is not None and np.all(np.isfinite(X)):
+            # pivots: latest processed columns first, threshold 0.1 of the column's largest
+            rank_in_sweep = np.empty(ncol, dtype=int)
+            rank_in_sweep[col_order] = np.arange(ncol)
+            candidates = np.argsort(-rank_in_sweep[K], kind="stable")
+            W = X.copy()
+            pivots: list[int] = []
+            for i in range(g):
+                col = W[:, i]
+                big = np.max(np.abs(col))
+                pick = next(c for c in candidates
+                            if c not in pivots and abs(col[c]) >= 0.1 * big)
+                pivots.append(int(pick))
+                W[:, i] = col / col[pick]
+                for q in range(i + 1, g):
+                    W[:, q] -= W[:, i] * W[pick, q]
+            # make it the identity on the pivots (back substitution)
+            P = W[pivots, :]
+            W = W @ np.linalg.inv(P)
+            for i, pk in enumerate(pivots):
+                y = W[:, i]
+                s = cs[K] * y / cs[K[pk]]
+                keep = np.abs(s) > _DROP * np.max(np.abs(s))
+                st_rows.append(K[keep])
+                st_cols.append(np.full(int(keep.sum()), len(closing)))
+                st_vals.append(s[keep])
+                closing.append(int(K[pk]))
+                member_only.append(bool(np.all(is_member[K[keep]])))
+            kept[K[pivots]] = False
+            long_range = g
+    released = np.flatnonzero(kept)
+    stable, motion = True, ()
+    if len(released) != ndof:
+        stable = False
+    else:
+        stable, motion = _released_is_stable(S[:, released])
+    n = len(closing)
+    states = sp.csc_matrix(
+        (np.concatenate(st_vals) if st_vals else np.zeros(0),
+         (np.concatenate(st_rows) if st_rows else np.zeros(0, int),
+          np.concatenate(st_cols) if st_cols else np.zeros(0, int))), shape=(ncol, n))
+    return SelfStressBasis(states, np.array(closing, dtype=int), released,
+                           int(sum(member_only)), long_range, stable, motion)
+
+
+def _released_is_stable(S0: sp.csc_matrix) -> tuple[bool, tuple[int, ...]]:
+    """Sparse LU of the scaled released structure; a pivot below the rank tolerance means a
+    mechanism, moving the rows of those pivots."""
+    from scipy.sparse.linalg import splu
+
+    try:
+        lu = splu(S0.tocsc())
+    except RuntimeError:
+        return False, ()
+    d = np.abs(lu.U.diagonal())
+    if d.size == 0:
+        return True, ()
+    small = np.flatnonzero(d <= _RANK_TOL * max(1.0, float(d.max())))
+    if small.size == 0:
+        return True, ()
+    rows = np.argsort(lu.perm_r)[small]
+    return False, tuple(int(r) for r in rows)

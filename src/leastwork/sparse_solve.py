@@ -1,0 +1,223 @@
+"""The force method on a local self-stress basis, sparse throughout (large structures).
+
+Same equations as :mod:`leastwork.solve`, with the unit redundant states replaced by the
+local self-stress states of :mod:`leastwork.selfstress` (columns of N, each closing the
+cut of one column): s = s0 + N X, where X are the state amplitudes,
+
+    delta = N' F N,   delta X = -N' (F s0 + e - c)
+
+(Menabrea's least-work theorem with the settlement work); the redundant force at each
+closing column is s there. s0 comes from one sparse LU of the released structure (the
+columns left after removing every closing column); nodal displacements from the transposed
+factorisation, u = -A0^-T (F s + e - c) on the released columns (unit-load method).
+
+No matrix of a size that grows with the structure is ever dense.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+
+import numpy as np
+import scipy.sparse as sp
+from scipy.sparse.linalg import LinearOperator, onenormest, splu
+
+from .energy import flexibility_terms
+from .errors import CaseError, MechanismError
+from .model import Structure
+from .selfstress import SelfStressBasis, local_self_stress
+from .solution import Solution
+from .solve import cross_check, solve_cases
+from .topology import Topology, _keep_order, check_stable, sparse_topology
+
+__all__ = ["solve_local", "SparseReleased", "SparseFlexibilitySolver", "sparse_flexibility",
+           "find_basis"]
+
+
+def sparse_flexibility(st: Structure, topo: Topology) -> sp.csr_matrix:
+    """Flexibility F of all columns (ncol x ncol, SI), block diagonal, sparse."""
+    rows, cols, vals = [], [], []
+    for t in flexibility_terms(st, topo):
+        c = np.asarray(t.columns)
+        rows.append(np.repeat(c, len(c)))
+        cols.append(np.tile(c, len(c)))
+        vals.append(t.block.ravel())
+    n = len(topo.columns)
+    if not rows:
+        return sp.csr_matrix((n, n))
+    return sp.csr_matrix((np.concatenate(vals), (np.concatenate(rows), np.concatenate(cols))),
+                         shape=(n, n))
+
+
+def find_basis(st: Structure, topo: Topology) -> SelfStressBasis:
+    """The local self-stress basis of the structure (see :mod:`leastwork.selfstress`)."""
+    node_ids = {n: i for i, n in enumerate(st.nodes)}
+    neighbours: list[list[int]] = [[] for _ in node_ids]
+    for m in st.members.values():
+        a, b = node_ids[m.start], node_ids[m.end]
+        neighbours[a].append(b)
+        neighbours[b].append(a)
+    column_nodes = []
+    for c in topo.columns:
+        if c.kind == "reaction":
+            column_nodes.append((node_ids[c.owner],))
+        else:
+            m = st.members[c.owner]
+            column_nodes.append((node_ids[m.start], node_ids[m.end]))
+    dof_node = np.array([node_ids[d.rsplit(".", 1)[0]] for d in topo.dofs], dtype=int)
+    # reactions kept first at each joint, so that member forces close the states: the
+    # released structure then rests on every support (short load paths, well conditioned;
+    # keeping member forces first turns a continuous beam into one long cantilever)
+    order = _keep_order(st, topo)
+    order = [j for j in order if topo.columns[j].kind == "reaction"] + [
+        j for j in order if topo.columns[j].kind != "reaction"]
+    priority = np.empty(len(topo.columns), dtype=int)
+    priority[order] = np.arange(len(topo.columns))
+    is_member = np.array([c.kind != "reaction" for c in topo.columns])
+    lengths = [st.length(m) for m in st.members]
+    lref = float(np.mean(lengths)) if lengths else 1.0
+    starts = [node_ids[s.node] for s in st.supports.values()]
+    return local_self_stress(topo.A_sparse, topo.dofs, column_nodes, dof_node, neighbours,
+                             priority, is_member, lref, starts)
+
+
+class SparseReleased:
+    """The released structure (square, statically determinate), sparse LU factorised once,
+    row- and column-scaled as for the rank decisions."""
+
+    def __init__(self, topo: Topology, keep: np.ndarray):
+        from .selfstress import equilibrium_scaling
+
+        self.topo = topo
+        self.keep = np.asarray(keep)
+        self.ncol = len(topo.columns)
+        A0 = topo.A_sparse[:, self.keep]
+        lref = 1.0
+        self.rs, self.cs = equilibrium_scaling(A0, topo.dofs, lref)
+        S0 = (sp.diags(self.rs) @ A0 @ sp.diags(self.cs)).tocsc()
+        self._lu = splu(S0)
+        self.nonzeros = int(self._lu.L.nnz + self._lu.U.nnz)
+
+    def forces(self, rhs: np.ndarray) -> np.ndarray:
+        """Basic forces and reactions (ncol, k) in equilibrium with nodal loads ``rhs``
+        (ndof,) or (ndof, k); closing columns carry zero."""
+        rhs = np.asarray(rhs, dtype=float)
+        one = rhs.ndim == 1
+        rhs2 = rhs[:, None] if one else rhs
+        y = self._lu.solve(-(self.rs[:, None] * rhs2))
+        s = np.zeros((self.ncol, rhs2.shape[1]))
+        s[self.keep] = self.cs[:, None] * y
+        return s
+
+    def displacements(self, compatible: np.ndarray) -> np.ndarray:
+        """Nodal displacements (ndof,) for member deformations less settlements
+        ``compatible`` (ncol,): u = -A0^-T compatible[keep] (unit-load method)."""
+        y = self._lu.solve(self.cs * compatible[self.keep], trans="T")
+        return -self.rs * y
+
+
+class SparseFlexibilitySolver:
+    """Solve delta X = rhs with the sparse flexibility matrix, Jacobi-scaled and factorised
+    once (sparse LU, symmetric ordering); a state with no flexibility is explained and taken
+    as zero."""
+
+    def __init__(self, delta: sp.csr_matrix, names: list[str], source: str):
+        self.warnings: list[str] = []
+        self.source = source
+        n = delta.shape[0]
+        self.n = n
+        self.cond = 1.0
+        self.nonzeros = 0
+        if n == 0:
+            return
+        diag = delta.diagonal().copy()
+        scale_ref = max(float(np.max(np.abs(diag))), 1e-300)
+        zero = diag <= 1e-12 * scale_ref
+        for i in np.flatnonzero(zero):
+            self.warnings.append(
+                f"the self-stress state closing {names[i]} has no flexibility (it strains only "
+                "axially rigid members or rigid parts); its amplitude is not determined by "
+                "compatibility and is taken as zero")
+        self.zero = zero
+        self.D = 1.0 / np.sqrt(np.where(zero, 1.0, diag))
+        Dm = sp.diags(self.D)
+        S = (Dm @ delta @ Dm).tocsc()
+        if zero.any():
+            Z = sp.diags(zero.astype(float))
+            keep = sp.diags((~zero).astype(float))
+            S = (keep @ S @ keep + Z).tocsc()
+        try:
+            self._lu = splu(S, permc_spec="MMD_AT_PLUS_A", diag_pivot_thresh=0.0,
+                            options={"SymmetricMode": True})
+        except RuntimeError as exc:
+            raise CaseError(
+                "the flexibility matrix of the local self-stress states is singular (some "
+                "combination of states strains no flexible part); solve with "
+                "--basis released for the minimum-norm treatment", source=source) from exc
+        self.nonzeros = int(self._lu.L.nnz + self._lu.U.nnz)
+        inv = LinearOperator(S.shape, matvec=self._lu.solve, rmatvec=self._lu.solve,
+                             dtype=float)
+        try:
+            self.cond = float(onenormest(S) * onenormest(inv))
+        except Exception:  # noqa: BLE001 - an estimate only; never fatal
+            self.cond = float("nan")
+
+    def solve(self, rhs: np.ndarray) -> np.ndarray:
+        """X for one right-hand side (n,) or several (n, k)."""
+        rhs = np.asarray(rhs, dtype=float)
+        if self.n == 0:
+            return np.zeros(rhs.shape)
+        D = self.D if rhs.ndim == 1 else self.D[:, None]
+        b = D * rhs
+        if self.zero.any():
+            b[self.zero] = 0.0
+        return D * self._lu.solve(b)
+
+
+def _unstable(st: Structure, topo: Topology, basis: SelfStressBasis):
+    """MechanismError naming what moves (dense singular values when small enough)."""
+    if len(topo.dofs) <= 3000:
+        from .topology import build_topology
+
+        check_stable(st, build_topology(st))
+    moving = [topo.dofs[r] for r in basis.motion][:12]
+    raise MechanismError(
+        f"{st.source}: the structure is unstable (a mechanism): the released structure found "
+        "by the self-stress sweep is singular. Add a support, a member or remove a hinge "
+        "where it moves.", moving)
+
+
+def solve_local(st: Structure, *, verify: bool | None = None, progress=None) -> Solution:
+    """Solve by the force method on a local self-stress basis (see module docstring)."""
+    say = progress or (lambda phase: None)
+    say("equilibrium matrix")
+    topo = sparse_topology(st)
+    say("self-stress states")
+    basis = find_basis(st, topo)
+    if not basis.stable:
+        _unstable(st, topo, basis)
+    n = len(basis.closing)
+    topo = dataclasses.replace(topo, rank=len(topo.dofs), degree=n, internal=basis.internal,
+                               external=n - basis.internal, stable=True)
+    say("released structure")
+    released = SparseReleased(topo, basis.released)
+    say("flexibility")
+    F = sparse_flexibility(st, topo)
+    N = basis.states.tocsc()
+    delta = (N.T @ F @ N).tocsr()
+    delta = ((delta + delta.T) * 0.5).tocsr()
+    names = [topo.columns[j].name for j in basis.closing]
+    solver = SparseFlexibilitySolver(delta, names, st.source)
+    notes: list[str] = []
+    if solver.cond > 1e8:
+        notes.append(f"the flexibility matrix is ill-conditioned (condition number estimate "
+                     f"{solver.cond:.2g}): digits of the redundants may be lost; check the "
+                     "model for near-mechanisms or members of wildly different stiffness")
+    say("load cases")
+    red = [int(j) for j in basis.closing]
+    results = solve_cases(st, topo, red, N, F, released, solver, local=True)
+    notes.extend(cross_check(st, results, solver.cond, verify, progress))
+    return Solution(st, topo, red, False, N, F, delta, results,
+                    warnings=tuple(solver.warnings + notes), released=released,
+                    condition=solver.cond, flexibility_solver=solver, basis="local",
+                    long_range_states=basis.long_range)
