@@ -25,6 +25,7 @@ Results must be checked by a qualified engineer against the governing local code
 from .caseio import load_case, loads_case
 from .errors import CaseError, LeastworkError, MechanismError
 from .model import Structure
+from .reanalysis import reanalyse
 from .solution import Solution
 from .solve import solve
 
@@ -32,6 +33,7 @@ __all__ = [
     "load_case",
     "loads_case",
     "solve",
+    "reanalyse",
     "Structure",
     "Solution",
     "CaseError",

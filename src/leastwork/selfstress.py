@@ -135,10 +135,10 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
         for n in column_nodes[j]:
             node_cols[n].append(j)
 
-    def local_state(j: int):
-        """Earlier columns within growing neighbourhoods of column j that reproduce it."""
+    def local_state(j: int, now: int):
+        """Earlier columns within growing neighbourhoods of column j (joints swept up to
+        ``now``) that reproduce it: (columns, coefficients) or None."""
         rows_j, vals_j = entries(j)
-        now = col_time[j]
         ball = set(column_nodes[j])
         frontier = list(ball)
         for _ in range(_MAX_RADIUS):
@@ -153,19 +153,33 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
                                     if all(q in ball for q in column_nodes[c])}), dtype=int)
             if not cols.size:
                 continue
-            starts, lens = indptr[cols], indptr[cols + 1] - indptr[cols]
-            offsets = np.repeat(starts - np.cumsum(lens) + lens, lens) + np.arange(lens.sum())
-            rr, vv = indices[offsets], data[offsets]
-            row_set = np.union1d(rr, rows_j)
-            M = np.zeros((len(row_set), len(cols)))
-            M[np.searchsorted(row_set, rr), np.repeat(np.arange(len(cols)), lens)] = vv
-            b = np.zeros(len(row_set))
-            b[np.searchsorted(row_set, rows_j)] = vals_j
-            x, *_ = np.linalg.lstsq(M, -b, rcond=1e-10)
-            if np.linalg.norm(M @ x + b) <= _RANK_TOL * 10:
-                return np.array(cols), x
+            # kept columns alone first: they are independent, so a state made of them is
+            # unique and mixes in no other self-stress; then with earlier closing columns
+            # too (least-norm), which some states need (a third support of a beam)
+            for use in (cols[kept[cols]], cols):
+                found = _reproduce(use, rows_j, vals_j)
+                if found is not None:
+                    return found
             if not frontier:
                 break
+        return None
+
+    def _reproduce(cols: np.ndarray, rows_j: np.ndarray, vals_j: np.ndarray):
+        """Least-squares combination x of columns ``cols`` with S[:, cols] x = -S[:, j];
+        (cols, x) when it reproduces column j to the rank tolerance, else None."""
+        if not cols.size:
+            return None
+        starts, lens = indptr[cols], indptr[cols + 1] - indptr[cols]
+        offsets = np.repeat(starts - np.cumsum(lens) + lens, lens) + np.arange(lens.sum())
+        rr, vv = indices[offsets], data[offsets]
+        row_set = np.union1d(rr, rows_j)
+        M = np.zeros((len(row_set), len(cols)))
+        M[np.searchsorted(row_set, rr), np.repeat(np.arange(len(cols)), lens)] = vv
+        b = np.zeros(len(row_set))
+        b[np.searchsorted(row_set, rows_j)] = vals_j
+        x, *_ = np.linalg.lstsq(M, -b, rcond=1e-10)
+        if np.linalg.norm(M @ x + b) <= _RANK_TOL * 10:
+            return cols, x
         return None
 
     def add_state(j: int, cols: np.ndarray, x: np.ndarray) -> None:
@@ -212,7 +226,7 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
         else:
             rest = group
         for j in rest:
-            found = local_state(j)
+            found = local_state(j, t)
             if found is None:
                 kept[j] = True
             else:

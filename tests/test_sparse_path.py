@@ -1,0 +1,287 @@
+"""The sparse force method on a local self-stress basis (leastwork.selfstress,
+leastwork.sparse_solve) and reanalysis (leastwork.reanalysis).
+
+Checks are invariants and agreement of independent methods:
+
+* the local basis and the released-structure basis (the small path) give the same forces,
+  reactions and displacements on every bundled case;
+* on generated mid-size structures (a few thousand members: braced grid, storey frame,
+  beam with king-post ties) the local basis agrees with the direct stiffness method
+  (leastwork.stiffness, an independent sparse solver) to 1e-8 of the largest force;
+* every state is a self-stress (A N = 0 to round-off), the states are independent (their
+  closing rows form a non-singular matrix), the flexibility N'FN is symmetric
+  (Maxwell-Betti) and positive definite;
+* reanalysis with new sections, springs and loads equals a fresh solve.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import json
+import subprocess
+import sys
+from pathlib import Path
+
+import numpy as np
+import pytest
+from scipy.sparse.linalg import splu
+
+import leastwork
+from leastwork import CaseError, MechanismError, reanalyse
+from leastwork.stiffness import solve_stiffness
+
+ROOT = Path(__file__).resolve().parents[1]
+sys.path.insert(0, str(ROOT / "benchmarks"))
+
+from generators import braced_grid, braced_truss, storey_frame, structure  # noqa: E402
+
+CASES = sorted((ROOT / "cases").glob("*.toml"))
+
+
+def _kingpost_beam(spans: int, span: float = 8.0, sag: float = 1.2) -> str:
+    """A continuous beam over ``spans`` spans, each trussed underneath by a king post (a
+    bar down from mid-span) and two ties from the span's ends to the post's foot; pinned at
+    the first support, rollers on the others, a spring under the last one; 15 kN/m on the
+    beam, 4 kN sideways at the first mid-span. Beam, bars and a spring: a mixed structure."""
+    nodes, beams, bars, sup, loads = [], [], [], [], []
+    for i in range(spans + 1):
+        nodes.append(f"S{i} = [{span * i:g}, 0]")
+    for i in range(spans):
+        nodes.append(f"M{i} = [{span * i + span / 2:g}, 0]")
+        nodes.append(f"K{i} = [{span * i + span / 2:g}, {-sag:g}]")
+        beams.append(f'A{i} = {{ nodes = ["S{i}", "M{i}"], EI = "3.0e4 kN*m^2", '
+                     'EA = "2.0e6 kN" }')
+        beams.append(f'Z{i} = {{ nodes = ["M{i}", "S{i + 1}"], EI = "3.0e4 kN*m^2", '
+                     'EA = "2.0e6 kN" }')
+        bars.append(f'P{i} = {{ nodes = ["M{i}", "K{i}"], EA = "4.0e5 kN" }}')
+        bars.append(f'T{i} = {{ nodes = ["S{i}", "K{i}"], EA = "3.0e5 kN" }}')
+        bars.append(f'U{i} = {{ nodes = ["K{i}", "S{i + 1}"], EA = "3.0e5 kN" }}')
+        loads.append(f'[[loads]]\nmember = "A{i}"\nwy = "-15 kN/m"\n')
+        loads.append(f'[[loads]]\nmember = "Z{i}"\nwy = "-15 kN/m"\n')
+    sup.append('S0 = "pinned"')
+    sup += [f'S{i} = "roller"' for i in range(1, spans)]
+    sup.append(f'S{spans} = {{ springs = {{ y = "5e4 kN/m" }} }}')
+    loads.append('[[loads]]\nnode = "M0"\nfx = "4 kN"\n')
+    return ('[structure]\nname = "trussed runway beam"\nunits = { force = "kN", length = "m" }\n'
+            "[nodes]\n" + "\n".join(nodes) + "\n[beams]\n" + "\n".join(beams)
+            + "\n[bars]\n" + "\n".join(bars) + "\n[supports]\n" + "\n".join(sup) + "\n"
+            + "\n".join(loads))
+
+
+def _unnamed(st):
+    """The structure with its own choice of redundants dropped (the local basis picks)."""
+    return dataclasses.replace(st, redundants=None)
+
+
+def _largest_force(res) -> float:
+    return max(res.equilibrium_scale, 1.0)
+
+
+def _end_force_difference(st, a, b) -> float:
+    """Largest difference of member end forces and reactions between two case results,
+    relative to the largest force (moments divided by the longest member)."""
+    lref = max(st.length(m) for m in st.members)
+    worst = 0.0
+    for mid, ma in a.members.items():
+        mb = b.members[mid]
+        for k, (x, y) in enumerate(zip(ma.start + ma.end, mb.start + mb.end, strict=True)):
+            worst = max(worst, abs(x - y) / (lref if k % 3 == 2 else 1.0))
+    for node, comps in a.reactions.items():
+        for d, x in comps.items():
+            worst = max(worst, abs(x - b.reactions[node][d]) / (lref if d == "rz" else 1.0))
+    return worst / _largest_force(a)
+
+
+def _stiffness_difference(st, res) -> float:
+    other = solve_stiffness(st, res.name)
+    lref = max(st.length(m) for m in st.members)
+    worst = 0.0
+    for mid, mr in res.members.items():
+        ts, te = other.end_forces[mid]
+        for k, (x, y) in enumerate(zip(mr.start + mr.end, ts + te, strict=True)):
+            worst = max(worst, abs(x - y) / (lref if k % 3 == 2 else 1.0))
+    for node, comps in res.reactions.items():
+        for d, x in comps.items():
+            worst = max(worst, abs(x - other.reactions[node].get(d, 0.0))
+                        / (lref if d == "rz" else 1.0))
+    return worst / _largest_force(res)
+
+
+# ------------------------------------------------------------------ small path agreement
+@pytest.mark.parametrize("path", CASES, ids=lambda p: p.stem)
+def test_local_basis_matches_released_basis_on_bundled_cases(path):
+    st = _unnamed(leastwork.load_case(path))
+    small = leastwork.solve(st, basis="released", verify=False)
+    local = leastwork.solve(st, basis="local", verify=False)
+    assert local.basis == "local" and small.basis == "released"
+    assert local.topology.degree == small.topology.degree
+    assert local.topology.internal == small.topology.internal
+    for name, a in small.cases.items():
+        b = local.cases[name]
+        assert _end_force_difference(st, a, b) < 1e-9, name
+        umax = max(float(np.max(np.abs(a.nodal_displacements))), 1e-300)
+        assert np.max(np.abs(a.nodal_displacements - b.nodal_displacements)) < 1e-9 * umax
+        for t, v in a.displacements.items():
+            assert b.displacements[t] == pytest.approx(v, rel=1e-8, abs=1e-12 * umax)
+        # each redundant reported is the final force at the column its state closes
+        assert np.allclose(b.redundants, b.s[local.redundant_columns], rtol=0, atol=0)
+        assert b.equilibrium_ok
+
+
+# ------------------------------------------------------------------ mid-size vs stiffness
+MID_SIZE = {
+    "braced grid 30x20": lambda: braced_grid(30, 20),  # 2450 bars
+    "storey frame 20x20": lambda: storey_frame(20, 20),  # 820 beams, 1260 redundants
+    "king-post beam 300 spans": lambda: _kingpost_beam(300),  # 1500 members
+}
+
+
+@pytest.fixture(scope="module", params=list(MID_SIZE))
+def mid_size(request):
+    st = structure(MID_SIZE[request.param]())
+    return st, leastwork.solve(st, verify=False)
+
+
+def test_mid_size_takes_the_local_basis_and_agrees_with_stiffness(mid_size):
+    st, sol = mid_size
+    assert sol.basis == "local"  # automatic: above LOCAL_BASIS_MIN_COLUMNS
+    for res in sol.cases.values():
+        assert res.equilibrium_ok
+        assert _stiffness_difference(st, res) < 1e-8
+
+
+def test_states_are_independent_self_stresses(mid_size):
+    st, sol = mid_size
+    topo = sol.topology
+    A, N = topo.A_sparse, sol.B.tocsc()
+    # A N = 0 to round-off, column by column (scale: |A| |N|)
+    resid = abs(A @ N)
+    scale = abs(A) @ abs(N)
+    assert (resid.max() if resid.nnz else 0.0) <= 1e-12 * max(scale.max(), 1e-300)
+    # independent: the rows of the closing columns form a non-singular (triangular) matrix
+    T = N[sol.redundant_columns, :].tocsc()
+    assert np.allclose(T.diagonal(), 1.0)
+    assert T.shape[0] == topo.degree
+    pivots = np.abs(splu(T).U.diagonal())
+    assert pivots.min() > 1e-8 * pivots.max()
+
+
+def test_flexibility_is_symmetric_positive_definite(mid_size):
+    st, sol = mid_size
+    N, F = sol.B.tocsc(), sol.F
+    raw = (N.T @ F @ N).toarray()
+    assert np.max(np.abs(raw - raw.T)) <= 1e-12 * np.max(np.abs(raw))  # Maxwell-Betti
+    d = np.sqrt(np.diag(raw))
+    np.linalg.cholesky(raw / np.outer(d, d))  # raises unless positive definite
+
+
+def test_states_stay_local(mid_size):
+    """The point of the local basis: each state touches a few members (a few panels at
+    most: docs/performance.md), so the flexibility matrix is as sparse as the structure (a
+    released-structure basis is nearly dense)."""
+    st, sol = mid_size
+    info = sol.to_dict()["basis"]
+    assert info["kind"] == "local" and info["long_range_states"] == 0
+    assert info["members_per_state"]["max"] <= 24
+    n = sol.topology.degree
+    assert sol.flexibility.nnz <= 40 * n
+
+
+# ------------------------------------------------------------------ long-range states
+def test_long_range_state_of_a_truss_pinned_at_both_ends():
+    """Pinned at both far ends, the truss gains one external redundant whose self-stress
+    runs along the whole chord: found by the global step, results as on the small path."""
+    text = braced_truss(60).replace('L60 = "roller"', 'L60 = "pinned"')
+    st = structure(text)
+    local = leastwork.solve(st, basis="local", verify=False)
+    small = leastwork.solve(st, basis="released", verify=False)
+    assert local.topology.degree == small.topology.degree == 61
+    assert local.long_range_states >= 1
+    for name, a in small.cases.items():
+        assert _end_force_difference(st, a, local.cases[name]) < 1e-9
+
+
+def test_unstable_structure_on_the_local_path_is_a_mechanism():
+    text = braced_truss(40).replace('L0 = "pinned"', 'L0 = "roller"')  # free to slide
+    st = structure(text)
+    with pytest.raises(MechanismError):
+        leastwork.solve(st, basis="local", verify=False)
+
+
+def test_named_redundants_need_the_released_basis():
+    st = leastwork.load_case(ROOT / "cases" / "floor-beam-3span.toml")
+    with pytest.raises(CaseError, match="local self-stress basis"):
+        leastwork.solve(st, basis="local")
+    assert leastwork.solve(st).basis == "released"  # auto keeps the user's redundants
+
+
+# ------------------------------------------------------------------ JSON of a local basis
+def test_json_compatibility_equations_hold_with_amplitudes():
+    st = structure(storey_frame(3, 2))
+    sol = leastwork.solve(st, basis="local")
+    d = json.loads(json.dumps(sol.to_dict()))
+    assert d["basis"]["kind"] == "local" and d["basis"]["states"] == len(d["redundants"])
+    for cj in d["cases"].values():
+        flex = cj["flexibility"]
+        n = flex["size"]
+        D = np.zeros((n, n))
+        for i, j, v in zip(flex["rows"], flex["columns"], flex["values"], strict=True):
+            D[i, j] = D[j, i] = v
+        X = np.array(cj["amplitudes"])
+        lhs = D @ X + np.array(cj["load_terms"])
+        imposed = np.array(cj["imposed"])
+        scale = np.max(np.abs(D)) * np.max(np.abs(X))
+        assert np.max(np.abs(lhs - imposed)) <= 1e-9 * scale
+
+
+def test_audit_trail_names_what_each_state_closes():
+    st = structure(storey_frame(1, 2))
+    sol = leastwork.solve(st, basis="local")
+    from leastwork.audit import audit_sheet
+
+    text = str([b for step in audit_sheet(sol).steps for b in step.blocks])
+    for name in sol.redundant_names:
+        assert name in text
+    assert "closes the cut of" in text
+
+
+# ------------------------------------------------------------------ reanalysis
+def _resized(text: str) -> str:
+    return (text.replace('EI = "3.0e4 kN*m^2"', 'EI = "4.5e4 kN*m^2"')
+            .replace('EA = "3.0e5 kN"', 'EA = "2.2e5 kN"')
+            .replace('y = "5e4 kN/m"', 'y = "2e4 kN/m"')
+            .replace('wy = "-15 kN/m"', 'wy = "-11 kN/m"'))
+
+
+@pytest.mark.parametrize("basis", ["local", "released"])
+def test_reanalysis_with_new_sections_equals_a_fresh_solve(basis):
+    text = _kingpost_beam(12)
+    first = leastwork.solve(structure(text), basis=basis, verify=False)
+    st2 = structure(_resized(text))
+    again = reanalyse(first, st2, verify=False)
+    fresh = leastwork.solve(st2, basis=basis, verify=False)
+    assert again.B is first.B and again.released is first.released  # states reused
+    for name, a in fresh.cases.items():
+        assert _end_force_difference(st2, a, again.cases[name]) < 1e-10
+        assert np.allclose(again.cases[name].nodal_displacements, a.nodal_displacements,
+                           rtol=0, atol=1e-10 * np.max(np.abs(a.nodal_displacements)))
+
+
+def test_reanalysis_refuses_another_layout():
+    first = leastwork.solve(structure(_kingpost_beam(4)), verify=False)
+    moved = structure(_kingpost_beam(4, sag=1.5))
+    with pytest.raises(CaseError, match="joint K0 moved"):
+        reanalyse(first, moved)
+
+
+# ------------------------------------------------------------------ command line
+def test_cli_solves_a_large_case_on_the_local_basis(tmp_path):
+    case = tmp_path / "grid.toml"
+    case.write_text(braced_grid(30, 12))
+    run = subprocess.run([sys.executable, "-m", "leastwork", "solve", str(case), "--json"],
+                         capture_output=True, text=True, timeout=120)
+    assert run.returncode == 0, run.stderr
+    d = json.loads(run.stdout)
+    assert d["basis"]["kind"] == "local"
+    assert d["indeterminacy"]["degree"] == 12 * (2 * 30 - 1)  # m + r - 2j (common practice)
+    assert all(c["checks"]["equilibrium_ok"] for c in d["cases"].values())
