@@ -41,6 +41,7 @@ from dataclasses import dataclass
 
 import numpy as np
 import scipy.sparse as sp
+from scipy.linalg.lapack import dgelsy
 
 __all__ = ["SelfStressBasis", "local_self_stress", "equilibrium_scaling"]
 
@@ -139,30 +140,47 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
         """Earlier columns within growing neighbourhoods of column j (joints swept up to
         ``now``) that reproduce it: (columns, coefficients) or None."""
         rows_j, vals_j = entries(j)
-        ball = set(column_nodes[j])
-        frontier = list(ball)
-        for _ in range(_MAX_RADIUS):
-            nxt = []
-            for n in frontier:
-                for m in node_neighbours[n]:
-                    if m not in ball and order[m] <= now:
-                        ball.add(m)
-                        nxt.append(m)
-            frontier = nxt
+        tried: set[int] = set()
+        for ball in _balls(j, now):
             cols = np.array(sorted({c for n in ball for c in node_cols[n]
                                     if all(q in ball for q in column_nodes[c])}), dtype=int)
-            if not cols.size:
+            if not cols.size or cols.size in tried:
                 continue
+            tried.add(cols.size)  # the same columns again (a ball that did not grow)
             # kept columns alone first: they are independent, so a state made of them is
             # unique and mixes in no other self-stress; then with earlier closing columns
             # too (least-norm), which some states need (a third support of a beam)
-            for use in (cols[kept[cols]], cols):
+            alone = cols[kept[cols]]
+            for use in ((alone, cols) if alone.size < cols.size else (cols,)):
                 found = _reproduce(use, rows_j, vals_j)
                 if found is not None:
                     return found
-            if not frontier:
-                break
         return None
+
+    def _balls(j: int, now: int):
+        """Growing sets of joints around column j (joints swept up to ``now``): first the
+        joints tied to at least two of the ball's joints, twice (a braced panel, a triangle
+        fan), then every neighbour, ``_MAX_RADIUS`` times (a rigid ring, two spans)."""
+        ball = set(column_nodes[j])
+        for _ in range(2):
+            near: dict[int, int] = {}
+            for n in ball:
+                for m in set(node_neighbours[n]):
+                    if m not in ball and order[m] <= now:
+                        near[m] = near.get(m, 0) + 1
+            tied = {m for m, k in near.items() if k >= 2}
+            if not tied:
+                break
+            ball = ball | tied
+            yield ball
+        ball = set(column_nodes[j])
+        for _ in range(_MAX_RADIUS):
+            grown = {m for n in ball for m in node_neighbours[n]
+                     if m not in ball and order[m] <= now}
+            if not grown:
+                return
+            ball = ball | grown
+            yield ball
 
     def _reproduce(cols: np.ndarray, rows_j: np.ndarray, vals_j: np.ndarray):
         """Least-squares combination x of columns ``cols`` with S[:, cols] x = -S[:, j];
@@ -177,7 +195,7 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
         M[np.searchsorted(row_set, rr), np.repeat(np.arange(len(cols)), lens)] = vv
         b = np.zeros(len(row_set))
         b[np.searchsorted(row_set, rows_j)] = vals_j
-        x, *_ = np.linalg.lstsq(M, -b, rcond=1e-10)
+        x = _least_norm(M, -b)
         if np.linalg.norm(M @ x + b) <= _RANK_TOL * 10:
             return cols, x
         return None
@@ -294,6 +312,19 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
           np.concatenate(st_cols) if st_cols else np.zeros(0, int))), shape=(ncol, n))
     return SelfStressBasis(states, np.array(closing, dtype=int), released,
                            int(sum(member_only)), long_range, stable, motion)
+
+
+def _least_norm(M: np.ndarray, b: np.ndarray) -> np.ndarray:
+    """Least-squares solution of least norm of M x = b (LAPACK dgelsy: complete orthogonal
+    factorisation with column pivoting, rank by ``rcond`` 1e-10), called directly: at the
+    sizes of a local state (tens of rows) the wrappers cost more than the algebra."""
+    m, n = M.shape
+    rhs = np.zeros((max(m, n), 1))
+    rhs[:m, 0] = b
+    _, x, _, _, info = dgelsy(M, rhs, np.zeros(n, dtype=np.int32), 1e-10, 64 * (m + n) + 1)
+    if info != 0:  # never seen; fall back to the SVD solver
+        return np.linalg.lstsq(M, b, rcond=1e-10)[0]
+    return x[:n, 0]
 
 
 def _released_is_stable(S0: sp.csc_matrix) -> tuple[bool, tuple[int, ...]]:
