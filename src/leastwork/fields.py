@@ -36,10 +36,24 @@ class Piecewise:
 
     def __call__(self, x, side: str = "right") -> np.ndarray:
         """Values at ``x``; at a break, ``side`` picks the piece to the right or left."""
+        if isinstance(x, float | int):
+            return self._at(float(x), side)
         x = np.asarray(x, dtype=float)
         k = np.searchsorted(self.breaks, x, side="right" if side == "right" else "left") - 1
         k = np.clip(k, 0, len(self.breaks) - 2)
         return P.polyval(x, self.coef[k].T, tensor=False)
+
+    def _at(self, x: float, side: str) -> np.float64:
+        """One value, in plain floats: the same Horner sums as ``P.polyval`` (so the same
+        result to the last bit), without array overhead."""
+        breaks = self.breaks
+        k = int(np.searchsorted(breaks, x, side="right" if side == "right" else "left")) - 1
+        k = min(max(k, 0), len(breaks) - 2)
+        row = self.coef[k].tolist()
+        acc = row[-1] + x * 0.0
+        for c in reversed(row[:-1]):
+            acc = c + acc * x
+        return np.float64(acc)
 
     def pieces(self):
         for k in range(len(self.breaks) - 1):
@@ -88,13 +102,6 @@ class ParticularFields:
     end_force: tuple[float, float]
 
 
-def _pad(c) -> np.ndarray:
-    c = np.atleast_1d(np.asarray(c, dtype=float))
-    out = np.zeros(_DEG + 1)
-    out[: min(len(c), _DEG + 1)] = c[: _DEG + 1]
-    return out
-
-
 def particular_fields(length: float, ex: tuple[float, float], point_loads, dist_loads):
     """Particular fields of one member.
 
@@ -139,20 +146,21 @@ def particular_fields(length: float, ex: tuple[float, float], point_loads, dist_
                 n_left -= px
                 v_left += py
                 m_left -= mz
-        qx = np.zeros(2)
-        qy = np.zeros(2)
+        qx = [0.0, 0.0]
+        qy = [0.0, 0.0]
         for a, b, (qx0, qx1), (qy0, qy1) in dls:
             if a - tol <= x0 and x1 <= b + tol:
-                qx += _line(a, b, qx0, qx1)
-                qy += _line(a, b, qy0, qy1)
+                lx, ly = _line(a, b, qx0, qx1), _line(a, b, qy0, qy1)
+                qx = [qx[0] + lx[0], qx[1] + lx[1]]
+                qy = [qy[0] + ly[0], qy[1] + ly[1]]
         # v(x) = v_left + int_{x0}^{x} qy ; m(x) = m_left + int_{x0}^{x} v ; n = n_left - int qx
-        v_poly = P.polyadd([v_left], P.polyint(qy, lbnd=x0))
-        m_poly = P.polyadd([m_left], P.polyint(v_poly, lbnd=x0))
-        n_poly = P.polysub([n_left], P.polyint(qx, lbnd=x0))
-        cv[k], cm[k], cn[k] = _pad(v_poly), _pad(m_poly), _pad(n_poly)
-        n_left = P.polyval(x1, n_poly)
-        v_left = P.polyval(x1, v_poly)
-        m_left = P.polyval(x1, m_poly)
+        v_poly = _plus(v_left, _integral(qy, x0))
+        m_poly = _plus(m_left, _integral(v_poly, x0))
+        n_poly = _plus(n_left, [-c for c in _integral(qx, x0)])
+        cv[k, :len(v_poly)], cm[k, :len(m_poly)], cn[k, :len(n_poly)] = v_poly, m_poly, n_poly
+        n_left = _horner(n_poly, x1)
+        v_left = _horner(v_poly, x1)
+        m_left = _horner(m_poly, x1)
     # simple-support conditions: m(L) = 0 (end reaction transverse), n(L) = 0 (roller)
     r_start = -m_left / L
     cm[:, 1] += r_start
@@ -168,10 +176,31 @@ def particular_fields(length: float, ex: tuple[float, float], point_loads, dist_
     return ParticularFields(n_pw, v_pw, m_pw, start, end)
 
 
-def _line(a: float, b: float, f0: float, f1: float) -> np.ndarray:
+def _line(a: float, b: float, f0: float, f1: float) -> tuple[float, float]:
     """Ascending coefficients of the line through (a, f0) and (b, f1)."""
     slope = (f1 - f0) / (b - a)
-    return np.array([f0 - slope * a, slope])
+    return (f0 - slope * a, slope)
+
+
+def _horner(coef: list[float], x: float) -> float:
+    """Value of the ascending coefficients ``coef`` at x (the Horner sums of P.polyval)."""
+    acc = coef[-1] + x * 0.0
+    for c in reversed(coef[:-1]):
+        acc = c + acc * x
+    return acc
+
+
+def _integral(coef: list[float], lower: float) -> list[float]:
+    """Ascending coefficients of the integral of ``coef`` from ``lower`` to x (as
+    P.polyint with ``lbnd``), in plain floats: these pieces have a handful of terms."""
+    out = [0.0] + [c / (i + 1) for i, c in enumerate(coef)]
+    out[0] = 0.0 - _horner(out, lower)
+    return out
+
+
+def _plus(constant: float, coef: list[float]) -> list[float]:
+    """``constant`` added to the polynomial ``coef``."""
+    return [constant + coef[0], *coef[1:]]
 
 
 def _merge_close(values, tol):
