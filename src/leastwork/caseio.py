@@ -130,6 +130,11 @@ class _Reader:
         self._param_busy: list[str] = []
         #: where -> (value as written, dimension) of every quantity read, when asked for
         self.record: dict[str, tuple[Any, str]] | None = None
+        #: SI value of each quantity string already read, per dimension: a large generated
+        #: case repeats the same few strings thousands of times, and the unit parser costs
+        #: far more than the lookup (the parameters are fixed for the file, so the same text
+        #: always means the same value)
+        self._si_cache: dict[tuple[str, str], float] = {}
 
     # ------------------------------------------------------------------ helpers
     def err(self, where: str, message: str) -> CaseError:
@@ -171,6 +176,11 @@ class _Reader:
                 where, f"expected a {dimension} (a number or a string such as "
                 f"{example_for(dimension)}), got {_kind(value)}"
             )
+        cached = self._si_cache.get((value, dimension)) if isinstance(value, str) else None
+        if cached is not None:
+            if self.record is not None:
+                self.record[where] = (value, dimension)
+            return cached
         if isinstance(value, str):
             q = self._parse_expression(value, where)
         else:
@@ -186,6 +196,8 @@ class _Reader:
                            f"{_SI_LIMIT:g} in SI units); check the value and its units")
         if self.record is not None:
             self.record[where] = (value, dimension)
+        if isinstance(value, str):
+            self._si_cache[(value, dimension)] = si
         return si
 
     def positive(self, value: Any, dimension: str, where: str) -> float:
