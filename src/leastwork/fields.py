@@ -65,14 +65,22 @@ class Piecewise:
         span = max(float(self.breaks[-1] - self.breaks[0]), 1.0)
         xs, vals = [], []
         for a, b, coef in self.pieces():
+            a, b = float(a), float(b)
             cand = [a, b]
-            trimmed = np.trim_zeros(coef, "b")
-            if trimmed.size > 2:
-                for r in P.polyroots(P.polyder(trimmed)):
+            row = coef.tolist()
+            while len(row) > 1 and row[-1] == 0.0:
+                row.pop()
+            if len(row) == 3:  # a parabola: the root of its derivative, as P.polyroots gives
+                r = -(row[1] * 1) / (row[2] * 2)
+                if a < r < b:
+                    cand.append(r)
+            elif len(row) > 3:
+                for r in P.polyroots(P.polyder(np.array(row))):
                     if abs(r.imag) < 1e-9 * span and a < r.real < b:
                         cand.append(float(r.real))
+            full = coef.tolist()
             xs += cand
-            vals += [float(P.polyval(x, coef)) for x in cand]
+            vals += [_horner(full, x) for x in cand]
         v, x = np.array(vals), np.array(xs)
         # ties within round-off (and values below 1e-9, SI: a flat zero field) keep the
         # first position, so that round-off never decides where an extreme is
