@@ -51,7 +51,8 @@ class MechanismError(LeastworkError):
     message : str
         Plain statement of what is unstable.
     motions : list of str
-        The nodes and directions that take part in the mechanism, e.g. ``["C.x", "D.x"]``.
+        The nodes and directions that take part in the mechanism, e.g. ``["C.x", "D.x"]``;
+        all of them are kept, the message names the first :attr:`SHOWN`.
     """
 
     def __init__(self, message: str, motions: list[str] | None = None):
@@ -59,7 +60,13 @@ class MechanismError(LeastworkError):
         self.message = message
         self.motions = list(motions or [])
 
+    #: Most motion names the message shows; ``.motions`` keeps them all.
+    SHOWN = 16
+
     def __str__(self) -> str:
-        if self.motions:
-            return f"{self.message} Free motion: {', '.join(self.motions)}."
-        return self.message
+        if not self.motions:
+            return self.message
+        shown = ", ".join(self.motions[:self.SHOWN])
+        rest = len(self.motions) - self.SHOWN
+        more = f" … and {rest} more" if rest > 0 else ""
+        return f"{self.message} Free motion: {shown}{more}."
