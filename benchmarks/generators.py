@@ -2,6 +2,9 @@
 
 * :func:`braced_truss` - a cross-braced truss of ``panels`` panels on a pin and a roller;
   degree of indeterminacy ``panels`` (one per crossed panel).
+* :func:`braced_grid` - a wall of ``nx`` by ``ny`` panels, both diagonals in every panel,
+  pinned along the bottom; degree ``ny * (2 * nx - 1)`` (derivation in its docstring). It
+  keeps 10^4 - 10^5 members compact where the long truss gets very slender.
 * :func:`storey_frame` - a rigid frame of ``bays`` bays and ``storeys`` storeys on fixed
   bases; degree ``3 * bays * storeys + 3 * bays`` (three per closed ring, three per extra
   fixed base).
@@ -17,7 +20,8 @@ from __future__ import annotations
 
 from leastwork import Structure, loads_case
 
-__all__ = ["braced_truss", "storey_frame", "continuous_beam", "structure", "FAMILIES"]
+__all__ = ["braced_truss", "braced_grid", "braced_grid_degree", "storey_frame",
+           "continuous_beam", "structure", "FAMILIES"]
 
 _HEADER = '[structure]\nname = "{name}"\nunits = {{ force = "kN", length = "m" }}\n'
 
@@ -58,6 +62,53 @@ def braced_truss(panels: int, *, panel: float = 3.0, depth: float = 2.5) -> str:
 def _ea(name: str) -> float:
     """Chords stiffer than diagonals and posts (kN)."""
     return 1.6e6 if name[0] in "BT" else 6.0e5
+
+
+def braced_grid(nx: int, ny: int, *, panel: float = 3.0, height: float = 3.0) -> str:
+    """A cross-braced wall (or tower face) ``nx`` panels wide and ``ny`` panels high.
+
+    Joints ``G{i}_{j}`` at ``(panel * i, height * j)`` (m), i = 0..nx, j = 0..ny; bars:
+    horizontals ``H{i}_{j}`` at every level j = 1..ny (none along the supported bottom),
+    verticals ``V{i}_{j}`` from level j to j + 1, diagonals ``D{i}_{j}`` (rising to the
+    right) and ``E{i}_{j}`` (falling) in every panel. Every bottom joint is pinned.
+    Loads: 12 kN down on every free joint, 5 kN to the right (+x) at the top left joint.
+
+    Degree of indeterminacy of a pin-jointed plane truss, m + r - 2 j (common practice),
+    with m = nx ny + (nx + 1) ny + 2 nx ny bars, r = 2 (nx + 1) reactions and
+    j = (nx + 1)(ny + 1) joints: ``ny * (2 * nx - 1)`` (each row of panels adds nx + 1
+    joints and 4 nx + 1 bars). Stable: each row stands on the row below as on a support.
+
+    Quantities are written as bare numbers in the case units (kN, m) so that reading stays
+    cheap at 10^5 members.
+    """
+    if nx < 1 or ny < 1:
+        raise ValueError("braced_grid needs nx >= 1 and ny >= 1")
+    nodes = [f"G{i}_{j} = [{panel * i:g}, {height * j:g}]"
+             for j in range(ny + 1) for i in range(nx + 1)]
+    bars = []
+    for j in range(ny):
+        for i in range(nx + 1):
+            bars.append(_bar(f"V{i}_{j}", f"G{i}_{j}", f"G{i}_{j + 1}", 1.6e6))
+        for i in range(nx):
+            bars.append(_bar(f"H{i}_{j + 1}", f"G{i}_{j + 1}", f"G{i + 1}_{j + 1}", 1.6e6))
+            bars.append(_bar(f"D{i}_{j}", f"G{i}_{j}", f"G{i + 1}_{j + 1}", 6.0e5))
+            bars.append(_bar(f"E{i}_{j}", f"G{i + 1}_{j}", f"G{i}_{j + 1}", 6.0e5))
+    supports = [f'G{i}_0 = "pinned"' for i in range(nx + 1)]
+    loads = [f'[[loads]]\nnode = "G{i}_{j}"\nfy = -12\n'
+             for j in range(1, ny + 1) for i in range(nx + 1)]
+    loads.append(f'[[loads]]\nnode = "G0_{ny}"\nfx = 5\n')
+    return (_HEADER.format(name=f"braced grid, {nx} x {ny} panels") + _table("nodes", nodes)
+            + _table("bars", bars) + _table("supports", supports) + "\n".join(loads))
+
+
+def braced_grid_degree(nx: int, ny: int) -> int:
+    """Degree of indeterminacy of :func:`braced_grid` ``(nx, ny)`` (see there)."""
+    return ny * (2 * nx - 1)
+
+
+def _bar(name: str, a: str, b: str, ea: float) -> str:
+    """One bar line, EA in kN as a bare number."""
+    return f'{name} = {{ nodes = ["{a}", "{b}"], EA = {ea:g} }}'
 
 
 def storey_frame(bays: int, storeys: int, *, bay: float = 6.0, storey: float = 3.5) -> str:
@@ -104,9 +155,11 @@ def structure(text: str) -> Structure:
 
 
 #: Family name -> (generator of case text from one size parameter, what the parameter is).
-#: The frame grows square-ish: ``n`` bays and ``max(1, n // 2)`` storeys.
+#: The frame grows square-ish: ``n`` bays and ``max(1, n // 2)`` storeys; the grid is
+#: square: ``n`` by ``n`` panels.
 FAMILIES = {
     "braced truss": (braced_truss, "panels"),
+    "braced grid": (lambda n: braced_grid(n, n), "panels"),
     "storey frame": (lambda n: storey_frame(n, max(1, n // 2)), "bays"),
     "continuous beam": (continuous_beam, "supports"),
 }
