@@ -13,7 +13,7 @@ import sys
 
 from .errors import CaseError, MechanismError
 
-__all__ = ["main"]
+__all__ = ["main", "PhaseDisplay"]
 
 _DESCRIPTION = """\
 Solve statically indeterminate 2D beams, trusses, frames and beam-and-tie structures by the
@@ -46,6 +46,7 @@ def _parser() -> argparse.ArgumentParser:
                    help="comma-separated redundants, e.g. C.y,BC (overrides the case)")
     s.add_argument("--at", metavar="LIST",
                    help="comma-separated displacements to add, e.g. B.y,C.rz,AB@2.5.y,A-C")
+    _basis_option(s)
     _presentation_options(s)
     s.add_argument("--no-verify", action="store_true",
                    help="skip the cross-check by the independent direct-stiffness solver")
@@ -65,6 +66,8 @@ def _parser() -> argparse.ArgumentParser:
                        description=_DESCRIPTION,
                        formatter_class=argparse.RawDescriptionHelpFormatter)
     c.add_argument("case", help="case file (TOML)")
+    _basis_option(c)
+    c.add_argument("--no-color", action="store_true", help="plain text, no colours")
     n = sub.add_parser("new", help="print a commented starter case to standard output",
                        description="Print a commented starter case; redirect it to a file "
                                    "and edit it: leastwork new portal-frame > shed.toml")
@@ -100,8 +103,18 @@ def _file_command(sub, name: str, summary: str, description: str, output_help: s
     p.add_argument("--case", dest="load_case", metavar="NAME",
                    help="only this load case (default: every case)")
     p.add_argument("--redundants", metavar="LIST", help="redundants to use (as for solve)")
+    _basis_option(p)
     p.add_argument("--force", action="store_true", help="replace existing files")
     return p
+
+
+def _basis_option(p: argparse.ArgumentParser) -> None:
+    p.add_argument("--basis", choices=("auto", "released", "local"), default="auto",
+                   help="released: unit redundant states of one released structure (dense); "
+                        "local: local self-stress states, each closing the cut of one member "
+                        "force or reaction (sparse, for large structures; redundants cannot "
+                        "be named); auto (default): local above 1500 basic forces and "
+                        "reactions when no redundants are named")
 
 
 def _presentation_options(p: argparse.ArgumentParser) -> None:
@@ -166,9 +179,8 @@ def _run(argv) -> int:
     from rich.console import Console
 
     from .caseio import load_case
-    from .report.terminal import print_brief, print_check, print_steps, print_summary
+    from .report.terminal import print_brief, print_steps, print_summary
     from .solve import solve
-    from .topology import build_topology, check_stable, choose_redundants
 
     args = _parser().parse_args(argv)
     if args.command is None:
@@ -190,20 +202,15 @@ def _run(argv) -> int:
 
         return studies_cli.run(args, console)
     if args.command == "check":
-        topo = build_topology(st)
-        if not topo.stable:
-            print_check(console, st, topo, [])
-            check_stable(st, topo)
-        red = choose_redundants(st, topo, st.redundants)
-        print_check(console, st, topo, red)
-        return 0
+        return _check(args, st, console)
     extra = _split(args.at) or []
     if extra:
         st = dataclasses.replace(st, displacements=tuple(dict.fromkeys([*st.displacements,
                                                                          *extra])))
         from .displacements import parse_target
+        from .topology import sparse_topology
 
-        topo = build_topology(st)
+        topo = sparse_topology(st)  # node directions only: no rank decisions needed
         for t in extra:
             parse_target(st, topo, t, "--at")
     names = _split(args.redundants)
@@ -211,8 +218,10 @@ def _run(argv) -> int:
         raise CaseError("expected a comma-separated list of redundants", source="command line",
                         where="--redundants")
     units = _display_units(args.units)
-    with _busy("solving"):
-        sol = solve(st, names, verify=False if args.no_verify else None)
+    with _progress("solving") as say:
+        sol = solve(st, names, where="--redundants" if names is not None else None,
+                    verify=False if args.no_verify else None, basis=args.basis,
+                    progress=say)
     if units is not None:
         sol.display_units = units
     cases = _chosen_cases(sol, args.load_case)
@@ -263,6 +272,81 @@ def _chosen_cases(sol, name: str | None) -> list[str] | None:
     return [name]
 
 
+class PhaseDisplay:
+    """The current phase of a long run and the time since it began, on one line of
+    standard error that rich redraws a few times a second and removes at the end.
+
+    Call the instance with a phase name as each phase starts (``solve(progress=...)``). The
+    line appears only once the run has lasted ``delay`` seconds, so quick runs print
+    nothing.
+    """
+
+    def __init__(self, what: str, console=None, delay: float = 1.0):
+        import threading
+        import time
+
+        from rich.console import Console
+        from rich.spinner import Spinner
+
+        self.what = what
+        self.phase = "starting"
+        self.console = console or Console(stderr=True)
+        self.delay = delay
+        self._clock = time.monotonic
+        self._t0 = self._clock()
+        self._spinner = Spinner("dots")
+        self._lock = threading.Lock()
+        self._live = None
+        self._closed = False
+        self._timer = threading.Timer(delay, self._show)
+        self._timer.daemon = True
+
+    def __call__(self, phase: str) -> None:
+        self.phase = phase
+
+    def __rich__(self):
+        elapsed = self._clock() - self._t0
+        self._spinner.update(text=f"{self.what}: {self.phase} ({elapsed:.0f} s)")
+        return self._spinner
+
+    def _show(self) -> None:
+        from rich.live import Live
+
+        with self._lock:
+            if self._closed:
+                return
+            self._live = Live(self, console=self.console, transient=True,
+                              refresh_per_second=8, redirect_stdout=False,
+                              redirect_stderr=False)
+            self._live.start()
+
+    def __enter__(self) -> PhaseDisplay:
+        self._t0 = self._clock()
+        self._timer.start()
+        return self
+
+    def __exit__(self, *exc) -> None:
+        with self._lock:
+            self._closed = True
+            self._timer.cancel()
+            if self._live is not None:
+                self._live.stop()
+
+
+def _progress(what: str):
+    """A :class:`PhaseDisplay` on a terminal; elsewhere a context that yields a callable
+    that does nothing."""
+    import contextlib
+
+    if not sys.stderr.isatty():
+        return contextlib.nullcontext(_no_progress)
+    return PhaseDisplay(what)
+
+
+def _no_progress(phase: str) -> None:
+    """Progress callback when nothing is shown."""
+
+
 def _busy(message: str):
     """A spinner on standard error while something slow runs, only on a terminal."""
     import contextlib
@@ -272,6 +356,74 @@ def _busy(message: str):
     from rich.console import Console
 
     return Console(stderr=True).status(f"{message}...", spinner="dots")
+
+
+def _check(args, st, console) -> int:
+    """``leastwork check``: indeterminacy, stability and the redundants a solve would take.
+
+    Above ``LOCAL_BASIS_MIN_COLUMNS`` basic forces and reactions (when the case names no
+    redundants), or with ``--basis local``, the answer comes from the sparse self-stress
+    sweep (:func:`leastwork.sparse_solve.find_basis`): no dense singular values.
+    """
+    import dataclasses
+
+    from .report.terminal import print_check
+    from .solve import LOCAL_BASIS_MIN_COLUMNS
+    from .topology import build_topology, check_stable, choose_redundants, sparse_topology
+
+    with _progress("checking") as say:
+        say("equilibrium matrix")
+        topo = sparse_topology(st)
+        local = args.basis == "local" or (args.basis == "auto" and st.redundants is None
+                                          and len(topo.columns) > LOCAL_BASIS_MIN_COLUMNS)
+        if not local:
+            topo = build_topology(st)
+            if topo.stable:
+                say("redundants")
+                red = choose_redundants(st, topo, st.redundants)
+        else:
+            if st.redundants is not None:
+                raise CaseError("redundants cannot be named with the local self-stress basis; "
+                                "name them with the released basis, or leave them out",
+                                source=st.source, where="[analysis] redundants")
+            from .sparse_solve import find_basis
+
+            say("self-stress states")
+            basis = find_basis(st, topo)
+            if not basis.stable:
+                say("what moves")
+                _local_mechanism(st, topo, basis)
+            n = len(basis.closing)
+            topo = dataclasses.replace(topo, rank=len(topo.dofs), degree=n,
+                                       internal=basis.internal, external=n - basis.internal,
+                                       stable=True)
+            red = [int(j) for j in basis.closing]
+    if not topo.stable:
+        print_check(console, st, topo, [])
+        check_stable(st, topo)
+    print_check(console, st, topo, red, basis="local" if local else "released")
+    return 0
+
+
+def _local_mechanism(st, topo, basis) -> None:
+    """Raise MechanismError for a structure the self-stress sweep found unstable, naming
+    what moves (densely, as ``solve`` does, when the sweep does not say and the structure
+    has at most ``_DENSE_MOTION_MAX_DOFS`` nodal directions)."""
+    from .topology import build_topology, check_stable
+
+    moving = [topo.dofs[r] for r in basis.motion]
+    if not moving and len(topo.dofs) <= _DENSE_MOTION_MAX_DOFS:
+        check_stable(st, build_topology(st))
+    raise MechanismError(
+        f"{st.source}: the structure is unstable (a mechanism): the released structure "
+        "found by the self-stress sweep is singular. Add a support, a member or remove a "
+        "hinge where it moves.", moving[:12] + ([f"... {len(moving) - 12} more"]
+                                                if len(moving) > 12 else []))
+
+
+#: An unstable structure whose sparse sweep does not say what moves is analysed densely to
+#: name the free motion (as ``solve`` does) up to this many nodal directions.
+_DENSE_MOTION_MAX_DOFS = 3000
 
 
 def _drawing(args, st) -> int:
@@ -284,8 +436,9 @@ def _drawing(args, st) -> int:
     from .writing import write_files
 
     names = _split(args.redundants)
-    with _busy("solving"):
-        sol = solve(st, names)
+    with _progress("solving") as say:
+        sol = solve(st, names, where="--redundants" if names is not None else None,
+                    basis=args.basis, progress=say)
     cases = _chosen_cases(sol, args.load_case)
     out = pathlib.Path(args.output)
     suffix = out.suffix.lower()

@@ -2,6 +2,9 @@
 
 from __future__ import annotations
 
+from dataclasses import dataclass
+
+import numpy as np
 from rich.console import Console
 from rich.markup import escape
 from rich.panel import Panel
@@ -11,25 +14,67 @@ from ..audit import ASSUMPTIONS, CAUTION, energy_terms
 from ..sheet import Formula, Grid, Para, Sheet, fmt, split_grid
 from .jsonout import quantity_factors
 
-__all__ = ["print_summary", "print_brief", "print_check", "print_steps", "print_sheet", "CAUTION", "ASSUMPTIONS",
-           "energy_terms"]
+__all__ = ["print_summary", "print_brief", "print_check", "print_steps", "print_sheet", "CAUTION",
+           "ASSUMPTIONS", "energy_terms", "is_large", "print_short_summary", "governing_values", "Governing",
+           "SUMMARY_MAX_MEMBERS", "SUMMARY_MAX_REDUNDANTS", "NAMES_SHOWN"]
+
+#: A structure with more members than this, or more redundants than
+#: ``SUMMARY_MAX_REDUNDANTS``, gets the short summary (counts and governing values, not a
+#: table row per member, reaction and redundant); ``--json`` and ``--steps`` give everything.
+SUMMARY_MAX_MEMBERS = 40
+SUMMARY_MAX_REDUNDANTS = 30
+#: How many names a long list (redundants, warnings, dropped restraints) shows before
+#: "and N more".
+NAMES_SHOWN = 10
 
 def _g(x: float, sig: int = 5) -> str:
     """Summary numbers: ``sig`` significant figures (:func:`leastwork.sheet.fmt`)."""
     return fmt(x, sig)
 
 
-def print_check(console: Console, st, topo, red_cols) -> None:
+def is_large(sol) -> bool:
+    """True when ``sol`` gets the short summary (see ``SUMMARY_MAX_MEMBERS``)."""
+    return (len(sol.structure.members) > SUMMARY_MAX_MEMBERS
+            or len(sol.redundant_columns) > SUMMARY_MAX_REDUNDANTS)
+
+
+def _name_list(names: list[str], limit: int = SUMMARY_MAX_REDUNDANTS) -> str:
+    """All names, comma-separated, up to ``limit``; above it the first ``NAMES_SHOWN`` and
+    how many more."""
+    if len(names) <= limit:
+        return ", ".join(names)
+    return ", ".join(names[:NAMES_SHOWN]) + f" ... and {len(names) - NAMES_SHOWN} more"
+
+
+def print_check(console: Console, st, topo, red_cols, *, basis: str = "released") -> None:
+    """``leastwork check``: indeterminacy, stability and the redundants a solve would take.
+
+    ``basis`` "local": ``red_cols`` are the columns whose cuts the local self-stress states
+    close (:mod:`leastwork.sparse_solve`). Long lists show their first names and a count.
+    """
     console.print(f"[bold]{st.name}[/bold]  ({st.source})")
-    _indeterminacy(console, topo)
-    if topo.stable:
-        names = ", ".join(topo.columns[j].name for j in red_cols) or "none (statically determinate)"
-        console.print(f"Suggested redundants: [bold]{names}[/bold]")
-        console.print("The released structure left by this choice is statically determinate and "
+    many = len(red_cols) > SUMMARY_MAX_REDUNDANTS or len(st.members) > SUMMARY_MAX_MEMBERS
+    _indeterminacy(console, topo, limit=NAMES_SHOWN if many else None)
+    if not topo.stable:
+        return
+    names = [topo.columns[j].name for j in red_cols]
+    if basis == "local":
+        plural = "s" if len(names) != 1 else ""
+        console.print(f"Suggested redundants: {len(names)} local self-stress state{plural}, "
+                      "each closing the cut of one member force or reaction: "
+                      f"[bold]{escape(_name_list(names) or 'none')}[/bold]")
+        console.print("The released structure left by these cuts is statically determinate and "
                       "stable.")
+        return
+    text = _name_list(names) or "none (statically determinate)"
+    if len(names) > SUMMARY_MAX_REDUNDANTS:
+        text = f"{len(names)}: {text}"
+    console.print(f"Suggested redundants: [bold]{text}[/bold]")
+    console.print("The released structure left by this choice is statically determinate and "
+                  "stable.")
 
 
-def _indeterminacy(console: Console, topo) -> None:
+def _indeterminacy(console: Console, topo, limit: int | None = None) -> None:
     t = Table(title="Indeterminacy", show_header=True, header_style="bold")
     t.add_column("degree (rank)", justify="right")
     t.add_column("external", justify="right")
@@ -44,12 +89,23 @@ def _indeterminacy(console: Console, topo) -> None:
     if topo.counting["value"] != topo.degree and topo.stable:
         console.print("[yellow]The counting formula and the rank disagree: the rank result "
                       "governs (some members are arranged so that they cannot all act).[/yellow]")
-    for name in topo.dropped:
+    dropped = list(topo.dropped)
+    if limit is not None and len(dropped) > limit:
+        console.print(f"Note: {len(dropped)} restraints are ignored ("
+                      f"{_name_list(dropped, limit)}): every member end at those nodes is "
+                      "hinged, so they can carry no moment.")
+        dropped = []
+    for name in dropped:
         console.print(f"Note: restraint {name} is ignored: every member end at that node is "
                       "hinged, so it can carry no moment.")
 
 
 def print_summary(console: Console, sol, case_names=None) -> None:
+    """The results on the terminal: every redundant, reaction and member end (a short
+    summary of governing values instead for a large structure, see :func:`is_large`)."""
+    if is_large(sol):
+        print_short_summary(console, sol, case_names)
+        return
     st, topo = sol.structure, sol.topology
     Ff, _, Mf = quantity_factors(sol.units)
     fu, mu, lu = sol.units.force, f"{sol.units.force}*{sol.units.length}", sol.units.length
@@ -139,6 +195,191 @@ def print_summary(console: Console, sol, case_names=None) -> None:
     for grid in envelope_grids(sol, sol_json):
         for part in split_grid(grid, console.width):
             console.print(_rich_table(part))
+    console.print(Panel(CAUTION, title="Caution", style="yellow"))
+
+
+@dataclass(frozen=True)
+class Governing:
+    """The largest absolute value of one quantity in one load case (SI: N, N*m, m, rad).
+
+    ``quantity``: "n", "v", "m" (section forces along members), "reaction x|y|rz",
+    "displacement x|y|rz" (joints); ``where``: member, support or joint ("" when there is
+    nothing to name); ``at``: distance from the member's start node, None when the value is
+    the same all along the member or the quantity is not a member's."""
+
+    quantity: str
+    value: float
+    where: str
+    at: float | None
+
+
+def _largest_abs(field) -> tuple[float, float | None]:
+    """(value of largest magnitude, where) along one member's field; ``where`` is None when
+    the field is constant. Ties keep the largest positive value (first position)."""
+    (hi, at_hi), (lo, at_lo) = field.extremes()
+    if hi - lo <= 1e-12 * max(abs(hi), abs(lo)):
+        return hi, None
+    return (lo, at_lo) if abs(lo) > abs(hi) else (hi, at_hi)
+
+
+def _pick(rows) -> tuple[float, str, float | None] | None:
+    """Of (value, where, at) rows, the one of largest magnitude; a later row must exceed the
+    earlier best by more than round-off (1e-9 relative) so that symmetric twins name the
+    first."""
+    best = None
+    for row in rows:
+        if best is None or abs(row[0]) > abs(best[0]) * (1 + 1e-9):
+            best = row
+    return best
+
+
+def governing_values(sol, res) -> list[Governing]:
+    """Largest |n|, |v|, |m| over all members (v and m only when there are beams), largest
+    reaction component per direction and largest joint displacement per direction, for
+    load case ``res`` of ``sol`` (SI)."""
+    st, topo = sol.structure, sol.topology
+    out: list[Governing] = []
+    beams = any(m.is_beam for m in st.members.values())
+    for q in ("n", "v", "m") if beams else ("n",):
+        rows = ((*_largest_abs(getattr(mr, q)), mid) for mid, mr in res.members.items()
+                if q == "n" or st.members[mid].is_beam)
+        best = _pick((v, mid, at) for v, at, mid in rows)
+        if best is not None:
+            out.append(Governing(q, best[0], best[1], best[2]))
+    for d in ("x", "y", "rz"):
+        best = _pick((comps[d], node, None) for node, comps in res.reactions.items()
+                     if d in comps)
+        if best is not None:
+            out.append(Governing(f"reaction {d}", best[0], best[1], None))
+    u = np.asarray(res.nodal_displacements, dtype=float)
+    for d in ("x", "y", "rz"):
+        idx = [i for i, name in enumerate(topo.dofs) if name.endswith(f".{d}")]
+        if idx:
+            i = idx[int(np.argmax(np.abs(u[idx])))]
+            out.append(Governing(f"displacement {d}", float(u[i]),
+                                 topo.dofs[i].rsplit(".", 1)[0], None))
+    return out
+
+
+def _kinds(topo, cols) -> str:
+    """Redundants counted by kind: reaction components, bar forces, beam axial forces, beam
+    end moments."""
+    counts = {"reaction component": 0, "bar force": 0, "beam axial force": 0,
+              "beam end moment": 0}
+    for j in cols:
+        c = topo.columns[j]
+        key = ("reaction component" if c.kind == "reaction" else "beam end moment"
+               if c.kind in ("start_m", "end_m") else "beam axial force"
+               if c.name.endswith(".n") else "bar force")
+        counts[key] += 1
+    return ", ".join(f"{n} {k}{'s' if n != 1 else ''}" for k, n in counts.items() if n)
+
+
+#: Labels of the governing quantities in the short summary.
+_LABELS = {"n": "axial force n", "v": "shear force v", "m": "bending moment m"}
+
+
+def _governing_table(sol, res) -> Table:
+    """The governing values of one load case in the display units, with the displacements
+    asked for when there are at most ``NAMES_SHOWN`` of them. Values within round-off of
+    zero (1e-12 of the case's largest force, as in the JSON result) show as 0 with nothing
+    named."""
+    Ff, Lf, Mf = quantity_factors(sol.units)
+    fu, mu, lu = sol.units.force, f"{sol.units.force}*{sol.units.length}", sol.units.length
+    lmax = max((sol.structure.length(m) for m in sol.structure.members), default=1.0)
+    f_tol = 1e-12 * res.equilibrium_scale
+    t = Table(title="Governing values (largest magnitude)", header_style="bold",
+              caption="n tension +, m sagging +; at: from the member's start node")
+    for h, right in (("quantity", False), ("value", True), ("unit", False), ("where", False),
+                     (f"at [{lu}]", True)):
+        t.add_column(escape(h), justify="right" if right else "left")
+    for g in governing_values(sol, res):
+        kind, _, d = g.quantity.partition(" ")
+        if kind == "displacement":
+            f, un, tol = (1.0, "rad", 0.0) if d == "rz" else (Lf, lu, 0.0)
+            label, where = f"joint displacement {d}", f"joint {g.where}"
+        elif kind == "reaction":
+            f, un, tol = (Mf, mu, f_tol * lmax) if d == "rz" else (Ff, fu, f_tol)
+            label, where = f"reaction {d}", f"support {g.where}"
+        else:
+            f, un, tol = (Mf, mu, f_tol * lmax) if kind == "m" else (Ff, fu, f_tol)
+            label, where = _LABELS[kind], f"member {g.where}"
+        if abs(g.value) <= tol:
+            t.add_row(label, "0", un, "—", "")
+            continue
+        at = "" if kind in ("displacement", "reaction") else (
+            "all along" if g.at is None else _g(g.at / Lf))
+        t.add_row(label, _g(g.value / f), un, escape(where), at)
+    if len(res.displacements) <= NAMES_SHOWN:
+        for k, v in res.displacements.items():
+            rot = k.endswith(".rz")
+            t.add_row("displacement asked for", _g(v if rot else v / Lf), "rad" if rot else lu,
+                      escape(k), "")
+    return t
+
+
+def print_short_summary(console: Console, sol, case_names=None) -> None:
+    """The summary of a large structure: counts, the basis, the governing values of every
+    load case (largest |n|, |v|, |m| with member and position, reactions, joint
+    displacements), the checks and the warnings; no row per member, reaction or redundant."""
+    st, topo = sol.structure, sol.topology
+    Ff = quantity_factors(sol.units)[0]
+    fu = sol.units.force
+    console.print(f"[bold]{escape(st.name)}[/bold]  ({escape(st.source)})")
+    console.print(f"Assumptions: {ASSUMPTIONS}")
+    console.print(energy_terms(st))
+    n_bars = sum(1 for m in st.members.values() if m.kind == "bar")
+    n_beams = len(st.members) - n_bars
+    n_react = sum(len(s.restraints) for s in st.supports.values())
+    console.print(f"Structure: {len(st.members)} members ({n_bars} bars, {n_beams} beams), "
+                  f"{len(st.nodes)} joints, {len(st.supports)} supports ({n_react} restrained "
+                  f"directions), {len(sol.cases)} load case(s).", highlight=False)
+    _indeterminacy(console, topo, limit=NAMES_SHOWN)
+    names = sol.redundant_names
+    how = "chosen by the user" if sol.chosen_by_user else "chosen automatically"
+    if sol.basis == "local":
+        console.print("Basis: local self-stress states (sparse): each state closes the cut of "
+                      "one member force or reaction and touches only the members near it"
+                      + (f"; {sol.long_range_states} found by the global step"
+                         if sol.long_range_states else "") + ".")
+        label = "Redundants (the cuts the states close)"
+    else:
+        console.print("Basis: unit redundant states of one released structure.")
+        label = f"Redundants ({how})"
+    console.print(f"{label}: {len(names)}" + (f" — {_kinds(topo, sol.redundant_columns)}"
+                                               if names else "")
+                  + (f": [bold]{escape(_name_list(names, NAMES_SHOWN))}[/bold]"
+                     if names else ""), highlight=False)
+    if names:
+        est = "estimate (1-norm) " if sol.basis == "local" else ""
+        console.print(f"Flexibility matrix: condition number {est}{_g(sol.condition, 3)} "
+                      "(after scaling its diagonal to one).")
+    for w in sol.warnings[:NAMES_SHOWN]:
+        console.print(f"[yellow]Warning: {escape(w)}[/yellow]")
+    if len(sol.warnings) > NAMES_SHOWN:
+        console.print(f"[yellow]... and {len(sol.warnings) - NAMES_SHOWN} more warnings "
+                      "(all of them in --json).[/yellow]")
+    for name in case_names or list(sol.cases):
+        res = sol.cases[name]
+        console.rule(f"Load case: {escape(name)}")
+        if not res.equilibrium_ok:
+            console.print(Panel(
+                f"EQUILIBRIUM CHECK FAILED: residual {_g(res.equilibrium_residual / Ff)} {fu}. "
+                "The numbers below do not satisfy equilibrium and must not be used.",
+                style="bold red"))
+        console.print(_governing_table(sol, res))
+        if len(res.displacements) > NAMES_SHOWN:
+            console.print(f"{len(res.displacements)} displacements asked for: in --json.")
+        status = "[green]OK[/green]" if res.equilibrium_ok else "[bold red]FAILED[/bold red]"
+        console.print(f"Equilibrium check: largest residual {_g(res.equilibrium_residual / Ff, 2)}"
+                      f" {fu} — {status}")
+        _print_cross_check(console, res)
+    if st.combinations:
+        console.print(f"The envelope over the {len(st.combinations)} combination(s) is in "
+                      "--json; each combination is summarised above as a load case.")
+    console.print(f"[bold]Short summary[/bold] (more than {SUMMARY_MAX_MEMBERS} members or "
+                  f"{SUMMARY_MAX_REDUNDANTS} redundants): --json gives every member, reaction "
+                  "and redundant; --steps the whole audit trail.")
     console.print(Panel(CAUTION, title="Caution", style="yellow"))
 
 
