@@ -119,6 +119,8 @@ def test_long_slender_truss_is_no_false_alarm():
     for res in sol.cases.values():
         check = res.stiffness
         assert check.ok, check
-        assert check.tolerance > STIFFNESS_RTOL  # widened by the stiffness condition
-        assert check.difference > 1e-12  # the stiffness solver's round-off, measured
+        # the stiffness solver's own round-off exceeds the fixed tolerance here (about
+        # 2e-7), so only the tolerance widened by its condition number accepts it
+        assert check.difference > STIFFNESS_RTOL
+        assert check.tolerance > check.difference
     assert sol.cross_check_ok and not any("DISAGREE" in w for w in sol.warnings)

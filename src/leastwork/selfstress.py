@@ -80,7 +80,8 @@ def equilibrium_scaling(A: sp.csc_matrix, dofs, lref: float) -> tuple[np.ndarray
 def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]],
                       dof_node: np.ndarray, node_neighbours: list[list[int]],
                       priority: np.ndarray, is_member: np.ndarray, lref: float,
-                      start_nodes: list[int]) -> SelfStressBasis:
+                      start_nodes: list[int], *, tied_joints: bool = True,
+                      kept_first: bool = True) -> SelfStressBasis:
     """Find a local self-stress basis of ``A`` (ndof x ncol, SI).
 
     Parameters
@@ -91,6 +92,9 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
     priority : order of preference to keep a column at the same joint (lower is kept first).
     is_member : True for member basic forces, False for reactions.
     start_nodes : joints to start the sweep from, in order (supported joints first).
+    tied_joints, kept_first : the refinements of step 3 (the joints tied to two of the
+        column's first; kept columns alone first); off only to compare bases
+        (benchmarks/bases.py).
     """
     ndof, ncol = A.shape
     rs, cs = equilibrium_scaling(A, dofs, lref)
@@ -151,7 +155,8 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
             # unique and mixes in no other self-stress; then with earlier closing columns
             # too (least-norm), which some states need (a third support of a beam)
             alone = cols[kept[cols]]
-            for use in ((alone, cols) if alone.size < cols.size else (cols,)):
+            tries = (alone, cols) if kept_first and alone.size < cols.size else (cols,)
+            for use in tries:
                 found = _reproduce(use, rows_j, vals_j)
                 if found is not None:
                     return found
@@ -162,7 +167,7 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
         joints tied to at least two of the ball's joints, twice (a braced panel, a triangle
         fan), then every neighbour, ``_MAX_RADIUS`` times (a rigid ring, two spans)."""
         ball = set(column_nodes[j])
-        for _ in range(2):
+        for _ in range(2 if tied_joints else 0):
             near: dict[int, int] = {}
             for n in ball:
                 for m in set(node_neighbours[n]):
@@ -305,6 +310,8 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
         stable = False
     else:
         stable, motion = _released_is_stable(S[:, released])
+    if not stable:
+        motion = _free_motion(S[:, released]) or motion
     n = len(closing)
     states = sp.csc_matrix(
         (np.concatenate(st_vals) if st_vals else np.zeros(0),
@@ -312,6 +319,28 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
           np.concatenate(st_cols) if st_cols else np.zeros(0, int))), shape=(ncol, n))
     return SelfStressBasis(states, np.array(closing, dtype=int), released,
                            int(sum(member_only)), long_range, stable, motion)
+
+
+def _free_motion(SK: sp.csc_matrix, iterations: int = 8) -> tuple[int, ...]:
+    """Rows (nodal directions) that move most in the freest motion u of the forces ``SK``
+    (scaled): the eigenvector of SK SK' of least eigenvalue, by inverse iteration on
+    SK SK' + 1e-8 I from a fixed start (one sparse factorisation; a mechanism's eigenvalue
+    is zero, every other at least about the rank tolerance squared above it)."""
+    from scipy.sparse.linalg import splu
+
+    n = SK.shape[0]
+    M = (SK @ SK.T + 1e-8 * sp.identity(n)).tocsc()
+    try:
+        lu = splu(M, permc_spec="MMD_AT_PLUS_A", diag_pivot_thresh=0.0,
+                  options={"SymmetricMode": True})
+    except RuntimeError:
+        return ()
+    v = np.random.default_rng(1).standard_normal(n)
+    for _ in range(iterations):
+        v = lu.solve(v)
+        v /= np.linalg.norm(v)
+    size = np.abs(v)
+    return tuple(int(r) for r in np.flatnonzero(size > 0.3 * size.max()))
 
 
 def _least_norm(M: np.ndarray, b: np.ndarray) -> np.ndarray:

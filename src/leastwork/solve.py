@@ -97,7 +97,11 @@ def solve(structure: Structure, redundants=None, *, where: str | None = None,
     if where is None:
         where = "--redundants" if redundants is not None else "[analysis] redundants"
     chosen_by_user = names is not None
+    if progress is not None:
+        progress("redundants")
     red = choose_redundants(st, topo, names, where=where)
+    if progress is not None:
+        progress("flexibility")
     F = flexibility_blocks(st, topo)
     released, B, delta, solver = _flexibility(st, topo, red, F)
     notes: list[str] = []

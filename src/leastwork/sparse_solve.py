@@ -49,8 +49,12 @@ def sparse_flexibility(st: Structure, topo: Topology) -> sp.csr_matrix:
                          shape=(n, n))
 
 
-def find_basis(st: Structure, topo: Topology) -> SelfStressBasis:
-    """The local self-stress basis of the structure (see :mod:`leastwork.selfstress`)."""
+def find_basis(st: Structure, topo: Topology, *, reactions_first: bool = True,
+               **variant) -> SelfStressBasis:
+    """The local self-stress basis of the structure (see :mod:`leastwork.selfstress`).
+
+    ``reactions_first=False`` and ``variant`` (keywords of ``local_self_stress``) give the
+    variants compared in docs/performance.md; the defaults are the tool's."""
     node_ids = {n: i for i, n in enumerate(st.nodes)}
     neighbours: list[list[int]] = [[] for _ in node_ids]
     for m in st.members.values():
@@ -69,8 +73,9 @@ def find_basis(st: Structure, topo: Topology) -> SelfStressBasis:
     # released structure then rests on every support (short load paths, well conditioned;
     # keeping member forces first turns a continuous beam into one long cantilever)
     order = _keep_order(st, topo)
-    order = [j for j in order if topo.columns[j].kind == "reaction"] + [
-        j for j in order if topo.columns[j].kind != "reaction"]
+    if reactions_first:
+        order = [j for j in order if topo.columns[j].kind == "reaction"] + [
+            j for j in order if topo.columns[j].kind != "reaction"]
     priority = np.empty(len(topo.columns), dtype=int)
     priority[order] = np.arange(len(topo.columns))
     is_member = np.array([c.kind != "reaction" for c in topo.columns])
@@ -78,7 +83,7 @@ def find_basis(st: Structure, topo: Topology) -> SelfStressBasis:
     lref = float(np.mean(lengths)) if lengths else 1.0
     starts = [node_ids[s.node] for s in st.supports.values()]
     return local_self_stress(topo.A_sparse, topo.dofs, column_nodes, dof_node, neighbours,
-                             priority, is_member, lref, starts)
+                             priority, is_member, lref, starts, **variant)
 
 
 def condition_estimate(S: sp.spmatrix, solve, iterations: int = 25) -> float:
@@ -193,25 +198,31 @@ class SparseFlexibilitySolver:
 
 
 def _unstable(st: Structure, topo: Topology, basis: SelfStressBasis):
-    """MechanismError naming what moves (dense singular values when small enough)."""
-    if len(topo.dofs) <= 3000:
+    """MechanismError naming what moves: the freest motion the sweep found, or the dense
+    singular values when it found none and the structure is small enough."""
+    if not basis.motion and len(topo.dofs) <= 3000:
         from .topology import build_topology
 
         check_stable(st, build_topology(st))
-    moving = [topo.dofs[r] for r in basis.motion][:12]
+    moving = [topo.dofs[r] for r in basis.motion]
+    short = len(topo.dofs) - len(basis.released)
+    count = f"{short} more equation(s) than independent forces" if short > 0 else \
+        "the released structure found by the self-stress sweep is singular"
     raise MechanismError(
-        f"{st.source}: the structure is unstable (a mechanism): the released structure found "
-        "by the self-stress sweep is singular. Add a support, a member or remove a hinge "
-        "where it moves.", moving)
+        f"{st.source}: the structure is unstable (a mechanism): {count}, so some motion needs "
+        "no deformation of any member. Add a support, a member or remove a hinge where it "
+        "moves.", moving)
 
 
-def solve_local(st: Structure, *, verify: bool | None = None, progress=None) -> Solution:
-    """Solve by the force method on a local self-stress basis (see module docstring)."""
+def solve_local(st: Structure, *, verify: bool | None = None, progress=None,
+                basis_options: dict | None = None) -> Solution:
+    """Solve by the force method on a local self-stress basis (see module docstring).
+    ``basis_options``: keywords of :func:`find_basis`, to compare variants only."""
     say = progress or (lambda phase: None)
     say("equilibrium matrix")
     topo = sparse_topology(st)
     say("self-stress states")
-    basis = find_basis(st, topo)
+    basis = find_basis(st, topo, **(basis_options or {}))
     if not basis.stable:
         _unstable(st, topo, basis)
     n = len(basis.closing)

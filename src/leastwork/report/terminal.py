@@ -384,14 +384,21 @@ def print_short_summary(console: Console, sol, case_names=None) -> None:
 
 
 def print_brief(console: Console, sol, case_names=None) -> None:
-    """One line per redundant and load case, the checks, and every warning (``--quiet``)."""
+    """One line per redundant and load case (for a large structure the largest few), the
+    checks, and every warning (``--quiet``)."""
     Ff, _, Mf = quantity_factors(sol.units)
     u = sol.units
     for w in sol.warnings:
         console.print(f"[yellow]Warning: {escape(w)}[/yellow]")
+    large = is_large(sol)
     for name in case_names or list(sol.cases):
         res = sol.cases[name]
-        for j, x in zip(sol.redundant_columns, res.redundants, strict=True):
+        shown = list(zip(sol.redundant_columns, res.redundants, strict=True))
+        if large:  # the largest few; every value is in --json
+            shown = sorted(shown, key=lambda jx: -abs(jx[1]))[:NAMES_SHOWN]
+            console.print(f"{name}  {len(res.redundants)} redundants; the {len(shown)} "
+                          "largest:", highlight=False)
+        for j, x in shown:
             col = sol.topology.columns[j]
             mom = col.is_moment
             console.print(f"{name}  {col.name} = {_g(x / (Mf if mom else Ff))} "
