@@ -122,6 +122,7 @@ def test_threshold_between_full_and_short_summary(tmp_path, capsys):
     for panels, short in ((small, False), (large, True)):
         path = _write(tmp_path, f"t{panels}.toml", _fast(generators.braced_truss(panels)))
         sol = solve(load_case(path))
+        assert sol.topology.degree == panels
         assert is_large(sol) is short
         assert main(["solve", path, "--no-color"]) == 0
         text = capsys.readouterr().out
@@ -155,9 +156,7 @@ def test_check_of_large_truss_takes_the_sparse_path(truss, monkeypatch, capsys):
         raise AssertionError("check built the dense topology")
 
     monkeypatch.setattr("leastwork.topology.build_topology", dense)
-    t0 = time.perf_counter()
     assert main(["check", path, "--no-color"]) == 0
-    assert time.perf_counter() - t0 < 10.0  # the dense path took over 20 s here
     text = capsys.readouterr().out
     # m + r - 2j = (5p + 1) + 3 - 2 (2p + 2) = p (common practice): all internal, since a
     # pin and a roller hold the girder determinately
@@ -214,7 +213,7 @@ def test_phase_display_shows_phase_and_time_only_after_the_delay():
                       delay=0.0) as say:
         say("flexibility")
         time.sleep(0.4)
-    assert "solving: flexibility (0 s)" in buf.getvalue()
+    assert re.search(r"solving: flexibility \(\d+ s\)", buf.getvalue())
     buf = io.StringIO()
     with PhaseDisplay("solving", console=Console(file=buf, force_terminal=True, width=80),
                       delay=5.0) as say:
