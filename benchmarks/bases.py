@@ -10,8 +10,9 @@ Bases:
   redundants: the alternative the small path tries when the first is ill-conditioned);
 * ``local``           - the tool's local basis (docs/method.md section 15);
 * ``local, plain balls`` - local, without the first test on the joints tied to two of the
-  closing force's joints and without trying kept forces alone first (least-norm over
-  every earlier force within 1, 2, 3 members);
+  closing force's joints (least-norm over every earlier force within 1, 2, 3 members);
+* ``local, kept first`` - local, trying the kept forces alone before all earlier forces in
+  each set of joints (their state is unique, so it mixes in no other self-stress);
 * ``local, members first`` - local, with member forces kept before reactions at each joint
   (so that reactions close the states).
 
@@ -74,7 +75,9 @@ BASES = {
     "released, members": lambda st: _released(st, "members"),
     "local": lambda st: solve_local(st, verify=False),
     "local, plain balls": lambda st: solve_local(
-        st, verify=False, basis_options={"tied_joints": False, "kept_first": False}),
+        st, verify=False, basis_options={"tied_joints": False}),
+    "local, kept first": lambda st: solve_local(
+        st, verify=False, basis_options={"kept_first": True}),
     "local, members first": lambda st: solve_local(
         st, verify=False, basis_options={"reactions_first": False}),
 }

@@ -81,7 +81,7 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
                       dof_node: np.ndarray, node_neighbours: list[list[int]],
                       priority: np.ndarray, is_member: np.ndarray, lref: float,
                       start_nodes: list[int], *, tied_joints: bool = True,
-                      kept_first: bool = True) -> SelfStressBasis:
+                      kept_first: bool = False) -> SelfStressBasis:
     """Find a local self-stress basis of ``A`` (ndof x ncol, SI).
 
     Parameters
@@ -92,9 +92,12 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
     priority : order of preference to keep a column at the same joint (lower is kept first).
     is_member : True for member basic forces, False for reactions.
     start_nodes : joints to start the sweep from, in order (supported joints first).
-    tied_joints, kept_first : the refinements of step 3 (the joints tied to two of the
-        column's first; kept columns alone first); off only to compare bases
-        (benchmarks/bases.py).
+    tied_joints : step 3 tries the joints tied to two of the column's first (on by default;
+        off only to compare bases, benchmarks/bases.py).
+    kept_first : in each set of joints, try the kept columns alone before all earlier
+        columns (a state of kept columns is unique). Off by default: on braced grids, frames,
+        beams and trussed beams it changed neither the states' size nor the conditioning
+        and cost a quarter more time (docs/performance.md).
     """
     ndof, ncol = A.shape
     rs, cs = equilibrium_scaling(A, dofs, lref)
@@ -151,9 +154,9 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
             if not cols.size or cols.size in tried:
                 continue
             tried.add(cols.size)  # the same columns again (a ball that did not grow)
-            # kept columns alone first: they are independent, so a state made of them is
-            # unique and mixes in no other self-stress; then with earlier closing columns
-            # too (least-norm), which some states need (a third support of a beam)
+            # least-norm over every earlier column in the set (kept and closing: some states
+            # need an earlier closing force, the third support of a beam); optionally the
+            # kept columns alone first, whose state is unique
             alone = cols[kept[cols]]
             tries = (alone, cols) if kept_first and alone.size < cols.size else (cols,)
             for use in tries:
