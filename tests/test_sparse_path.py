@@ -133,8 +133,8 @@ def test_local_basis_matches_released_basis_on_bundled_cases(path):
 # ------------------------------------------------------------------ mid-size vs stiffness
 MID_SIZE = {
     "braced grid 30x20": lambda: braced_grid(30, 20),  # 2450 bars
-    "storey frame 20x20": lambda: storey_frame(20, 20),  # 820 beams, 1260 redundants
-    "king-post beam 300 spans": lambda: _kingpost_beam(300),  # 1500 members
+    "storey frame 35x30": lambda: storey_frame(35, 30),  # 2130 beams, 3255 redundants
+    "king-post beam 500 spans": lambda: _kingpost_beam(500),  # 2500 members
 }
 
 
