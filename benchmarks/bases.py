@@ -20,7 +20,7 @@ Columns: states n; members a state touches (mean, max); nonzeros of the flexibil
 per state and as a fraction of n^2; its condition number (exact: eigenvalues of the matrix
 scaled to a unit diagonal); time of the solve (s, one load case, no cross-check); largest
 difference of member end forces and reactions from the stiffness solver, relative to the
-largest force (moments divided by the longest member).
+largest force of either answer (moments divided by the longest member), as in scale.py.
 
 Run: python benchmarks/bases.py   (a few minutes on a busy two-core machine)
 """
@@ -47,6 +47,7 @@ from generators import (  # noqa: E402
     storey_frame,
     structure,
 )
+from scale import difference, force_summary  # noqa: E402
 
 import leastwork  # noqa: E402
 from leastwork.sparse_solve import solve_local  # noqa: E402
@@ -104,19 +105,13 @@ def _flexibility_stats(sol) -> tuple[float, float, float]:
 
 
 def _difference(st, sol) -> float:
-    res = next(iter(sol.cases.values()))
-    other = solve_stiffness(st, res.name)
+    """Largest difference from the stiffness solver (:func:`scale.difference`)."""
+    theirs = {}
+    for case in sol.cases:
+        r = solve_stiffness(st, case)
+        theirs[case] = (r.reactions, r.end_forces)
     lref = max(st.length(m) for m in st.members)
-    worst = 0.0
-    for mid, mr in res.members.items():
-        ts, te = other.end_forces[mid]
-        for k, (x, y) in enumerate(zip(mr.start + mr.end, ts + te, strict=True)):
-            worst = max(worst, abs(x - y) / (lref if k % 3 == 2 else 1.0))
-    for node, comps in res.reactions.items():
-        for key, x in comps.items():
-            worst = max(worst, abs(x - other.reactions[node].get(key, 0.0))
-                        / (lref if key == "rz" else 1.0))
-    return worst / max(res.equilibrium_scale, 1.0)
+    return difference(force_summary(sol), theirs, lref)
 
 
 def measure(name: str, basis: str) -> dict:

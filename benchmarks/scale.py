@@ -67,7 +67,7 @@ from generators import FAMILIES, structure  # noqa: E402
 import leastwork  # noqa: E402
 from leastwork.stiffness import solve_stiffness  # noqa: E402
 
-__all__ = ["Row", "Run", "members_of", "sizes", "measure", "measure_fresh", "difference",
+__all__ = ["Row", "Run", "members_of", "sizes", "measure", "measure_fresh", "difference", "force_summary",
            "growth_exponent", "format_row", "main", "DENSE_MAX_COLUMNS", "MAX_MEMBERS"]
 
 #: Default largest member count: every family's last size is then just over 10^5.
@@ -169,7 +169,7 @@ def _best(fn: Callable[[], object], repeat: int = 3, quick: float = 0.2):
     return best, out, which
 
 
-def _force_summary(sol) -> Summary:
+def force_summary(sol) -> Summary:
     return {name: (res.reactions, {mid: (tuple(m.start), tuple(m.end))
                                    for mid, m in res.members.items()})
             for name, res in sol.cases.items()}
@@ -196,7 +196,7 @@ def _run_force(st, basis: str) -> Run:
     info = {"redundants": int(sol.topology.degree), "flex_nonzeros": nnz,
             "flex_factor_nonzeros": int(getattr(solver, "nonzeros", 0)),
             "condition": float(sol.condition), "phases": phases}
-    return Run(seconds, info=info, summary=_force_summary(sol))
+    return Run(seconds, info=info, summary=force_summary(sol))
 
 
 def _run_stiffness(st) -> Run:

@@ -373,7 +373,8 @@ class _Context:
                          for i, j in pairs]
                 tot += prods
                 rows.append((m.id, u.conv(L, 0, 1), u.conv(m.EA, 1, 0), *n, *prods))
-            blocks.append(Grid("Axial forces of the released structure per unit redundant "
+            per = "per unit state amplitude" if self.local else "per unit redundant"
+            blocks.append(Grid(f"Axial forces of the released structure {per} "
                                "(bars, and beams with an area)", tuple(heads), tuple(rows),
                                total=("total", "", "", *[""] * nr, *tot)))
         beams = [m for m in st.members.values() if m.is_beam]
@@ -403,7 +404,8 @@ class _Context:
             blocks.append(self._pair_table("spring", "r{i}·r{j} / k", pairs))
         for case in self.cases:
             blocks.extend(self._released_under_loads(case))
-        return Step(3, "Released structure under the loads and unit redundants",
+        return Step(3, "Released structure under the loads; the unit self-stress states"
+                    if self.local else "Released structure under the loads and unit redundants",
                     tuple(blocks))
 
     def _pair_table(self, term: str, pattern: str, pairs) -> Grid:

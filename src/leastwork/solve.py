@@ -234,6 +234,21 @@ def _names(topo, red: list[int]) -> str:
     return ", ".join(topo.columns[j].name for j in red)
 
 
+def jacobi_scaling(diag: np.ndarray, names: list[str],
+                   what: str) -> tuple[np.ndarray, np.ndarray, list[str]]:
+    """For the diagonal of a flexibility matrix: which unknowns have no flexibility (at or
+    below 1e-12 of the largest), the scale factors D = 1/sqrt(diag) (1 for those), and a
+    warning for each (``what`` names the unknowns: "redundant", "the self-stress state
+    closing"): such an unknown is not determined by compatibility and is taken as zero."""
+    diag = np.asarray(diag, dtype=float).copy()
+    scale_ref = max(float(np.max(np.abs(diag))), 1e-300)
+    zero = diag <= 1e-12 * scale_ref
+    notes = [f"{what} {names[i]} has no flexibility (it strains only axially rigid members "
+             "or rigid parts); its value is not determined by compatibility and is taken as "
+             "zero" for i in np.flatnonzero(zero)]
+    return zero, 1.0 / np.sqrt(np.where(zero, 1.0, diag)), notes
+
+
 class FlexibilitySolver:
     """Solve delta X = rhs, Jacobi-scaled; a redundant (or a combination) with no
     flexibility is explained and taken as zero (minimum-norm solution)."""
@@ -246,16 +261,8 @@ class FlexibilitySolver:
         self.cond = 1.0
         if n == 0:
             return
-        diag = np.diag(delta).copy()
-        scale_ref = max(float(np.max(np.abs(diag))), 1e-300)
-        zero = diag <= 1e-12 * scale_ref
-        for i in np.flatnonzero(zero):
-            self.warnings.append(
-                f"redundant {names[i]} has no flexibility (it strains only axially rigid "
-                "members or rigid parts); its value is not determined by compatibility and "
-                "is taken as zero")
-        d = np.where(zero, 1.0, diag)
-        self.D = 1.0 / np.sqrt(d)
+        zero, self.D, notes = jacobi_scaling(np.diag(delta), names, "redundant")
+        self.warnings.extend(notes)
         S = delta * self.D[:, None] * self.D[None, :]
         w, V = np.linalg.eigh(S)
         keep = w > 1e-11 * max(float(w.max()), 1e-300)

@@ -27,7 +27,7 @@ from .errors import CaseError, MechanismError
 from .model import Structure
 from .selfstress import SelfStressBasis, local_self_stress
 from .solution import Solution
-from .solve import cross_check, solve_cases
+from .solve import cross_check, jacobi_scaling, solve_cases
 from .topology import Topology, _keep_order, check_stable, sparse_topology
 
 __all__ = ["solve_local", "SparseReleased", "SparseFlexibilitySolver", "sparse_flexibility",
@@ -158,16 +158,10 @@ class SparseFlexibilitySolver:
         self.nonzeros = 0
         if n == 0:
             return
-        diag = delta.diagonal().copy()
-        scale_ref = max(float(np.max(np.abs(diag))), 1e-300)
-        zero = diag <= 1e-12 * scale_ref
-        for i in np.flatnonzero(zero):
-            self.warnings.append(
-                f"the self-stress state closing {names[i]} has no flexibility (it strains only "
-                "axially rigid members or rigid parts); its amplitude is not determined by "
-                "compatibility and is taken as zero")
+        zero, self.D, notes = jacobi_scaling(delta.diagonal(), names,
+                                             "the self-stress state closing")
+        self.warnings.extend(notes)
         self.zero = zero
-        self.D = 1.0 / np.sqrt(np.where(zero, 1.0, diag))
         Dm = sp.diags(self.D)
         S = (Dm @ delta @ Dm).tocsc()
         if zero.any():

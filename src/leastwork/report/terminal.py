@@ -124,11 +124,7 @@ def print_summary(console: Console, sol, case_names=None) -> None:
     for name in case_names or list(sol.cases):
         res = sol.cases[name]
         console.rule(f"Load case: {name}")
-        if not res.equilibrium_ok:
-            console.print(Panel(
-                f"EQUILIBRIUM CHECK FAILED: residual {_g(res.equilibrium_residual / Ff)} {fu}. "
-                "The numbers below do not satisfy equilibrium and must not be used.",
-                style="bold red"))
+        _equilibrium_alarm(console, res, Ff, fu)
         if len(res.redundants):
             t = Table(title="Redundants", header_style="bold")
             t.add_column("redundant")
@@ -362,11 +358,7 @@ def print_short_summary(console: Console, sol, case_names=None) -> None:
     for name in case_names or list(sol.cases):
         res = sol.cases[name]
         console.rule(f"Load case: {escape(name)}")
-        if not res.equilibrium_ok:
-            console.print(Panel(
-                f"EQUILIBRIUM CHECK FAILED: residual {_g(res.equilibrium_residual / Ff)} {fu}. "
-                "The numbers below do not satisfy equilibrium and must not be used.",
-                style="bold red"))
+        _equilibrium_alarm(console, res, Ff, fu)
         console.print(_governing_table(sol, res))
         if len(res.displacements) > NAMES_SHOWN:
             console.print(f"{len(res.displacements)} displacements asked for: in --json.")
@@ -407,6 +399,15 @@ def print_brief(console: Console, sol, case_names=None) -> None:
         c = res.stiffness
         cc = ("not run" if c is None else "agrees" if c.ok else "[bold red]FAILED[/bold red]")
         console.print(f"{name}  equilibrium {eq}, cross-check {cc}")
+
+
+def _equilibrium_alarm(console: Console, res, Ff: float, fu: str) -> None:
+    """A loud red panel when the case failed its equilibrium check."""
+    if not res.equilibrium_ok:
+        console.print(Panel(
+            f"EQUILIBRIUM CHECK FAILED: residual {_g(res.equilibrium_residual / Ff)} {fu}. "
+            "The numbers below do not satisfy equilibrium and must not be used.",
+            style="bold red"))
 
 
 def _print_cross_check(console: Console, res) -> None:
