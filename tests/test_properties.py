@@ -17,6 +17,7 @@ many more examples of all three checks.
 
 from __future__ import annotations
 
+import dataclasses
 import random
 import sys
 from pathlib import Path
@@ -122,7 +123,8 @@ def _check_agreement(structure, sol, summary: str) -> None:
 
 
 def _check_flexibility(sol) -> None:
-    f = np.asarray(sol.flexibility, dtype=float)
+    f = sol.flexibility
+    f = np.asarray(f.toarray() if hasattr(f, "toarray") else f, dtype=float)
     if f.size == 0:
         return
     d = 1.0 / np.sqrt(np.diag(f))
@@ -211,6 +213,25 @@ def test_results_do_not_depend_on_the_redundants(family, data, rnd):
     _check_redundant_choice(structure, sol, rnd, case.summary)
 
 
+def _check_local_basis(structure, summary: str) -> None:
+    """The sparse path (local self-stress states) on the same random structure: agreement
+    with the stiffness method and a symmetric positive definite flexibility matrix."""
+    unnamed = dataclasses.replace(structure, redundants=None)
+    local = leastwork.solve(unnamed, basis="local", verify=False)
+    assert local.basis == "local"
+    _check_agreement(unnamed, local, f"{summary} (local basis)")
+    _check_flexibility(local)
+
+
+@pytest.mark.parametrize("family", FAMILIES)
+@FAST
+@given(data=st.data())
+def test_local_basis_agrees_with_the_stiffness_method(family, data):
+    case = data.draw(FAMILIES[family])
+    structure, _ = _stable(case)
+    _check_local_basis(structure, case.summary)
+
+
 # ---------------------------------------------------------------- long runs (-m slow)
 
 
@@ -224,3 +245,4 @@ def test_long_run_all_properties(family, data, rnd):
     _check_agreement(structure, sol, case.summary)
     _check_flexibility(sol)
     _check_redundant_choice(structure, sol, rnd, case.summary)
+    _check_local_basis(structure, case.summary)
