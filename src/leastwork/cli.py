@@ -368,31 +368,27 @@ def _check(args, st, console) -> int:
     import dataclasses
 
     from .report.terminal import print_check
-    from .solve import LOCAL_BASIS_MIN_COLUMNS
+    from .solve import resolve_basis
     from .topology import build_topology, check_stable, choose_redundants, sparse_topology
 
     with _progress("checking") as say:
         say("equilibrium matrix")
         topo = sparse_topology(st)
-        local = args.basis == "local" or (args.basis == "auto" and st.redundants is None
-                                          and len(topo.columns) > LOCAL_BASIS_MIN_COLUMNS)
+        local = resolve_basis(st, st.redundants, args.basis,
+                              "[analysis] redundants") == "local"
         if not local:
             topo = build_topology(st)
             if topo.stable:
                 say("redundants")
                 red = choose_redundants(st, topo, st.redundants)
         else:
-            if st.redundants is not None:
-                raise CaseError("redundants cannot be named with the local self-stress basis; "
-                                "name them with the released basis, or leave them out",
-                                source=st.source, where="[analysis] redundants")
-            from .sparse_solve import find_basis
+            from .sparse_solve import find_basis, raise_unstable
 
             say("self-stress states")
             basis = find_basis(st, topo)
             if not basis.stable:
                 say("what moves")
-                _local_mechanism(st, topo, basis)
+                raise_unstable(st, topo, basis)
             n = len(basis.closing)
             topo = dataclasses.replace(topo, rank=len(topo.dofs), degree=n,
                                        internal=basis.internal, external=n - basis.internal,
@@ -403,27 +399,6 @@ def _check(args, st, console) -> int:
         check_stable(st, topo)
     print_check(console, st, topo, red, basis="local" if local else "released")
     return 0
-
-
-def _local_mechanism(st, topo, basis) -> None:
-    """Raise MechanismError for a structure the self-stress sweep found unstable, naming
-    what moves (densely, as ``solve`` does, when the sweep does not say and the structure
-    has at most ``_DENSE_MOTION_MAX_DOFS`` nodal directions)."""
-    from .topology import build_topology, check_stable
-
-    moving = [topo.dofs[r] for r in basis.motion]
-    if not moving and len(topo.dofs) <= _DENSE_MOTION_MAX_DOFS:
-        check_stable(st, build_topology(st))
-    raise MechanismError(
-        f"{st.source}: the structure is unstable (a mechanism): the released structure "
-        "found by the self-stress sweep is singular. Add a support, a member or remove a "
-        "hinge where it moves.", moving[:12] + ([f"... {len(moving) - 12} more"]
-                                                if len(moving) > 12 else []))
-
-
-#: An unstable structure whose sparse sweep does not say what moves is analysed densely to
-#: name the free motion (as ``solve`` does) up to this many nodal directions.
-_DENSE_MOTION_MAX_DOFS = 3000
 
 
 def _drawing(args, st) -> int:

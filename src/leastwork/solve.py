@@ -29,7 +29,7 @@ from .topology import (
     weakest_mode,
 )
 
-__all__ = ["solve", "solve_cases", "cross_check", "FlexibilitySolver", "CONDITION_WARN", "LOCAL_BASIS_MIN_COLUMNS", "BASES"]
+__all__ = ["solve", "resolve_basis", "solve_cases", "cross_check", "FlexibilitySolver", "CONDITION_WARN", "LOCAL_BASIS_MIN_COLUMNS", "BASES"]
 
 
 #: Above this many basic forces and reactions the automatic choice is the local
@@ -78,16 +78,8 @@ def solve(structure: Structure, redundants=None, *, where: str | None = None,
     """
     st = structure
     names = redundants if redundants is not None else st.redundants
-    if basis not in BASES:
-        raise ValueError(f"basis must be one of {BASES}, not {basis!r}")
-    if basis == "auto":
-        basis = "local" if names is None and _column_count(st) > LOCAL_BASIS_MIN_COLUMNS \
-            else "released"
+    basis = resolve_basis(st, names, basis, where or "[analysis] redundants")
     if basis == "local":
-        if names is not None:
-            raise CaseError("redundants cannot be named with the local self-stress basis; "
-                            "name them with the released basis, or leave them out",
-                            source=st.source, where=where or "[analysis] redundants")
         from .sparse_solve import solve_local
 
         return solve_local(st, verify=verify, progress=progress)
@@ -137,6 +129,22 @@ def solve(structure: Structure, redundants=None, *, where: str | None = None,
     return Solution(st, topo, red, chosen_by_user, B, F, delta, results,
                     warnings=tuple(solver.warnings + notes), released=released,
                     condition=solver.cond, flexibility_solver=solver)
+
+
+def resolve_basis(st: Structure, names, basis: str, where: str) -> str:
+    """"released" or "local" for ``basis`` ("auto": local above ``LOCAL_BASIS_MIN_COLUMNS``
+    basic forces when no redundants are named). Redundants named with the local basis are
+    a CaseError located at ``where``."""
+    if basis not in BASES:
+        raise ValueError(f"basis must be one of {BASES}, not {basis!r}")
+    if basis == "auto":
+        return "local" if names is None and _column_count(st) > LOCAL_BASIS_MIN_COLUMNS \
+            else "released"
+    if basis == "local" and names is not None:
+        raise CaseError("redundants cannot be named with the local self-stress basis; "
+                        "name them with the released basis, or leave them out",
+                        source=st.source, where=where)
+    return basis
 
 
 def _column_count(st: Structure) -> int:

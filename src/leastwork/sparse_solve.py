@@ -31,7 +31,7 @@ from .solve import cross_check, jacobi_scaling, solve_cases
 from .topology import Topology, _keep_order, check_stable, sparse_topology
 
 __all__ = ["solve_local", "SparseReleased", "SparseFlexibilitySolver", "sparse_flexibility",
-           "find_basis", "condition_estimate"]
+           "find_basis", "condition_estimate", "raise_unstable"]
 
 
 def sparse_flexibility(st: Structure, topo: Topology) -> sp.csr_matrix:
@@ -191,7 +191,7 @@ class SparseFlexibilitySolver:
         return D * self._lu.solve(b)
 
 
-def _unstable(st: Structure, topo: Topology, basis: SelfStressBasis):
+def raise_unstable(st: Structure, topo: Topology, basis: SelfStressBasis):
     """MechanismError naming what moves: the freest motion the sweep found, or the dense
     singular values when it found none and the structure is small enough."""
     if not basis.motion and len(topo.dofs) <= 3000:
@@ -218,7 +218,7 @@ def solve_local(st: Structure, *, verify: bool | None = None, progress=None,
     say("self-stress states")
     basis = find_basis(st, topo, **(basis_options or {}))
     if not basis.stable:
-        _unstable(st, topo, basis)
+        raise_unstable(st, topo, basis)
     n = len(basis.closing)
     topo = dataclasses.replace(topo, rank=len(topo.dofs), degree=n, internal=basis.internal,
                                external=n - basis.internal, stable=True)
