@@ -232,7 +232,10 @@ def _run(argv) -> int:
         d = sol.to_dict()
         if cases:
             d["cases"] = {k: v for k, v in d["cases"].items() if k in cases}
-        _emit(json.dumps(d, indent=2) + "\n", args, st)
+        # indented for reading; a large result compactly (Python's fast encoder works
+        # only without indentation, and nobody reads 10^4 members by eye)
+        indent = 2 if len(st.members) <= JSON_INDENT_MAX_MEMBERS else None
+        _emit(json.dumps(d, indent=indent) + "\n", args, st)
     elif fmt_name in ("md", "latex"):
         _emit(_document(sol, cases, fmt_name), args, st)
     elif args.output:
@@ -254,6 +257,9 @@ def _run(argv) -> int:
                   "see the warnings", file=sys.stderr)
     return 0
 
+
+#: Above this many members the JSON result is written without indentation.
+JSON_INDENT_MAX_MEMBERS = 2000
 
 #: Width of text written to a file (the terminal uses its own width).
 _FILE_WIDTH = 100

@@ -218,5 +218,52 @@ def _extreme(pieces, ws, theta, xs, w) -> tuple[float, float]:
 
 def deflection_extreme(st: Structure, topo, res, mid: str) -> tuple[float, float]:
     """Largest transverse (local y) displacement along a beam and its distance from the
-    start node (SI)."""
-    return member_shape(st, topo, res, mid, return_extreme=True)[4]
+    start node (SI): the same deflection polynomials as :func:`member_shape`, integrated in
+    plain floats, maximised over the piece ends and the roots of the slope (exact, with no
+    sampling: a polynomial's extreme on an interval is at an end or a critical point)."""
+    from .fields import _horner, _integral, _plus
+
+    mem = st.members[mid]
+    mr = res.members[mid]
+    L = mr.length
+    c, s = st.direction(mid)
+    u = res.nodal_displacements
+    di = topo.dof_index
+    ws = -s * u[di[f"{mem.start}.x"]] + c * u[di[f"{mem.start}.y"]]
+    we = -s * u[di[f"{mem.end}.x"]] + c * u[di[f"{mem.end}.y"]]
+    kappa_t = res.loading.imposed.get(mid, (0.0, 0.0, 0.0))[1]
+    shear = bool(st.shear and mem.GAs)
+    pieces = []
+    slope0 = w0 = 0.0
+    for k, (a, b, coef) in enumerate(mr.m.pieces()):
+        kap = [cc / mem.EI for cc in coef.tolist()]
+        kap[0] += kappa_t
+        slope = _plus(slope0, _integral(kap, a))
+        if shear:
+            gam = [cc / mem.GAs for cc in mr.v.coef[k].tolist()]
+            rot = [sl - (gam[i] if i < len(gam) else 0.0) for i, sl in enumerate(slope)]
+            wpoly = _plus(w0, _integral(rot, a))
+        else:
+            wpoly = _plus(w0, _integral(slope, a))
+        pieces.append((float(a), float(b), wpoly))
+        slope0, w0 = _horner(slope, b), _horner(wpoly, b)
+    theta = (we - ws - w0) / L
+    best, best_x = ws, 0.0  # w at the start node
+    for a, b, wpoly in pieces:
+        total = list(wpoly)
+        total[0] += ws
+        total[1] += theta
+        cand = [b]
+        der = [i * t for i, t in enumerate(total)][1:]
+        while len(der) > 1 and der[-1] == 0.0:
+            der.pop()
+        if len(der) == 2:
+            cand.append(-der[0] / der[1])
+        elif len(der) > 2:
+            cand += [r.real for r in P.polyroots(der) if abs(r.imag) < 1e-12]
+        for x in cand:
+            if a < x < b or x == b:
+                val = _horner(total, x)
+                if abs(val) > abs(best):
+                    best, best_x = val, x
+    return float(best), float(best_x)
