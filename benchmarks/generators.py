@@ -6,8 +6,8 @@
   pinned along the bottom; degree ``ny * (2 * nx - 1)`` (derivation in its docstring). It
   keeps 10^4 - 10^5 members compact where the long truss gets very slender.
 * :func:`storey_frame` - a rigid frame of ``bays`` bays and ``storeys`` storeys on fixed
-  bases; degree ``3 * bays * storeys + 3 * bays`` (three per closed ring, three per extra
-  fixed base).
+  bases; degree ``3 * bays * storeys``: three per closed ring, the rings of the lowest
+  storey closed through the ground between two fixed bases (common practice).
 * :func:`continuous_beam` - a beam over ``supports`` supports (one pinned, the rest
   rollers); degree ``supports - 2``.
 

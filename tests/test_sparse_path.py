@@ -132,8 +132,8 @@ def test_local_basis_matches_released_basis_on_bundled_cases(path):
 
 # ------------------------------------------------------------------ mid-size vs stiffness
 MID_SIZE = {
-    "braced grid 30x20": lambda: braced_grid(30, 20),  # 2450 bars
-    "storey frame 35x30": lambda: storey_frame(35, 30),  # 2130 beams, 3255 redundants
+    "braced grid 30x20": lambda: braced_grid(30, 20),  # 2420 bars
+    "storey frame 35x30": lambda: storey_frame(35, 30),  # 2130 beams, 3150 redundants
     "king-post beam 500 spans": lambda: _kingpost_beam(500),  # 2500 members
 }
 
@@ -303,3 +303,24 @@ def test_condition_estimate_is_close_and_repeatable():
     exact = w.max() / w.min()
     assert a.condition == b.condition
     assert 0.9 * exact <= a.condition <= exact * (1 + 1e-9)
+
+
+def test_audit_trail_of_many_local_states_is_refused_clearly(tmp_path):
+    """Above AUDIT_MAX_LOCAL_STATES states --steps and report stop with one clear line
+    (exit 2) pointing to --json, the summary and plot; nothing is written."""
+    from leastwork.audit import AUDIT_MAX_LOCAL_STATES, audit_sheet
+
+    text = storey_frame(6, 5)  # three per closed ring (common practice): 3 * 6 * 5 = 90
+    sol = leastwork.solve(structure(text), basis="local", verify=False)
+    assert sol.topology.degree == 90 > AUDIT_MAX_LOCAL_STATES
+    with pytest.raises(CaseError, match="--json"):
+        audit_sheet(sol)
+    case = tmp_path / "frame.toml"
+    case.write_text(text)
+    for args in (["solve", str(case), "--basis", "local", "--steps"],
+                 ["report", str(case), "--basis", "local", "-o", str(tmp_path / "r.html")]):
+        run = subprocess.run([sys.executable, "-m", "leastwork", *args], capture_output=True,
+                             text=True, timeout=120)
+        assert run.returncode == 2, run.stderr
+        assert "90 local self-stress states" in run.stderr and "Traceback" not in run.stderr
+    assert not (tmp_path / "r.html").exists()

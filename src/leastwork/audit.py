@@ -168,10 +168,11 @@ class _Context:
         self.local = sol.basis == "local"
         if self.local and len(self.red) > AUDIT_MAX_LOCAL_STATES:
             raise CaseError(
-                f"the audit trail of {len(self.red)} local self-stress states would run to "
-                f"tens of thousands of lines (at most {AUDIT_MAX_LOCAL_STATES} are written "
-                "out); use --json for every number, or the summary", source=sol.structure.source,
-                where="--steps")
+                f"the audit trail (--steps, report) of {len(self.red)} local self-stress "
+                "states would run to tens of thousands of lines; it is written out for up to "
+                f"{AUDIT_MAX_LOCAL_STATES} states. Use --json for every number, the summary "
+                "for the governing values, or plot for the diagrams",
+                source=sol.structure.source)
         self.B = self._denoise(sol.B.toarray() if self.local else sol.B)
         from .report.jsonout import flexibility_rows
 
