@@ -219,6 +219,10 @@ def _check_local_basis(structure, summary: str) -> None:
     unnamed = dataclasses.replace(structure, redundants=None)
     local = leastwork.solve(unnamed, basis="local", verify=False)
     assert local.basis == "local"
+    A, N = local.topology.A_sparse, local.B.tocsc()
+    if N.shape[1]:  # every state a self-stress to round-off (A N = 0)
+        resid = abs(A @ N).max()
+        assert resid <= 1e-12 * max((abs(A) @ abs(N)).max(), 1e-300), f"{summary}: A N"
     _check_agreement(unnamed, local, f"{summary} (local basis)")
     _check_flexibility(local)
 

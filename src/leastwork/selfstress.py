@@ -18,8 +18,13 @@ Berry, Heath et al., Numer. Math. 47, 1985; Gilbert & Heath 1987):
    for, so that the released structure stays well conditioned).
 3. Any other column is tested on the joints within 1, 2, ... ``_MAX_RADIUS`` members of its
    own: if a least-squares combination of the earlier columns there reproduces it (residual
-   below ``_RANK_TOL`` on the scaled matrix), that combination with the column at 1 is a
+   below ``_LOCAL_TOL`` on the scaled matrix, round-off level), that combination with the column at 1 is a
    local self-stress, and the column is the one whose cut the state closes; else it is kept.
+   A state whose coefficients exceed ``_STATE_BOUND`` (a nearly straight chain carrying the
+   force) is replaced by one found on a larger set of joints if there is one.
+   A column barely independent (residual below ``_GOOD_PIVOT``) is decided after the other
+   columns of its joint, which often makes it dependent instead: keeping it would leave a
+   nearly singular released structure (a nearly straight three-hinged arch).
 4. A state contains its own closing column and only columns processed earlier, so the
    states are triangular in the processing order: independent by construction.
 5. Long-range self-stresses (a truss pinned at both far ends, a ring of many members) are
@@ -46,7 +51,16 @@ from scipy.linalg.lapack import dgelsy
 __all__ = ["SelfStressBasis", "local_self_stress", "equilibrium_scaling"]
 
 _RANK_TOL = 1e-9
+#: A column is reproduced by a local set of columns (a state) when the residual, the column
+#: having unit norm, is at round-off level: an exact self-stress leaves about 1e-15. A
+#: nearly straight chain between two pins is nearly dependent locally (residuals of 1e-9
+#: were seen) while its exact self-stress runs further: such a column is not closed
+#: locally (the long-range step finds its state exactly).
+_LOCAL_TOL = 1e-11
 _GOOD_PIVOT = 1e-3
+#: A local state whose coefficients (on unit-norm columns, the closing one at 1) exceed
+#: this comes from a nearly singular set of joints; larger sets are tried for a better one.
+_STATE_BOUND = 1e2
 _MAX_RADIUS = 3
 #: Entries of a state below this fraction of its largest are round-off of the local
 #: least-squares and dropped.
@@ -127,11 +141,14 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
     done = np.zeros(ncol, dtype=bool)
     kept = np.zeros(ncol, dtype=bool)
     node_cols: list[list[int]] = [[] for _ in range(nnode)]  # processed columns per joint
-    st_rows: list[np.ndarray] = []
-    st_cols: list[np.ndarray] = []
-    st_vals: list[np.ndarray] = []
+    # the states as found, in scaled terms: (column, value, state) triples, state by state;
+    # normalised and pruned all at once at the end
+    raw_cols: list[int] = []
+    raw_y: list[float] = []
+    raw_state: list[int] = []
     closing: list[int] = []
-    member_only: list[bool] = []
+    first_node = [nodes[0] for nodes in column_nodes]
+    last_node = [nodes[-1] for nodes in column_nodes]
 
     def entries(j: int) -> tuple[np.ndarray, np.ndarray]:
         return indices[indptr[j]:indptr[j + 1]], data[indptr[j]:indptr[j + 1]]
@@ -145,12 +162,16 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
 
     def local_state(j: int, now: int):
         """Earlier columns within growing neighbourhoods of column j (joints swept up to
-        ``now``) that reproduce it: (columns, coefficients) or None."""
+        ``now``) that reproduce it: ((columns, coefficients), 0) or (None, the smallest
+        residual seen, column j having unit norm)."""
         rows_j, vals_j = entries(j)
         tried: set[int] = set()
+        least = 1.0
+        steep = None  # a state found only with large coefficients, kept as a last resort
         for ball in _balls(j, now):
             cols = np.array(sorted({c for n in ball for c in node_cols[n]
-                                    if all(q in ball for q in column_nodes[c])}), dtype=int)
+                                    if first_node[c] in ball and last_node[c] in ball}),
+                            dtype=int)
             if not cols.size or cols.size in tried:
                 continue
             tried.add(cols.size)  # the same columns again (a ball that did not grow)
@@ -160,10 +181,20 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
             alone = cols[kept[cols]]
             tries = (alone, cols) if kept_first and alone.size < cols.size else (cols,)
             for use in tries:
-                found = _reproduce(use, rows_j, vals_j)
+                found, resid = _reproduce(use, rows_j, vals_j)
                 if found is not None:
-                    return found
-        return None
+                    size = float(np.max(np.abs(found[1]), initial=0.0))
+                    if size <= _STATE_BOUND:
+                        return found, 0.0
+                    # a nearly singular set of joints (a nearly straight chain between two
+                    # pins) carries the force only with huge others: look further out
+                    if steep is None or size < steep[0]:
+                        steep = (size, found)
+                    continue
+                least = min(least, resid)
+        if steep is not None:
+            return steep[1], 0.0
+        return None, least
 
     def _balls(j: int, now: int):
         """Growing sets of joints around column j (joints swept up to ``now``): first the
@@ -192,9 +223,10 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
 
     def _reproduce(cols: np.ndarray, rows_j: np.ndarray, vals_j: np.ndarray):
         """Least-squares combination x of columns ``cols`` with S[:, cols] x = -S[:, j];
-        (cols, x) when it reproduces column j to the rank tolerance, else None."""
+        ((cols, x), residual) when it reproduces column j to the rank tolerance, else
+        (None, residual)."""
         if not cols.size:
-            return None
+            return None, 1.0
         starts, lens = indptr[cols], indptr[cols + 1] - indptr[cols]
         offsets = np.repeat(starts - np.cumsum(lens) + lens, lens) + np.arange(lens.sum())
         rr, vv = indices[offsets], data[offsets]
@@ -204,21 +236,17 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
         b = np.zeros(len(row_set))
         b[np.searchsorted(row_set, rows_j)] = vals_j
         x = _least_norm(M, -b)
-        if np.linalg.norm(M @ x + b) <= _RANK_TOL * 10:
-            return cols, x
-        return None
+        resid = float(np.linalg.norm(M @ x + b))
+        return ((cols, x) if resid <= _LOCAL_TOL else None), resid
 
     def add_state(j: int, cols: np.ndarray, x: np.ndarray) -> None:
-        # scaled null vector y (y_j = 1) -> physical s = cs * y, then s_j = 1
-        y_cols = np.append(cols, j)
-        y = np.append(x, 1.0)
-        s = cs[y_cols] * y / cs[j]
-        keep = np.abs(s) > _DROP * np.max(np.abs(s))
-        st_rows.append(y_cols[keep])
-        st_cols.append(np.full(int(keep.sum()), len(closing)))
-        st_vals.append(s[keep])
+        """Record the scaled null vector with y_j = 1 on ``cols`` plus j."""
+        raw_cols.extend(cols.tolist())
+        raw_cols.append(j)
+        raw_y.extend(x.tolist())
+        raw_y.append(1.0)
+        raw_state.extend([len(closing)] * (len(cols) + 1))
         closing.append(j)
-        member_only.append(bool(np.all(is_member[y_cols[keep]])))
 
     # 2.-4. the sweep, one joint's columns at a time
     pos = 0
@@ -251,8 +279,22 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
                     rest.append(j)
         else:
             rest = group
+        # 3c. a force barely independent of the earlier ones (residual below
+        # _GOOD_PIVOT) would make the released structure nearly singular (a flat arch):
+        # decide it after the others of its joint, which may make it dependent
+        near = []
         for j in rest:
-            found = local_state(j, t)
+            found, resid = local_state(j, t)
+            if found is not None:
+                add_state(j, *found)
+            elif resid < _GOOD_PIVOT:
+                near.append(j)
+                continue
+            else:
+                kept[j] = True
+            finish(j)
+        for j in near:
+            found, _ = local_state(j, t)
             if found is None:
                 kept[j] = True
             else:
@@ -297,14 +339,10 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
             P = W[pivots, :]
             W = W @ np.linalg.inv(P)
             for i, pk in enumerate(pivots):
-                y = W[:, i]
-                s = cs[K] * y / cs[K[pk]]
-                keep = np.abs(s) > _DROP * np.max(np.abs(s))
-                st_rows.append(K[keep])
-                st_cols.append(np.full(int(keep.sum()), len(closing)))
-                st_vals.append(s[keep])
+                raw_cols.extend(K.tolist())
+                raw_y.extend(W[:, i].tolist())
+                raw_state.extend([len(closing)] * len(K))
                 closing.append(int(K[pk]))
-                member_only.append(bool(np.all(is_member[K[keep]])))
             kept[K[pivots]] = False
             long_range = g
     released = np.flatnonzero(kept)
@@ -315,13 +353,30 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
         stable, motion = _released_is_stable(S[:, released])
     if not stable:
         motion = _free_motion(S[:, released]) or motion
+    states, internal = _assemble_states(raw_cols, raw_y, raw_state, closing, cs, is_member,
+                                        ncol)
+    return SelfStressBasis(states, np.array(closing, dtype=int), released, internal,
+                           long_range, stable, motion)
+
+
+def _assemble_states(raw_cols, raw_y, raw_state, closing, cs, is_member,
+                     ncol: int) -> tuple[sp.csc_matrix, int]:
+    """The states as a sparse matrix (ncol, n) in physical units, each closing column at 1
+    (s = cs * y / cs[closing]), entries below ``_DROP`` of the state's largest dropped; and
+    how many states are made of member forces only (internal)."""
     n = len(closing)
-    states = sp.csc_matrix(
-        (np.concatenate(st_vals) if st_vals else np.zeros(0),
-         (np.concatenate(st_rows) if st_rows else np.zeros(0, int),
-          np.concatenate(st_cols) if st_cols else np.zeros(0, int))), shape=(ncol, n))
-    return SelfStressBasis(states, np.array(closing, dtype=int), released,
-                           int(sum(member_only)), long_range, stable, motion)
+    if not n:
+        return sp.csc_matrix((ncol, 0)), 0
+    rc = np.asarray(raw_cols, dtype=int)
+    state = np.asarray(raw_state, dtype=int)
+    s = cs[rc] * np.asarray(raw_y) / cs[np.asarray(closing, dtype=int)[state]]
+    size = np.abs(s)
+    starts = np.flatnonzero(np.r_[True, state[1:] != state[:-1]])  # states are contiguous
+    keep = size > _DROP * np.maximum.reduceat(size, starts)[state]
+    rows, cols = rc[keep], state[keep]
+    reactions = np.bincount(cols, weights=(~is_member[rows]).astype(float), minlength=n)
+    return (sp.csc_matrix((s[keep], (rows, cols)), shape=(ncol, n)),
+            int(np.count_nonzero(reactions == 0)))
 
 
 def _free_motion(SK: sp.csc_matrix, iterations: int = 8) -> tuple[int, ...]:
