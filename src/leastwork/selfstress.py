@@ -92,7 +92,7 @@ def equilibrium_scaling(A: sp.csc_matrix, dofs, lref: float) -> tuple[np.ndarray
 
 
 def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]],
-                      dof_node: np.ndarray, node_neighbours: list[list[int]],
+                      node_neighbours: list[list[int]],
                       priority: np.ndarray, is_member: np.ndarray, lref: float,
                       start_nodes: list[int], *, tied_joints: bool = True,
                       kept_first: bool = False) -> SelfStressBasis:
@@ -101,7 +101,6 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
     Parameters
     ----------
     column_nodes : joints (indices) each column acts on.
-    dof_node : joint index of each row.
     node_neighbours : joints joined to each joint by a member.
     priority : order of preference to keep a column at the same joint (lower is kept first).
     is_member : True for member basic forces, False for reactions.
@@ -111,7 +110,7 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
     kept_first : in each set of joints, try the kept columns alone before all earlier
         columns (a state of kept columns is unique). Off by default: on braced grids, frames,
         beams and trussed beams it changed neither the states' size nor the conditioning
-        and cost a quarter more time (docs/performance.md).
+        and cost up to 60 % more time (docs/performance.md).
     """
     ndof, ncol = A.shape
     rs, cs = equilibrium_scaling(A, dofs, lref)
@@ -138,7 +137,6 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
     col_order = np.lexsort((priority, col_time))
     indptr, indices, data = S.indptr, S.indices, S.data
     touched = np.zeros(ndof, dtype=bool)
-    done = np.zeros(ncol, dtype=bool)
     kept = np.zeros(ncol, dtype=bool)
     node_cols: list[list[int]] = [[] for _ in range(nnode)]  # processed columns per joint
     # the states as found, in scaled terms: (column, value, state) triples, state by state;
@@ -154,7 +152,6 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
         return indices[indptr[j]:indptr[j + 1]], data[indptr[j]:indptr[j + 1]]
 
     def finish(j: int) -> None:
-        done[j] = True
         rows, _ = entries(j)
         touched[rows] = True
         for n in column_nodes[j]:

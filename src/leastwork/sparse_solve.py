@@ -68,7 +68,6 @@ def find_basis(st: Structure, topo: Topology, *, reactions_first: bool = True,
         else:
             m = st.members[c.owner]
             column_nodes.append((node_ids[m.start], node_ids[m.end]))
-    dof_node = np.array([node_ids[d.rsplit(".", 1)[0]] for d in topo.dofs], dtype=int)
     # reactions kept first at each joint, so that member forces close the states: the
     # released structure then rests on every support (short load paths, well conditioned;
     # keeping member forces first turns a continuous beam into one long cantilever)
@@ -82,7 +81,7 @@ def find_basis(st: Structure, topo: Topology, *, reactions_first: bool = True,
     lengths = [st.length(m) for m in st.members]
     lref = float(np.mean(lengths)) if lengths else 1.0
     starts = [node_ids[s.node] for s in st.supports.values()]
-    return local_self_stress(topo.A_sparse, topo.dofs, column_nodes, dof_node, neighbours,
+    return local_self_stress(topo.A_sparse, topo.dofs, column_nodes, neighbours,
                              priority, is_member, lref, starts, **variant)
 
 
