@@ -313,3 +313,28 @@ def test_cli_bad_input_exits_2_with_one_line(args, phrase, capsys):
     lines = [ln for ln in err.splitlines() if ln.strip()]
     assert len(lines) == 1 and lines[0].startswith("leastwork: error: "), err
     assert phrase in lines[0]
+
+
+def test_reported_quantities_need_memory_proportional_to_their_table():
+    """One row per member force, end moment and reaction: the table is quantities x
+    columns; building it must not hold an identity matrix per quantity (invariant: memory
+    of the result's order; a 410-bar grid once peaked at 600 MB here)."""
+    import sys
+    import tracemalloc
+    from pathlib import Path
+
+    sys.path.insert(0, str(Path(__file__).resolve().parents[1] / "benchmarks"))
+    from generators import braced_grid, structure
+
+    from leastwork.fitup import reported_quantities
+    from leastwork.topology import sparse_topology
+
+    st = structure(braced_grid(10, 10))
+    topo = sparse_topology(st)
+    tracemalloc.start()
+    rep = reported_quantities(st, topo)
+    peak = tracemalloc.get_traced_memory()[1]
+    tracemalloc.stop()
+    table = len(rep.names) * len(topo.columns) * 8  # bytes of the (nq, ncol) table
+    assert rep.rows.shape == (len(rep.names), len(topo.columns))
+    assert peak < 10 * table  # was about 200 x the table (one identity per quantity)

@@ -190,11 +190,18 @@ def reported_quantities(st: Structure, topo) -> Reported:
         dims.append(dim)
         rows.append(row)
 
+    def unit(j: int) -> np.ndarray:
+        # a fresh row, not a view of an identity matrix (a view would keep the whole
+        # ncol x ncol matrix alive for every quantity: gigabytes on a thousand members)
+        row = np.zeros(ncol)
+        row[j] = 1.0
+        return row
+
     for mid in st.members:
-        add(mid, "members", "force", np.eye(ncol)[axial_column(st, topo, mid)])
+        add(mid, "members", "force", unit(axial_column(st, topo, mid)))
     for j, c in enumerate(topo.columns):
         if c.kind in ("start_m", "end_m"):
-            add(c.name, "moments", "moment", np.eye(ncol)[j])
+            add(c.name, "moments", "moment", unit(j))
     for name, (row, dim) in reaction_rows(st, topo).items():
         add(name, "reactions", dim, row)
     return Reported(tuple(names), tuple(groups), tuple(dims),
