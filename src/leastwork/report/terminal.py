@@ -347,7 +347,7 @@ def print_short_summary(console: Console, sol, case_names=None) -> None:
                   + (f": [bold]{escape(_name_list(names, NAMES_SHOWN))}[/bold]"
                      if names else ""), highlight=False)
     if names:
-        est = "estimate (1-norm) " if sol.basis == "local" else ""
+        est = "estimate " if sol.basis == "local" else ""
         console.print(f"Flexibility matrix: condition number {est}{_g(sol.condition, 3)} "
                       "(after scaling its diagonal to one).")
     for w in sol.warnings[:NAMES_SHOWN]:
@@ -369,9 +369,15 @@ def print_short_summary(console: Console, sol, case_names=None) -> None:
     if st.combinations:
         console.print(f"The envelope over the {len(st.combinations)} combination(s) is in "
                       "--json; each combination is summarised above as a load case.")
+    from ..audit import AUDIT_MAX_LOCAL_STATES
+
+    steps = ("--steps the whole audit trail" if sol.basis != "local"
+             or len(sol.redundant_columns) <= AUDIT_MAX_LOCAL_STATES
+             else f"plot the diagrams (the audit trail, --steps, is written for up to "
+                  f"{AUDIT_MAX_LOCAL_STATES} local states)")
     console.print(f"[bold]Short summary[/bold] (more than {SUMMARY_MAX_MEMBERS} members or "
                   f"{SUMMARY_MAX_REDUNDANTS} redundants): --json gives every member, reaction "
-                  "and redundant; --steps the whole audit trail.")
+                  f"and redundant; {steps}.")
     console.print(Panel(CAUTION, title="Caution", style="yellow"))
 
 
