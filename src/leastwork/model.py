@@ -21,6 +21,7 @@ __all__ = [
     "Member",
     "Restraint",
     "Support",
+    "reaction_components",
     "NodalLoad",
     "PointLoad",
     "DistributedLoad",
@@ -130,6 +131,22 @@ class Support:
     node: str
     restraints: tuple[Restraint, ...]
     surface_angle: float | None = None
+
+
+def reaction_components(support: Support, value_of) -> dict[str, float]:
+    """The reaction a support applies, in the result's components: ``value_of(restraint)``
+    (N, N*m) summed into x, y, rz; an inclined roller's normal force adds its x and y
+    parts and is also given as "n" (its value along the surface normal)."""
+    out: dict[str, float] = {}
+    for r in support.restraints:
+        val = value_of(r)
+        if r.direction == "n":
+            out["x"] = out.get("x", 0.0) + val * r.vector[0]
+            out["y"] = out.get("y", 0.0) + val * r.vector[1]
+            out["n"] = val
+        else:
+            out[r.direction] = out.get(r.direction, 0.0) + val
+    return out
 
 
 @dataclass(frozen=True)

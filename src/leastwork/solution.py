@@ -9,7 +9,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from .fields import Piecewise, gauss_integral
-from .model import DistributedLoad, NodalLoad, PointLoad, Structure
+from .model import DistributedLoad, NodalLoad, PointLoad, Structure, reaction_components
 
 __all__ = ["MemberResult", "CaseResult", "Solution", "EQUILIBRIUM_RTOL", "member_result"]
 
@@ -115,19 +115,12 @@ class CaseResult:
               deformations, released):
         members = {mid: member_result(st, topo, mid, s, loading.particulars.get(mid))
                    for mid in st.members}
-        reactions: dict[str, dict[str, float]] = {}
-        for sup in st.supports.values():
-            out: dict[str, float] = {}
-            for r in sup.restraints:
-                j = topo.column_index.get(r.name)
-                val = float(s[j]) if j is not None else 0.0
-                if r.direction == "n":
-                    out["x"] = out.get("x", 0.0) + val * r.vector[0]
-                    out["y"] = out.get("y", 0.0) + val * r.vector[1]
-                    out["n"] = val
-                else:
-                    out[r.direction] = out.get(r.direction, 0.0) + val
-            reactions[sup.node] = out
+        def value_of(r) -> float:
+            j = topo.column_index.get(r.name)
+            return float(s[j]) if j is not None else 0.0
+
+        reactions = {sup.node: reaction_components(sup, value_of)
+                     for sup in st.supports.values()}
         resid, scale = _equilibrium(st, topo, loading, members, reactions)
         scale = max(scale, FORCE_FLOOR)
         res = cls(loading.name, X, load_terms, Delta, s, s0, nodal_disp, members, reactions,

@@ -48,6 +48,7 @@ from .model import (
     Settlement,
     Structure,
     TemperatureLoad,
+    reaction_components,
     rotational_nodes,
 )
 
@@ -664,19 +665,10 @@ def _reactions(st: Structure, U: np.ndarray, force_of: dict[str, float],
     "x", "y" components for an inclined roller."""
     spring_force = {r.name: -r.stiffness * (sum(a * U[d] for d, a in row.items()) - ground)
                     for r, row, ground in springs}
-    reactions: dict[str, dict[str, float]] = {}
-    for sup in st.supports.values():
-        out: dict[str, float] = {}
-        for r in sup.restraints:
-            val = spring_force.get(r.name, 0.0) if r.is_spring else force_of.get(r.name, 0.0)
-            if r.direction == "n":
-                out["x"] = out.get("x", 0.0) + val * r.vector[0]
-                out["y"] = out.get("y", 0.0) + val * r.vector[1]
-                out["n"] = val
-            else:
-                out[r.direction] = out.get(r.direction, 0.0) + val
-        reactions[sup.node] = out
-    return reactions
+    def value_of(r) -> float:
+        return spring_force.get(r.name, 0.0) if r.is_spring else force_of.get(r.name, 0.0)
+
+    return {sup.node: reaction_components(sup, value_of) for sup in st.supports.values()}
 
 
 def _end_forces(U: np.ndarray, elements: dict[str, tuple], force_of: dict[str, float]):
