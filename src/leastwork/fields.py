@@ -49,11 +49,7 @@ class Piecewise:
         breaks = self.breaks
         k = int(np.searchsorted(breaks, x, side="right" if side == "right" else "left")) - 1
         k = min(max(k, 0), len(breaks) - 2)
-        row = self.coef[k].tolist()
-        acc = row[-1] + x * 0.0
-        for c in reversed(row[:-1]):
-            acc = c + acc * x
-        return np.float64(acc)
+        return np.float64(_horner(self.coef[k].tolist(), x))
 
     def pieces(self):
         for k in range(len(self.breaks) - 1):

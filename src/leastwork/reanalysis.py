@@ -14,7 +14,13 @@ from __future__ import annotations
 from .errors import CaseError
 from .model import Structure
 from .solution import Solution
-from .solve import FlexibilitySolver, _check_targets, cross_check, solve_cases
+from .solve import (
+    FlexibilitySolver,
+    _check_targets,
+    cross_check,
+    flexibility_matrix,
+    solve_cases,
+)
 
 __all__ = ["reanalyse", "layout_differences"]
 
@@ -74,16 +80,12 @@ def reanalyse(previous: Solution, structure: Structure, *, verify: bool | None =
         from .sparse_solve import SparseFlexibilitySolver, sparse_flexibility
 
         F = sparse_flexibility(st, topo)
-        delta = (B.T @ F @ B).tocsr()
-        delta = ((delta + delta.T) * 0.5).tocsr()
-        solver = SparseFlexibilitySolver(delta, names, st.source)
     else:
         from .energy import flexibility_blocks
 
         F = flexibility_blocks(st, topo)
-        delta = B.T @ F @ B
-        delta = 0.5 * (delta + delta.T)
-        solver = FlexibilitySolver(delta, names, st.source)
+    delta = flexibility_matrix(B, F)
+    solver = (SparseFlexibilitySolver if local else FlexibilitySolver)(delta, names, st.source)
     results = solve_cases(st, topo, red, B, F, previous.released, solver, local=local)
     notes = cross_check(st, results, solver.cond, verify)
     return Solution(st, topo, red, previous.chosen_by_user, B, F, delta, results,

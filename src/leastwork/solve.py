@@ -29,7 +29,7 @@ from .topology import (
     weakest_mode,
 )
 
-__all__ = ["solve", "resolve_basis", "solve_cases", "cross_check", "FlexibilitySolver", "CONDITION_WARN", "LOCAL_BASIS_MIN_COLUMNS", "BASES"]
+__all__ = ["solve", "resolve_basis", "solve_cases", "flexibility_matrix", "cross_check", "FlexibilitySolver", "CONDITION_WARN", "LOCAL_BASIS_MIN_COLUMNS", "BASES"]
 
 
 #: Above this many basic forces and reactions the automatic choice is the local
@@ -210,10 +210,19 @@ def _flexibility(st: Structure, topo, red: list[int], F: np.ndarray):
     """Released structure, unit states B, flexibility delta and its solver for ``red``."""
     released = ReleasedStructure(topo, red)
     B = released.unit_redundant_states()
-    delta = B.T @ F @ B
-    delta = 0.5 * (delta + delta.T)
+    delta = flexibility_matrix(B, F)
     solver = FlexibilitySolver(delta, [topo.columns[j].name for j in red], st.source)
     return released, B, delta, solver
+
+
+def flexibility_matrix(B, F):
+    """delta = B' F B (Maxwell-Betti: symmetric; the round-off of the product is averaged
+    out), dense or scipy.sparse CSR as ``B`` and ``F`` are."""
+    delta = B.T @ F @ B
+    if hasattr(delta, "tocsr"):
+        delta = delta.tocsr()
+        return ((delta + delta.T) * 0.5).tocsr()
+    return 0.5 * (delta + delta.T)
 
 
 def _better_choice(st: Structure, topo, F: np.ndarray, red: list[int], cond: float):

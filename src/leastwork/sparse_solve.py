@@ -27,7 +27,7 @@ from .errors import CaseError, MechanismError
 from .model import Structure
 from .selfstress import SelfStressBasis, local_self_stress
 from .solution import Solution
-from .solve import cross_check, jacobi_scaling, solve_cases
+from .solve import cross_check, flexibility_matrix, jacobi_scaling, solve_cases
 from .topology import Topology, _keep_order, check_stable, sparse_topology
 
 __all__ = ["solve_local", "SparseReleased", "SparseFlexibilitySolver", "sparse_flexibility",
@@ -226,8 +226,7 @@ def solve_local(st: Structure, *, verify: bool | None = None, progress=None,
     say("flexibility")
     F = sparse_flexibility(st, topo)
     N = basis.states.tocsc()
-    delta = (N.T @ F @ N).tocsr()
-    delta = ((delta + delta.T) * 0.5).tocsr()
+    delta = flexibility_matrix(N, F)
     names = [topo.columns[j].name for j in basis.closing]
     solver = SparseFlexibilitySolver(delta, names, st.source)
     notes: list[str] = []
