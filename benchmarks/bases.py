@@ -50,6 +50,7 @@ from generators import (  # noqa: E402
 from scale import difference, force_summary  # noqa: E402
 
 import leastwork  # noqa: E402
+from leastwork.selfstress import members_per_state  # noqa: E402
 from leastwork.sparse_solve import solve_local  # noqa: E402
 from leastwork.stiffness import solve_stiffness  # noqa: E402
 from leastwork.topology import build_topology, choose_redundants  # noqa: E402
@@ -85,14 +86,10 @@ BASES = {
 
 
 def _members_per_state(sol) -> tuple[float, int]:
-    B = np.asarray(sol.B.toarray() if hasattr(sol.B, "toarray") else sol.B)
-    cols = sol.topology.columns
-    counts = []
-    scale = np.max(np.abs(B), axis=0, initial=0.0)
-    for i in range(B.shape[1]):
-        rows = np.flatnonzero(np.abs(B[:, i]) > 1e-12 * scale[i])
-        counts.append(len({cols[k].owner for k in rows if cols[k].kind != "reaction"}))
-    return (float(np.mean(counts)), int(max(counts))) if counts else (0.0, 0)
+    """Mean and largest members a state touches (entries above 1e-12 of the state's
+    largest: the released basis's dense states carry round-off)."""
+    counts = members_per_state(sol.B, sol.topology.columns, rel=1e-12)
+    return (float(np.mean(counts)), int(counts.max())) if counts.size else (0.0, 0)
 
 
 def _flexibility_stats(sol) -> tuple[float, float, float]:

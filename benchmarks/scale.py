@@ -65,6 +65,7 @@ sys.path.insert(0, str(Path(__file__).resolve().parent))
 from generators import FAMILIES, structure  # noqa: E402
 
 import leastwork  # noqa: E402
+from leastwork.solve import column_count  # noqa: E402
 from leastwork.stiffness import solve_stiffness  # noqa: E402
 
 __all__ = ["Row", "Run", "members_of", "sizes", "measure", "measure_fresh", "difference", "force_summary",
@@ -317,12 +318,6 @@ def difference(ours: Summary, theirs: Summary, lref: float) -> float:
 
 # ----------------------------------------------------------------------- one size
 
-def _column_count(st) -> int:
-    return sum(1 if not m.is_beam else 1 + (not m.hinge_start) + (not m.hinge_end)
-               for m in st.members.values()) + sum(len(s.restraints)
-                                                   for s in st.supports.values())
-
-
 def _warm_reader() -> None:
     """Read one tiny case of every family, so that the modules the reader imports only when
     first used (the unit registry: about 7 MiB) count as imported, not as the model's."""
@@ -350,7 +345,7 @@ def measure(family: str, size: int, *, dense: bool = False) -> Row:
         # every copy is forked before any answer is read back, so that none inherits one
         pending = [start(lambda: _run_force(st, "local"), "force"),
                    start(lambda: _run_stiffness(st), "stiffness")]
-        if dense and _column_count(st) <= DENSE_MAX_COLUMNS:
+        if dense and column_count(st) <= DENSE_MAX_COLUMNS:
             pending.append(start(lambda: _run_force(st, "released"), "dense"))
         force, stiff, old = [get() for get in pending] + [Run()] * (3 - len(pending))
     lref = max((st.length(m) for m in st.members), default=1.0)

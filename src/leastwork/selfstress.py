@@ -48,7 +48,7 @@ import numpy as np
 import scipy.sparse as sp
 from scipy.linalg.lapack import dgelsy
 
-__all__ = ["SelfStressBasis", "local_self_stress", "equilibrium_scaling"]
+__all__ = ["SelfStressBasis", "local_self_stress", "equilibrium_scaling", "members_per_state"]
 
 _RANK_TOL = 1e-9
 #: A column is reproduced by a local set of columns (a state) when the residual, the column
@@ -79,6 +79,25 @@ class SelfStressBasis:
     long_range: int  #: states found by the global step (5)
     stable: bool  #: the released structure is non-singular (so the structure is stable)
     motion: tuple[int, ...] = ()  #: row indices moving freely, when unstable
+
+
+def members_per_state(B, columns, rel: float = 0.0) -> np.ndarray:
+    """How many members each state (column of ``B``, dense or sparse) touches: those with a
+    basic force above ``rel`` times the state's largest entry (0: every stored entry).
+    ``columns`` are the topology's columns (owner and kind of each basic force)."""
+    Bc = sp.csc_matrix(B)
+    ids: dict[str, int] = {}
+    owner = np.array([ids.setdefault(c.owner, len(ids)) if c.kind != "reaction" else -1
+                      for c in columns])
+    counts = np.zeros(Bc.shape[1], dtype=int)
+    for i in range(Bc.shape[1]):
+        rows = Bc.indices[Bc.indptr[i]:Bc.indptr[i + 1]]
+        vals = np.abs(Bc.data[Bc.indptr[i]:Bc.indptr[i + 1]])
+        if rel and vals.size:
+            rows = rows[vals > rel * vals.max()]
+        touched = owner[rows]
+        counts[i] = len(set(touched[touched >= 0].tolist()))
+    return counts
 
 
 def equilibrium_scaling(A: sp.csc_matrix, dofs, lref: float) -> tuple[np.ndarray, np.ndarray]:

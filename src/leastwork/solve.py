@@ -29,7 +29,7 @@ from .topology import (
     weakest_mode,
 )
 
-__all__ = ["solve", "resolve_basis", "solve_cases", "flexibility_matrix", "cross_check", "FlexibilitySolver", "CONDITION_WARN", "LOCAL_BASIS_MIN_COLUMNS", "BASES"]
+__all__ = ["solve", "resolve_basis", "column_count", "solve_cases", "flexibility_matrix", "cross_check", "FlexibilitySolver", "CONDITION_WARN", "LOCAL_BASIS_MIN_COLUMNS", "BASES"]
 
 
 #: Above this many basic forces and reactions the automatic choice is the local
@@ -138,7 +138,7 @@ def resolve_basis(st: Structure, names, basis: str, where: str) -> str:
     if basis not in BASES:
         raise ValueError(f"basis must be one of {BASES}, not {basis!r}")
     if basis == "auto":
-        return "local" if names is None and _column_count(st) > LOCAL_BASIS_MIN_COLUMNS \
+        return "local" if names is None and column_count(st) > LOCAL_BASIS_MIN_COLUMNS \
             else "released"
     if basis == "local" and names is not None:
         raise CaseError("redundants cannot be named with the local self-stress basis; "
@@ -147,7 +147,7 @@ def resolve_basis(st: Structure, names, basis: str, where: str) -> str:
     return basis
 
 
-def _column_count(st: Structure) -> int:
+def column_count(st: Structure) -> int:
     """Basic forces and reactions of the structure, counted without building anything."""
     n = 0
     for m in st.members.values():

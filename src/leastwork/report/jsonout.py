@@ -166,19 +166,13 @@ def solution_to_dict(sol) -> dict:
 
 def _members_per_state(sol) -> dict:
     """Smallest, mean and largest number of members a local state touches."""
-    topo = sol.topology
-    ids = {mid: k for k, mid in enumerate(sol.structure.members)}
-    owner = np.array([ids[c.owner] if c.kind != "reaction" else -1 for c in topo.columns])
-    is_member = np.array([c.kind != "reaction" for c in topo.columns])
-    B = sol.B.tocsc()
-    counts = []
-    for i in range(B.shape[1]):
-        rows = B.indices[B.indptr[i]:B.indptr[i + 1]]
-        counts.append(len(set(owner[rows[is_member[rows]]].tolist())))
-    if not counts:
+    from ..selfstress import members_per_state
+
+    counts = members_per_state(sol.B, sol.topology.columns)
+    if not counts.size:
         return {"min": 0, "mean": 0.0, "max": 0}
-    return {"min": int(min(counts)), "mean": _num(float(np.mean(counts))),
-            "max": int(max(counts))}
+    return {"min": int(counts.min()), "mean": _num(float(np.mean(counts))),
+            "max": int(counts.max())}
 
 
 def _envelope_dict(sol, combos, Ff, Lf, Mf) -> dict:
