@@ -371,35 +371,24 @@ def _check(args, st, console) -> int:
     redundants), or with ``--basis local``, the answer comes from the sparse self-stress
     sweep (:func:`leastwork.sparse_solve.find_basis`): no dense singular values.
     """
-    import dataclasses
-
     from .report.terminal import print_check
     from .solve import resolve_basis
-    from .topology import build_topology, check_stable, choose_redundants, sparse_topology
+    from .topology import build_topology, check_stable, choose_redundants
 
     with _progress("checking") as say:
-        say("equilibrium matrix")
-        topo = sparse_topology(st)
         local = resolve_basis(st, st.redundants, args.basis,
                               "[analysis] redundants") == "local"
-        if not local:
+        if local:
+            from .sparse_solve import local_topology
+
+            topo, basis = local_topology(st, say)
+            red = [int(j) for j in basis.closing]
+        else:
+            say("equilibrium matrix")
             topo = build_topology(st)
             if topo.stable:
                 say("redundants")
                 red = choose_redundants(st, topo, st.redundants)
-        else:
-            from .sparse_solve import find_basis, raise_unstable
-
-            say("self-stress states")
-            basis = find_basis(st, topo)
-            if not basis.stable:
-                say("what moves")
-                raise_unstable(st, topo, basis)
-            n = len(basis.closing)
-            topo = dataclasses.replace(topo, rank=len(topo.dofs), degree=n,
-                                       internal=basis.internal, external=n - basis.internal,
-                                       stable=True)
-            red = [int(j) for j in basis.closing]
     if not topo.stable:
         print_check(console, st, topo, [])
         check_stable(st, topo)

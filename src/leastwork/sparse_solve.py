@@ -31,7 +31,7 @@ from .solve import cross_check, flexibility_matrix, jacobi_scaling, solve_cases
 from .topology import Topology, _keep_order, check_stable, sparse_topology
 
 __all__ = ["solve_local", "SparseReleased", "SparseFlexibilitySolver", "sparse_flexibility",
-           "find_basis", "condition_estimate", "raise_unstable"]
+           "find_basis", "condition_estimate", "raise_unstable", "local_topology"]
 
 
 def sparse_flexibility(st: Structure, topo: Topology) -> sp.csr_matrix:
@@ -207,20 +207,30 @@ def raise_unstable(st: Structure, topo: Topology, basis: SelfStressBasis):
         "moves.", moving)
 
 
-def solve_local(st: Structure, *, verify: bool | None = None, progress=None,
-                basis_options: dict | None = None) -> Solution:
-    """Solve by the force method on a local self-stress basis (see module docstring).
-    ``basis_options``: keywords of :func:`find_basis`, to compare variants only."""
-    say = progress or (lambda phase: None)
+def local_topology(st: Structure, say=None, **basis_options
+                   ) -> tuple[Topology, SelfStressBasis]:
+    """The sparse topology with its degree, internal/external split and stability decided
+    by the local self-stress basis, and that basis; a mechanism raises MechanismError
+    naming what moves. ``say`` is called with each phase's name."""
+    say = say or (lambda phase: None)
     say("equilibrium matrix")
     topo = sparse_topology(st)
     say("self-stress states")
-    basis = find_basis(st, topo, **(basis_options or {}))
+    basis = find_basis(st, topo, **basis_options)
     if not basis.stable:
         raise_unstable(st, topo, basis)
     n = len(basis.closing)
     topo = dataclasses.replace(topo, rank=len(topo.dofs), degree=n, internal=basis.internal,
                                external=n - basis.internal, stable=True)
+    return topo, basis
+
+
+def solve_local(st: Structure, *, verify: bool | None = None, progress=None,
+                basis_options: dict | None = None) -> Solution:
+    """Solve by the force method on a local self-stress basis (see module docstring).
+    ``basis_options``: keywords of :func:`find_basis`, to compare variants only."""
+    say = progress or (lambda phase: None)
+    topo, basis = local_topology(st, say, **(basis_options or {}))
     say("released structure")
     released = SparseReleased(topo, basis.released)
     say("flexibility")
