@@ -79,6 +79,11 @@ class SelfStressBasis:
     long_range: int  #: states found by the global step (5)
     stable: bool  #: the released structure is non-singular (so the structure is stable)
     motion: tuple[int, ...] = ()  #: row indices moving freely, when unstable
+    #: sparse LU (scipy SuperLU) of the scaled released structure diag(r) A0 diag(c), with
+    #: r = ``row_scale`` and c = ``column_scale`` (per released column); None if unstable
+    factor: object = None
+    row_scale: np.ndarray | None = None
+    column_scale: np.ndarray | None = None
 
 
 def members_per_state(B, columns, rel: float = 0.0) -> np.ndarray:
@@ -362,17 +367,12 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
             kept[K[pivots]] = False
             long_range = g
     released = np.flatnonzero(kept)
-    stable, motion = True, ()
-    if len(released) != ndof:
-        stable = False
-    else:
-        stable, motion = _released_is_stable(S[:, released])
-    if not stable:
-        motion = _free_motion(S[:, released]) or motion
+    factor = _released_factor(S[:, released]) if len(released) == ndof else None
+    motion = () if factor is not None else _free_motion(S[:, released])
     states, internal = _assemble_states(raw_cols, raw_y, raw_state, closing, cs, is_member,
                                         ncol)
     return SelfStressBasis(states, np.array(closing, dtype=int), released, internal,
-                           long_range, stable, motion)
+                           long_range, factor is not None, motion, factor, rs, cs[released])
 
 
 def _assemble_states(raw_cols, raw_y, raw_state, closing, cs, is_member,
@@ -430,20 +430,16 @@ def _least_norm(M: np.ndarray, b: np.ndarray) -> np.ndarray:
     return x[:n, 0]
 
 
-def _released_is_stable(S0: sp.csc_matrix) -> tuple[bool, tuple[int, ...]]:
-    """Sparse LU of the scaled released structure; a pivot below the rank tolerance means a
-    mechanism, moving the rows of those pivots."""
+def _released_factor(S0: sp.csc_matrix):
+    """Sparse LU of the scaled (square) released structure, or None when it is singular: a
+    pivot below the rank tolerance of the largest means a mechanism."""
     from scipy.sparse.linalg import splu
 
     try:
         lu = splu(S0.tocsc())
     except RuntimeError:
-        return False, ()
+        return None
     d = np.abs(lu.U.diagonal())
-    if d.size == 0:
-        return True, ()
-    small = np.flatnonzero(d <= _RANK_TOL * max(1.0, float(d.max())))
-    if small.size == 0:
-        return True, ()
-    rows = np.argsort(lu.perm_r)[small]
-    return False, tuple(int(r) for r in rows)
+    if d.size and np.any(d <= _RANK_TOL * max(1.0, float(d.max()))):
+        return None
+    return lu

@@ -109,20 +109,16 @@ def condition_estimate(S: sp.spmatrix, solve, iterations: int = 25) -> float:
 
 
 class SparseReleased:
-    """The released structure (square, statically determinate), sparse LU factorised once,
-    row- and column-scaled as for the rank decisions."""
+    """The released structure (square, statically determinate): the sparse LU the sweep
+    made of it when it checked its stability, row- and column-scaled as for the rank
+    decisions."""
 
-    def __init__(self, topo: Topology, keep: np.ndarray):
-        from .selfstress import equilibrium_scaling
-
+    def __init__(self, topo: Topology, basis: SelfStressBasis):
         self.topo = topo
-        self.keep = np.asarray(keep)
+        self.keep = np.asarray(basis.released)
         self.ncol = len(topo.columns)
-        A0 = topo.A_sparse[:, self.keep]
-        lref = 1.0
-        self.rs, self.cs = equilibrium_scaling(A0, topo.dofs, lref)
-        S0 = (sp.diags(self.rs) @ A0 @ sp.diags(self.cs)).tocsc()
-        self._lu = splu(S0)
+        # the factor the stability test of the sweep made: scaled A0 = diag(rs) A0 diag(cs)
+        self._lu, self.rs, self.cs = basis.factor, basis.row_scale, basis.column_scale
         self.nonzeros = int(self._lu.L.nnz + self._lu.U.nnz)
 
     def forces(self, rhs: np.ndarray) -> np.ndarray:
@@ -232,7 +228,7 @@ def solve_local(st: Structure, *, verify: bool | None = None, progress=None,
     say = progress or (lambda phase: None)
     topo, basis = local_topology(st, say, **(basis_options or {}))
     say("released structure")
-    released = SparseReleased(topo, basis.released)
+    released = SparseReleased(topo, basis)
     say("flexibility")
     F = sparse_flexibility(st, topo)
     N = basis.states.tocsc()
