@@ -7,11 +7,27 @@ expression that comes out dimensionless) is read in the case units of the field 
 
 from __future__ import annotations
 
+import cmath
+import io
 import math
+import re
+import sys
+import tokenize
 from dataclasses import dataclass
 from functools import lru_cache
 
-__all__ = ["UnitSystem", "DIMENSIONS", "ureg"]
+from .plaintext import ECHO_LIMIT, literal
+
+__all__ = ["UnitSystem", "DIMENSIONS", "ureg", "parse_quantity", "QuantityError",
+           "QUANTITY_LIMIT", "UNIT_POWER_LIMIT"]
+
+#: Longest quantity string read (characters, after stripping the ends). The longest
+#: expression a case needs is a few dozen characters; the unit parser's cost grows with the
+#: square of the length (12 s for 20,000 digits in a row).
+QUANTITY_LIMIT = 200
+#: Largest power (in size) a quantity with a unit may be raised to; m**4 (a second moment
+#: of area) is the highest any field needs.
+UNIT_POWER_LIMIT = 10
 
 
 @lru_cache(maxsize=1)
@@ -105,7 +121,8 @@ class UnitSystem:
             return float(q.to(target).magnitude)
         except Exception as exc:  # pint.DimensionalityError and friends
             raise ValueError(
-                f"expected {with_article(dimension)} (e.g. {example_for(dimension)}), got {format_quantity(q)}"
+                f"expected {with_article(dimension)} (e.g. {example_for(dimension)}), got "
+                f"{literal(format_quantity(q), ECHO_LIMIT)}"
             ) from exc
 
 
@@ -130,13 +147,18 @@ def _length_si(unit: str) -> float:
 def check_unit(unit: str, kind: str) -> None:
     """Raise ValueError unless ``unit`` is a unit of ``kind`` ('force' or 'length')."""
     reg = ureg()
+    shown = f"'{literal(unit, ECHO_LIMIT)}'"
     try:
+        parse_quantity(unit)  # the same steps as the unit parser below, checked
         q = reg.Quantity(1.0, unit)
-    except Exception as exc:
-        raise ValueError(f"unknown unit {unit!r}; expected a {kind} unit such as "
-                         f"{'kN' if kind == 'force' else 'm'}") from exc
+    except QuantityError as exc:
+        raise ValueError(f"unknown unit {shown} ({exc}); expected a {kind} unit such as "
+                         f"{'kN' if kind == 'force' else 'm'}") from None
+    except Exception:
+        raise ValueError(f"unknown unit {shown}; expected a {kind} unit such as "
+                         f"{'kN' if kind == 'force' else 'm'}") from None
     if not q.check(_PINT_DIM[kind]):
-        raise ValueError(f"{unit!r} is not a {kind} unit (e.g. {'kN, N, lbf' if kind == 'force' else 'm, mm, ft'})")
+        raise ValueError(f"{shown} is not a {kind} unit (e.g. {'kN, N, lbf' if kind == 'force' else 'm, mm, ft'})")
 
 
 _EXAMPLES = {
@@ -179,3 +201,245 @@ def format_quantity(q) -> str:
 
 def finite(x: float) -> bool:
     return math.isfinite(x)
+
+
+# ----------------------------------------------------------------- reading quantities
+class QuantityError(ValueError):
+    """A quantity string that cannot be read. The message says what is wrong without
+    repeating the string (the caller names it); ``kind`` is ``"unknown"`` when a name is
+    neither a parameter nor a unit (``name`` holds it), ``"offset"`` for an offset
+    temperature unit (degC, degF), else ``None``."""
+
+    def __init__(self, message: str, kind: str | None = None, name: str | None = None):
+        super().__init__(message)
+        self.kind = kind
+        self.name = name
+
+
+#: A decimal number as written in a quantity (digits may be grouped by "_", as in 2_500).
+_DIGITS = r"\d(?:_?\d)*"
+_NUMBER = rf"(?:{_DIGITS}(?:\.(?:{_DIGITS})?)?|\.{_DIGITS})(?:[eE][-+]?\d+)?"
+_NUMBER_TOKEN = re.compile(rf"{_NUMBER}\Z")
+#: A number, a name or a closing parenthesis, then only white space, then a number: pint
+#: would multiply them ("2 500 mm" is 2 × 500 mm).
+_SIDE_BY_SIDE = re.compile(rf"((?<![\w.])(?:{_NUMBER}|[^\W\d]\w*)|\))(\s+)({_NUMBER})")
+#: "1/K" after a number ("1.2e-5 1/K") is the usual way to write a reciprocal unit
+_RECIPROCAL = re.compile(r"\s*/\s*[^\W\d]")
+#: Operators a quantity may use (after ^ is read as **); pint would silently skip others.
+_OPERATORS = frozenset({"+", "-", "*", "/", "**", "(", ")"})
+_LAYOUT = frozenset({tokenize.NEWLINE, tokenize.NL, tokenize.INDENT, tokenize.DEDENT,
+                     tokenize.ENDMARKER, tokenize.ENCODING})
+_ALLOWED = "numbers, units, parameter names, + - * / ** ^ and parentheses"
+
+
+def parse_quantity(text: str, **values):
+    """Read ``text`` as a pint quantity: a number, units, names of ``values`` (pint
+    quantities, the case parameters), + - * / ** (or ^) and parentheses.
+
+    No input can make this slow or fatal. Before anything is computed: at most
+    :data:`QUANTITY_LIMIT` characters; no number directly after a number, a unit or ")"
+    ("2 500 mm" would be 2 × 500 mm); no other operators or characters. Then pint's own
+    steps (its preprocessing, tokens, evaluation tree, values of the tokens and operators)
+    run one operation at a time, each checked first: a power whose result would be beyond
+    the floating-point range (about 1.8e308; "10**10**10" would otherwise build an integer
+    of ten billion digits), a quantity with a unit raised to a power above
+    :data:`UNIT_POWER_LIMIT` in size, or an exponent with a unit is refused.
+
+    Raises
+    ------
+    QuantityError
+        With a plain statement of what is not allowed.
+    """
+    expression = text.strip()
+    if len(expression) > QUANTITY_LIMIT:
+        raise QuantityError(f"a quantity is at most {QUANTITY_LIMIT} characters long; this "
+                            f"one has {len(expression)}")
+    _refuse_side_by_side(expression)
+    reg = ureg()
+    for step in reg.preprocessors:
+        expression = step(expression)
+    from pint.pint_eval import build_eval_tree
+    from pint.util import string_preprocessor
+
+    tokens = _tokens(string_preprocessor(expression))
+    try:
+        tree = build_eval_tree(tokens)
+    except RecursionError:
+        raise QuantityError("the expression is nested too deeply") from None
+    except Exception as exc:  # DefinitionSyntaxError, AssertionError of the tree builder
+        raise _incomplete(exc) from None
+    try:
+        q = tree.evaluate(lambda tok: reg._eval_token(tok, **values), _CHECKED_BINARY,
+                          _CHECKED_UNARY)
+    except QuantityError:
+        raise
+    except RecursionError:
+        raise QuantityError("the expression is nested too deeply") from None
+    except ZeroDivisionError:
+        raise QuantityError("division by zero") from None
+    except Exception as exc:  # pint raises several kinds
+        raise _pint_refusal(exc) from None
+    if not isinstance(q, reg.Quantity):
+        q = reg.Quantity(q)
+    return q
+
+
+def _incomplete(exc: Exception) -> QuantityError:
+    op = re.findall(r"missing (?:unary|binary) operator '([^']*)'", str(exc))
+    if op:
+        return QuantityError(f'"{literal(op[0], ECHO_LIMIT)}" needs a value on each side')
+    return QuantityError("incomplete expression: an operator or a pair of parentheses "
+                         "without a value")
+
+
+def _pint_refusal(exc: Exception) -> QuantityError:
+    """A plain QuantityError for an exception of pint's parser."""
+    message = str(exc)
+    unknown = re.findall(r"'([^']+)' is not defined", message)
+    if unknown:
+        return QuantityError(f'"{literal(unknown[0], ECHO_LIMIT)}" is not a unit',
+                             kind="unknown", name=unknown[0])
+    if "offset" in message.lower():
+        return QuantityError("an offset temperature unit (degC, degF) cannot take part in "
+                             "arithmetic; give temperature changes in K", kind="offset")
+    if re.search(r"missing (?:unary|binary) operator", message):
+        return _incomplete(exc)
+    if exc.__class__.__name__ == "DimensionalityError":
+        return QuantityError("adds or compares quantities of different kinds "
+                             f"({literal(message, ECHO_LIMIT)})")
+    detail = f" ({literal(message, ECHO_LIMIT)})" if message.strip() else ""
+    return QuantityError(f"not a quantity: expected {_ALLOWED}{detail}")
+
+
+def _refuse_side_by_side(text: str) -> None:
+    """Refuse a number written after a number, a name or ")" with only white space between
+    (pint would multiply them); "1.2e-5 1/K" (a reciprocal unit) stays allowed."""
+    for m in _SIDE_BY_SIDE.finditer(text):
+        before, gap, number = m.groups()
+        if number == "1" and _RECIPROCAL.match(text, m.end()):
+            continue
+        shown = literal(f"{before}{gap}{number}", ECHO_LIMIT)
+        if _NUMBER_TOKEN.match(before):
+            if before.isdigit() and len(number) == 3 and number.isdigit():  # "2 500"
+                joined = literal(re.sub(r"(\d)\s+(?=\d{3}(?![\d.]))", r"\1", text), ECHO_LIMIT)
+                advice = f'digits are not grouped with spaces: write "{joined}"'
+            else:
+                advice = "write one number, without spaces inside it"
+            raise QuantityError(f'a number followed by a number ("{shown}") would be their '
+                                f"product; {advice} (or * to multiply)")
+        raise QuantityError(f'a number after "{literal(before, ECHO_LIMIT)}" with only a '
+                            "space between; write * to multiply, or put the number first")
+
+
+def _tokens(expression: str) -> list:
+    """The tokens of ``expression`` as pint's tokenizer gives them (Python's), refusing
+    anything but numbers in decimal notation, names and the operators of
+    :data:`_OPERATORS` (pint would skip an unknown operator: "2 @ 3" would be 6)."""
+    try:
+        tokens = list(tokenize.tokenize(io.BytesIO(expression.encode("utf-8")).readline))
+    except (tokenize.TokenError, SyntaxError):
+        if expression.count("(") != expression.count(")"):
+            raise QuantityError("unbalanced parentheses") from None
+        raise QuantityError(f"not a quantity: expected {_ALLOWED}") from None
+    previous = None
+    for tok in tokens:
+        if tok.type in _LAYOUT:
+            continue
+        if tok.type == tokenize.NUMBER:
+            if not _NUMBER_TOKEN.match(tok.string):
+                raise QuantityError(f'"{literal(tok.string, ECHO_LIMIT)}" is not a number in '
+                                    "decimal notation (such as 2500, 0.25 or 1.2e-5)")
+            if previous is not None and previous.type == tokenize.NUMBER:
+                raise QuantityError(f'"{literal(previous.string, ECHO_LIMIT)}" and '
+                                    f'"{literal(tok.string, ECHO_LIMIT)}" are two numbers side '
+                                    "by side; write one number (no leading zero), or * to "
+                                    "multiply")
+        elif tok.type == tokenize.OP:
+            if tok.string not in _OPERATORS:
+                raise QuantityError(f'"{literal(tok.string, ECHO_LIMIT)}" is not allowed in a '
+                                    f"quantity; only {_ALLOWED}")
+        elif tok.type != tokenize.NAME:
+            raise QuantityError(f'"{literal(tok.string, ECHO_LIMIT)}" is not allowed in a '
+                                f"quantity; only {_ALLOWED}")
+        previous = tok
+    return [t for t in tokens if t.type != tokenize.ENCODING]
+
+
+_RANGE = f"a value beyond the floating-point range (about {sys.float_info.max:.1e})"
+#: An integer of more bits than this is beyond the floating-point range (2**1024).
+_RANGE_BITS = 1024
+
+
+def _magnitude(x):
+    return x.magnitude if hasattr(x, "magnitude") else x
+
+
+def _has_unit(x) -> bool:
+    return hasattr(x, "unitless") and not x.unitless
+
+
+def _in_range(result):
+    """``result``, refused if its magnitude is an integer beyond the floating-point range
+    (which no later step could turn into a float)."""
+    m = _magnitude(result)
+    if isinstance(m, int) and m.bit_length() > _RANGE_BITS:
+        raise QuantityError(_RANGE)
+    return result
+
+
+def _size(x) -> float:
+    """The size |x| of a number (int of any size, float or complex) as a float (inf if
+    beyond the range)."""
+    try:
+        return float(abs(x))
+    except OverflowError:
+        return math.inf
+
+
+def _checked_power(base, exponent):
+    """pint's power, after checking that it is cheap and its result in range: with a
+    number of at most 1024 bits and a small exponent, Python's exact integer power is."""
+    from pint.pint_eval import _BINARY_OPERATOR_MAP
+
+    if _has_unit(exponent):
+        raise QuantityError("an exponent must be a plain number, not a quantity with a unit")
+    e, b = _magnitude(exponent), _magnitude(base)
+    if not (_finite(e) and _finite(b)):
+        raise QuantityError("a power of an infinite or undefined value")
+    if _has_unit(base) and _size(e) > UNIT_POWER_LIMIT:
+        raise QuantityError(f"a quantity with a unit raised to the power {literal(e, 20)}; at "
+                            f"most {UNIT_POWER_LIMIT} in size is allowed (m**4 is the most any "
+                            "field needs)")
+    if b != 0 and _size(b) != 1.0:
+        # log10 of the size of the result; the real part of the exponent decides it
+        real = e.real if isinstance(e, complex) else e
+        grows = math.copysign(_size(real), real) * math.log10(abs(b))
+        if grows > 308.3:
+            raise QuantityError(_RANGE)
+    try:
+        return _in_range(_BINARY_OPERATOR_MAP["**"](base, exponent))
+    except OverflowError:
+        raise QuantityError(_RANGE) from None
+
+
+def _finite(x) -> bool:
+    if isinstance(x, int):
+        return True
+    return cmath.isfinite(x) if isinstance(x, complex) else math.isfinite(x)
+
+
+def _checked(op: str):
+    """pint's operator ``op``, its result checked to be in range."""
+    def run(a, b):
+        from pint.pint_eval import _BINARY_OPERATOR_MAP
+
+        try:
+            return _in_range(_BINARY_OPERATOR_MAP[op](a, b))
+        except OverflowError:
+            raise QuantityError(_RANGE) from None
+    return run
+
+
+_CHECKED_BINARY = {"**": _checked_power, "*": _checked("*"), "": _checked(""),
+                   "/": _checked("/"), "+": _checked("+"), "-": _checked("-")}
+_CHECKED_UNARY = {"+": lambda x: x, "-": lambda x: x * -1}
