@@ -17,6 +17,8 @@ from rich.markup import escape
 from rich.panel import Panel
 from rich.table import Table
 
+from .report.terminal import user_text
+
 __all__ = ["run_demo", "DEMO_KIND", "NEXT_COMMANDS"]
 
 #: The starter the demo solves.
@@ -35,7 +37,7 @@ NEXT_COMMANDS: tuple[tuple[str, str], ...] = (
     ("leastwork solve canopy.toml --format md -o calc.md", "a calculation sheet (Markdown)"),
 )
 
-#: Steps of the audit trail shown as a glimpse (numbers of :func:`leastwork.audit.audit_sheet`).
+#: Steps of the audit trail shown as a glimpse (numbers of :func:`leastwork.output.audit.audit_sheet`).
 _GLIMPSE_STEPS = (4, 5)
 
 
@@ -69,12 +71,12 @@ def _effects_table(d: dict, cases: list[str]) -> Table:
     u = d["units"]
     t = Table(title="What each load case does", header_style="bold")
     t.add_column("load case")
-    # headers escaped: "[kN]" would otherwise be read as rich markup and vanish
-    t.add_column(escape(f"tie rod force, tension + [{u['force']}]"), justify="right")
-    t.add_column(escape(f"m at the wall A, sagging + [{u['moment']}]"), justify="right")
-    t.add_column(escape(f"tip B.y, up + [{u['length']}]"), justify="right")
+    # headers as Text: "[kN]" would otherwise be read as rich markup and vanish
+    t.add_column(user_text(f"tie rod force, tension + [{u['force']}]"), justify="right")
+    t.add_column(user_text(f"m at the wall A, sagging + [{u['moment']}]"), justify="right")
+    t.add_column(user_text(f"tip B.y, up + [{u['length']}]"), justify="right")
     for c in cases:
-        t.add_row(c, f"{_value(d, c, 'redundants', 'CB'):.4g}",
+        t.add_row(user_text(c), f"{_value(d, c, 'redundants', 'CB'):.4g}",
                   f"{_value(d, c, 'members', 'AB', 'start', 'm'):.4g}",
                   f"{_value(d, c, 'displacements', 'B.y'):.3g}")
     return t
@@ -82,8 +84,8 @@ def _effects_table(d: dict, cases: list[str]) -> Table:
 
 def run_demo(console: Console) -> int:
     """Show what leastwork does on the ``tied-beam`` starter; returns exit status 0."""
-    from .audit import audit_sheet
     from .caseio import loads_case
+    from .output.audit import audit_sheet
     from .report.terminal import print_sheet, print_summary
     from .solve import solve
     from .starters import STARTERS, starter_text
@@ -122,16 +124,16 @@ def run_demo(console: Console) -> int:
     console.print(_effects_table(d, cases))
     if {"canopy", "turnbuckle", "both"} <= set(cases):
         a, b, ab = (_value(d, c, "redundants", "CB") for c in ("canopy", "turnbuckle", "both"))
-        console.print(
+        console.print(user_text(
             f"Linear elastic, so effects add up: {a:.5g} + {b:.5g} = {a + b:.5g} "
-            f"{d['units']['force']}, the rod force of case \"both\" ({ab:.5g}).")
+            f"{d['units']['force']}, the rod force of case \"both\" ({ab:.5g})."))
     for c in cases:
         res = sol.cases[c]
         eq = "OK" if res.equilibrium_ok else "FAILED"
         cross = ("not run" if res.stiffness is None else
                  "agrees" if res.stiffness.ok else "DISAGREES")
-        console.print(f"Load case {c}: equilibrium check {eq}; direct-stiffness "
-                      f"cross-check {cross}.")
+        console.print(user_text(f"Load case {c}: equilibrium check {eq}; direct-stiffness "
+                                f"cross-check {cross}."))
 
     console.rule("[bold]4/4: what to try next[/bold]")
     t = Table(show_header=False, box=None, pad_edge=False)

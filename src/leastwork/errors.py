@@ -3,11 +3,24 @@
 Every error the user can cause is a :class:`CaseError` (exit status 2 at the command line);
 an unstable structure or released structure is a :class:`MechanismError` (exit status 3).
 Messages name the file, the table and key or id, and what was expected.
+
+``str()`` of either is always one printable line: control characters (a newline or an
+escape sequence in an id or a name) are shown escaped by :func:`leastwork.plaintext.literal`,
+the file and location are cut after ``PLACE_LIMIT`` characters and the message after
+``MESSAGE_LIMIT``, each with a note of how much was left out. The attributes keep the text
+as given.
 """
 
 from __future__ import annotations
 
-__all__ = ["LeastworkError", "CaseError", "MechanismError"]
+from .plaintext import ECHO_LIMIT, literal
+
+__all__ = ["LeastworkError", "CaseError", "MechanismError", "MESSAGE_LIMIT", "PLACE_LIMIT"]
+
+#: Longest message (characters) in ``str()`` of an error before it is cut.
+MESSAGE_LIMIT = 600
+#: Longest file name, and longest location (table and key), in ``str()`` of an error.
+PLACE_LIMIT = 200
 
 
 class LeastworkError(Exception):
@@ -34,13 +47,9 @@ class CaseError(ValueError, LeastworkError):
         self.where = where
 
     def __str__(self) -> str:
-        parts = []
-        if self.source:
-            parts.append(self.source)
-        if self.where:
-            parts.append(self.where)
-        prefix = ": ".join(parts)
-        return f"{prefix}: {self.message}" if prefix else self.message
+        prefix = ": ".join(literal(p, PLACE_LIMIT) for p in (self.source, self.where) if p)
+        message = literal(self.message, MESSAGE_LIMIT)
+        return f"{prefix}: {message}" if prefix else message
 
 
 class MechanismError(LeastworkError):
@@ -64,9 +73,10 @@ class MechanismError(LeastworkError):
     SHOWN = 16
 
     def __str__(self) -> str:
+        message = literal(self.message, MESSAGE_LIMIT)
         if not self.motions:
-            return self.message
-        shown = ", ".join(self.motions[:self.SHOWN])
+            return message
+        shown = ", ".join(literal(m, ECHO_LIMIT) for m in self.motions[:self.SHOWN])
         rest = len(self.motions) - self.SHOWN
         more = f" … and {rest} more" if rest > 0 else ""
-        return f"{self.message} Free motion: {shown}{more}."
+        return f"{message} Free motion: {shown}{more}."

@@ -1,9 +1,13 @@
 """Closed forms of a symbolic solve (``--symbolic``) on the terminal and in sheets: each
-result as an expression of the parameters with its value at the parameter values."""
+result as an expression of the parameters with its value at the parameter values.
+
+User text (the structure name, load-case names, ids) is shown literally: rich Text on the
+terminal (:func:`leastwork.report.terminal.user_text`), escaped in Markdown
+(:func:`leastwork.report.documents.md_text`) and LaTeX (``tex_escape``)."""
 
 from __future__ import annotations
 
-from ..sheet import fmt
+from ..output.sheet import fmt
 
 __all__ = ["closed_form_rows", "print_closed_forms", "closed_forms_markdown",
            "closed_forms_latex"]
@@ -43,41 +47,45 @@ def _parameters_line(sym) -> str:
 
 def print_closed_forms(console, sym, case_names=None) -> None:
     """Tables of closed forms on the terminal."""
-    from rich.markup import escape
     from rich.table import Table
 
-    console.print(f"[bold]{escape(sym.name)}[/bold]  ({escape(sym.source)}) — closed forms")
-    console.print("Parameters (symbols, in the case units): " + escape(_parameters_line(sym)))
-    console.print(f"Redundants: {', '.join(sym.redundant_names) or 'none'}; degree "
-                  f"{sym.degree}")
+    from .terminal import heading, user_text
+
+    console.print(heading(sym.name, sym.source, " — closed forms"))
+    console.print(user_text("Parameters (symbols, in the case units): "
+                            + _parameters_line(sym)))
+    console.print(user_text(f"Redundants: {', '.join(sym.redundant_names) or 'none'}; degree "
+                            f"{sym.degree}"))
     for w in sym.warnings:
-        console.print(f"[yellow]Warning: {escape(w)}[/yellow]")
+        console.print(user_text(f"Warning: {w}", "yellow"))
     current, table = None, None
     for case, q, expr, value, unit in closed_form_rows(sym, case_names):
         if case != current:
             if table is not None:
                 console.print(table)
             current = case
-            table = Table(title=f"Load case {case}", header_style="bold")
+            table = Table(title=user_text(f"Load case {case}"), header_style="bold")
             table.add_column("quantity")
             table.add_column("closed form")
             table.add_column("value", justify="right")
             table.add_column("unit")
-        table.add_row(escape(q), escape(str(expr)), fmt(value), escape(unit))
+        table.add_row(user_text(q), user_text(expr), fmt(value), user_text(unit))
     if table is not None:
         console.print(table)
 
 
 def closed_forms_markdown(sym, case_names=None) -> list[str]:
     """Markdown lines: parameters, then one table of closed forms per load case."""
-    out = [f"Parameters (symbols, in the case units): {_parameters_line(sym)}", ""]
+    from .documents import md_block, md_code, md_text
+
+    out = [md_block(f"Parameters (symbols, in the case units): {_parameters_line(sym)}"), ""]
     current = None
     for case, q, expr, value, unit in closed_form_rows(sym, case_names):
         if case != current:
             current = case
-            out += ["", f"**Load case {case}**", "", "| quantity | closed form | value | unit |",
-                    "|:---|:---|---:|:---|"]
-        out.append(f"| {q} | `{expr}` | {fmt(value)} | {unit} |")
+            out += ["", f"**{md_text(f'Load case {case}')}**", "",
+                    "| quantity | closed form | value | unit |", "|:---|:---|---:|:---|"]
+        out.append(f"| {md_text(q)} | {md_code(expr)} | {fmt(value)} | {md_text(unit)} |")
     return out
 
 
