@@ -58,7 +58,16 @@ Semantics
   sine and cosine of a roller angle, pi of an angle in degrees. Each one adds a variable
   to the algebra; a frame with many sloping members at decimal coordinates may therefore
   reach the time limit even without parameters.
-* The whole solve runs under a time limit (``time_limit``, default 60 s). In the main
+* Load combinations are load cases of the factored loads (every nodal, point and
+  distributed load, temperature, misfit and settlement of each named case times its
+  factor; positions are not scaled), with each factor an exact rational or a parameter
+  symbol; ``SymbolicSolution.combinations`` (and ``"combinations"`` in the JSON) gives
+  the factors.
+* Without named redundants the closed forms use those the numeric solve ends with
+  (:func:`leastwork.solve.solve`: the automatic choice, or the member forces it swaps to
+  for conditioning), so that they match the numeric sheet.
+* The whole solve runs under a time limit (``time_limit``, default 60 s; it must be
+  positive: ``math.inf``, or more than 1e7 s, means none). In the main
   thread it is a SIGALRM interval timer; in another thread the solve runs in a forked
   child process that is killed at the limit (see :mod:`.limit`). Past the limit a
   CaseError says that the closed form is beyond reach and suggests solving numerically
@@ -121,6 +130,8 @@ class SymbolicSolution:
     parameter_units : dict
         name -> unit of the symbol in case units (``"kN/m"``; ``""`` for a pure number,
         ``"rad"`` for an angle).
+    combinations : dict
+        Combination name -> {load case: exact factor} (``1.35`` is ``27/20``).
     """
 
     name: str
@@ -138,6 +149,9 @@ class SymbolicSolution:
     chosen_by_user: bool
     cases: dict[str, SymbolicCase]
     warnings: list[str] = field(default_factory=list)
+    #: ``[combinations]``: name -> {load case: exact factor}; each combination is also a
+    #: load case of ``cases`` (its loads the factored loads of its cases)
+    combinations: dict[str, dict[str, Any]] = field(default_factory=dict)
 
     # -------------------------------------------------------------- evaluation
     def parse(self, text: str):
@@ -198,6 +212,8 @@ class SymbolicSolution:
             "indeterminacy": {"degree": self.degree, "external": self.external,
                               "internal": self.internal, "stable": self.stable},
             "redundants": list(self.redundant_names),
+            "combinations": {name: {case: s(f) for case, f in factors.items()}
+                             for name, factors in self.combinations.items()},
             "cases": cases,
             "warnings": list(self.warnings),
         }
@@ -211,6 +227,7 @@ def solve_symbolic(
     extra_displacements: list[str] | tuple[str, ...] = (),
     time_limit: float = 60.0,
     expand_derived: bool = False,
+    numeric_redundants: list[str] | None = None,
 ) -> SymbolicSolution:
     """Solve a case in closed form.
 
@@ -221,13 +238,20 @@ def solve_symbolic(
     text : str, optional
         The case as TOML text instead of reading the file.
     redundants : list of str, optional
-        Redundants to use (as ``--redundants``); default the case's own or automatic.
+        Redundants to use (as ``--redundants``); default the case's own, else those the
+        numeric solve (:func:`leastwork.solve.solve`) ends with: its automatic choice,
+        swapped for member forces when that is much better conditioned.
     extra_displacements : list of str
         Displacement targets to add (as ``--at``).
     time_limit : float
-        Seconds; past it a CaseError is raised.
+        Seconds, positive (``math.inf``, or more than :data:`.limit.NO_TIMER_ABOVE`: no
+        limit); past it a CaseError is raised.
     expand_derived : bool
         Replace parameters defined by other parameters with their definitions.
+    numeric_redundants : list of str, optional
+        The redundants a numeric solve of this case ended with
+        (``Solution.redundant_names``), used when neither ``redundants`` nor the case
+        names any, instead of solving numerically again to find them.
 
     Raises
     ------
@@ -235,9 +259,15 @@ def solve_symbolic(
         The case is wrong, not supported in symbolic mode, or beyond the time limit.
     MechanismError
         The structure or the released structure is unstable.
+    ValueError
+        ``time_limit`` is not a positive number of seconds.
     """
     from .limit import run_bounded
 
+    limit = float(time_limit)
+    if not limit > 0:  # also NaN
+        raise ValueError(f"time_limit must be a positive number of seconds (math.inf for "
+                         f"no limit), not {time_limit!r}")
     source = str(structure_source)
     message = (f"the closed form of this case is beyond reach within {time_limit:g} s; "
                "solve it numerically or fix more parameters as numbers")
@@ -256,13 +286,13 @@ def solve_symbolic(
             except (OSError, UnicodeDecodeError) as exc:
                 raise CaseError(f"cannot be read ({exc})", source=source) from None
         return _solve(body, source, redundants, tuple(extra_displacements), expand_derived,
-                      tick)
+                      tick, numeric_redundants)
 
-    return run_bounded(work, float(time_limit), message, source)
+    return run_bounded(work, limit, message, source)
 
 
 def _solve(text: str, source: str, redundants, extra: tuple[str, ...], expand_derived: bool,
-           tick) -> SymbolicSolution:
+           tick, numeric_redundants=None) -> SymbolicSolution:
     from ..caseio import read_case_record
     from ..displacements import parse_target
     from ..topology import build_topology, choose_redundants
@@ -280,6 +310,9 @@ def _solve(text: str, source: str, redundants, extra: tuple[str, ...], expand_de
     names = list(redundants) if redundants is not None else st.redundants
     where = "--redundants" if redundants is not None else "[analysis] redundants"
     red = choose_redundants(st, topo, names, where=where)
+    notes = []
+    if names is None:
+        red, notes = _as_numeric_solve(st, topo, red, numeric_redundants)
     tick()
     model = read_exact(st, record, expand_derived=expand_derived)
     tick()
@@ -322,8 +355,30 @@ def _solve(text: str, source: str, redundants, extra: tuple[str, ...], expand_de
                          for n in params},
         redundant_names=red_names, degree=topo.degree, external=topo.external,
         internal=topo.internal, stable=topo.stable, chosen_by_user=names is not None,
-        cases=cases, warnings=list(ex.warnings),
+        cases=cases, warnings=notes + list(ex.warnings),
+        combinations={name: {case: sympy.sympify(f) for case, f in factors.items()}
+                      for name, factors in model.combinations.items()},
     )
+
+
+def _as_numeric_solve(st, topo, first: list[int], numeric: list[str] | None):
+    """The redundants the numeric solve ends with when none are named (its automatic
+    choice ``first``, or the better-conditioned member forces it swaps to), so that the
+    closed forms and the numeric sheet share them; and a note if they are not ``first``.
+    ``numeric``: the numeric solve's names when it has been run already."""
+    from ..solve import solve
+    from ..topology import choose_redundants
+
+    if numeric is not None:
+        red = choose_redundants(st, topo, list(numeric), where="the numeric solve's redundants")
+    else:
+        red = solve(st, None, verify=False, basis="released").redundant_columns
+    if sorted(red) == sorted(first):
+        return list(red), []
+    names = ", ".join(topo.columns[j].name for j in red)
+    return list(red), [f"redundants {names} are used, as in the numeric solve (the automatic "
+                       f"choice {', '.join(topo.columns[j].name for j in first)} gives an "
+                       "ill-conditioned flexibility matrix in floating point)"]
 
 
 def _is_angle(q) -> bool:

@@ -142,7 +142,10 @@ class ExactModel:
     angles : dict
         support node -> surface angle of an inclined roller (rad).
     loads : list of dict
-        Parallel to ``Structure.loads``: the exact fields of each load.
+        Parallel to ``Structure.loads``: the exact fields of each load, the factored loads
+        of the combinations included.
+    combinations : dict
+        Combination name -> {load case: exact factor}.
     """
 
     parameters: dict[str, sympy.Symbol]
@@ -153,6 +156,8 @@ class ExactModel:
     springs: dict[str, sympy.Expr] = field(default_factory=dict)
     angles: dict[str, sympy.Expr] = field(default_factory=dict)
     loads: list[dict[str, Any]] = field(default_factory=list)
+    #: combination name -> {load case: exact factor}
+    combinations: dict[str, dict[str, sympy.Expr]] = field(default_factory=dict)
 
 
 class _Evaluator:
@@ -381,10 +386,87 @@ def read_exact(st: Structure, record, *, expand_derived: bool = False) -> ExactM
                 dim = "rotational stiffness" if r.direction == "rz" else "force/length"
                 model.springs[r.name] = get(f"[supports] {nid}.springs.{r.direction}",
                                             r.stiffness, dim)
-    for i, ld in enumerate(st.loads, start=1):
+    entries = data.get("loads") or []
+    base = st.loads[:len(entries)]
+    for i, ld in enumerate(base, start=1):
         w = f"[[loads]] #{i}"
         model.loads.append(_exact_load(ld, w, get, fields))
+    combined = _combination_loads(st, base, list(model.loads), ev, values, units)
+    model.combinations = {name: factors for name, factors, _ in combined}
+    for _, _, loads in combined:
+        model.loads.extend(loads)
+    if len(model.loads) != len(st.loads):
+        raise RuntimeError(f"{len(st.loads)} loads read, {len(model.loads)} made exact")
     return model
+
+
+def _combination_loads(st: Structure, base, exact_base: list, ev, values, units) -> list:
+    """``(name, {case: factor}, exact loads)`` of each ``[combinations]`` entry, in the
+    order the reader appended the factored loads to ``Structure.loads`` (for each case of
+    the combination, its loads in file order), each factor exact (``1.35`` is 27/20; a
+    parameter stays a symbol) and each factored load checked against the reader's."""
+    out = []
+    k = len(base)
+    for name, parts in st.combinations:
+        factors: dict[str, sympy.Expr] = {}
+        loads: list[dict[str, Any]] = []
+        for case, factor in parts:
+            where = f"[combinations] {name}.{case}"
+            f = ev.field(where)
+            _agree(f, factor, "number", where, values, units)
+            factors[case] = f
+            for ld, exact in zip(base, exact_base):
+                if ld.case != case:
+                    continue
+                scaled = _scaled_load(ld, exact, f)
+                _check_scaled(st.loads[k], scaled, f"{where} (load of case {case})",
+                              values, units)
+                loads.append(scaled)
+                k += 1
+        out.append((name, factors, loads))
+    return out
+
+
+def _scaled_load(ld, exact: dict[str, Any], f: sympy.Expr) -> dict[str, Any]:
+    """The exact fields of ``ld`` times ``f`` (as :func:`leastwork.model.scaled_load`:
+    intensities, temperatures, misfits and settlements scale; positions do not)."""
+    out = dict(exact)
+    if isinstance(ld, (NodalLoad, PointLoad)):
+        for key in ("fx", "fy", "mz"):
+            out[key] = f * exact[key]
+    elif isinstance(ld, DistributedLoad):
+        for key in ("wx", "wy"):
+            out[key] = (f * exact[key][0], f * exact[key][1])
+    elif isinstance(ld, TemperatureLoad):
+        out["uniform"] = f * exact["uniform"]
+        out["gradient"] = f * exact["gradient"]
+    elif isinstance(ld, Misfit):
+        out["elongation"] = f * exact["elongation"]
+    elif isinstance(ld, Settlement):
+        out["values"] = [(d, f * v) for d, v in exact["values"]]
+    else:
+        raise RuntimeError(f"unknown load {ld!r}")
+    return out
+
+
+def _check_scaled(ld, exact: dict[str, Any], where: str, values, units) -> None:
+    """Check the exact factored load against the reader's factored load (SI)."""
+    if isinstance(ld, (NodalLoad, PointLoad)):
+        pairs = [(exact["fx"], ld.fx, "force"), (exact["fy"], ld.fy, "force"),
+                 (exact["mz"], ld.mz, "moment")]
+    elif isinstance(ld, DistributedLoad):
+        pairs = [(exact[k][i], getattr(ld, k)[i], "force/length")
+                 for k in ("wx", "wy") for i in (0, 1)]
+    elif isinstance(ld, TemperatureLoad):
+        pairs = [(exact["uniform"], ld.uniform, "temperature difference"),
+                 (exact["gradient"], ld.gradient, "temperature difference")]
+    elif isinstance(ld, Misfit):
+        pairs = [(exact["elongation"], ld.elongation, "length")]
+    else:
+        pairs = [(e, v, "angle" if d == "rz" else "length")
+                 for (d, e), (_, v) in zip(exact["values"], ld.values)]
+    for expr, si, dimension in pairs:
+        _agree(sympy.sympify(expr), si, dimension, where, values, units)
 
 
 def _exact_load(ld, w: str, get, fields) -> dict[str, Any]:

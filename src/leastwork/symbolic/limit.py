@@ -20,10 +20,13 @@ from typing import TypeVar
 
 from ..errors import CaseError, LeastworkError, MechanismError
 
-__all__ = ["TimeUp", "run_bounded"]
+__all__ = ["TimeUp", "run_bounded", "NO_TIMER_ABOVE"]
 
 T = TypeVar("T")
 _MARGIN = 5.0  # seconds the parent waits beyond the limit for a child to report
+#: a limit beyond this many seconds (about 116 days) is taken as none: the interval timer
+#: and the clock cannot hold an arbitrarily large one (1e300 s overflows them)
+NO_TIMER_ABOVE = 1e7
 
 
 class TimeUp(BaseException):
@@ -75,11 +78,12 @@ def _child(work, seconds, conn) -> None:  # pragma: no cover - runs in the child
 
 def run_bounded(work: Callable[[Callable[[], None]], T], seconds: float, message: str,
                 source: str | None = None) -> T:
-    """Run ``work(tick)`` for at most ``seconds`` (``math.inf``: no limit); past it raise
-    CaseError(message)."""
-    if seconds <= 0:
-        raise CaseError(message, source=source)
-    if math.isinf(seconds):  # no limit asked
+    """Run ``work(tick)`` for at most ``seconds`` (``math.inf`` or more than
+    ``NO_TIMER_ABOVE``: no limit); past it raise CaseError(message). ``seconds`` must be
+    positive (ValueError otherwise, NaN included)."""
+    if not seconds > 0:
+        raise ValueError(f"a time limit must be a positive number of seconds, not {seconds!r}")
+    if math.isinf(seconds) or seconds > NO_TIMER_ABOVE:  # no limit asked
         return work(lambda: None)
     main = threading.current_thread() is threading.main_thread()
     try:
