@@ -120,7 +120,8 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
                       priority: np.ndarray, is_member: np.ndarray, lref: float,
                       start_nodes: list[int], *, tied_joints: bool = True,
                       kept_first: bool = False) -> SelfStressBasis:
-    """Find a local self-stress basis of ``A`` (ndof x ncol, SI).
+    """Find a local self-stress basis of ``A`` (ndof x ncol, SI), by the steps of the
+    module's docstring.
 
     Parameters
     ----------
@@ -140,8 +141,28 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
     rs, cs = equilibrium_scaling(A, dofs, lref)
     S = (sp.diags(rs) @ A @ sp.diags(cs)).tocsc()
     S.sort_indices()
+    order = _sweep_order(node_neighbours, start_nodes)  # 1.
+    col_time, col_order = _column_order(order, column_nodes, priority)
+    sweep = _Sweep(S, column_nodes, node_neighbours, order, tied_joints=tied_joints,
+                   kept_first=kept_first)
+    sweep.run(col_time, col_order)  # 2.-4.
+    long_range = sweep.close_long_range(S, col_order)  # 5.
+    released = np.flatnonzero(sweep.kept)
+    factor = _released_factor(S[:, released]) if len(released) == ndof else None
+    motion = () if factor is not None else _free_motion(S[:, released])
+    states, internal = _assemble_states(sweep.raw_cols, sweep.raw_y, sweep.raw_state,
+                                        sweep.closing, cs, is_member, ncol)
+    return SelfStressBasis(states, np.array(sweep.closing, dtype=int), released, internal,
+                           long_range, factor is not None, motion, factor, rs, cs[released])
+
+
+# ---------------------------------------------------------------------------- 1. order
+
+
+def _sweep_order(node_neighbours: list[list[int]], start_nodes: list[int]) -> np.ndarray:
+    """Step 1: the number of each joint in a breadth-first sweep of the member graph from
+    ``start_nodes`` in turn (then from any joint not yet reached)."""
     nnode = len(node_neighbours)
-    # 1. sweep order of the joints
     order = np.full(nnode, -1)
     k = 0
     for s0 in [*start_nodes, *range(nnode)]:
@@ -157,39 +178,134 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
                     order[m] = k
                     k += 1
                     queue.append(m)
+    return order
+
+
+def _column_order(order: np.ndarray, column_nodes: list[tuple[int, ...]],
+                  priority: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """Step 1: (the number of each column's latest joint, the columns in processing order:
+    by that number, then by ``priority``)."""
     col_time = np.array([max((order[n] for n in nodes), default=0) for nodes in column_nodes])
-    col_order = np.lexsort((priority, col_time))
-    indptr, indices, data = S.indptr, S.indices, S.data
-    touched = np.zeros(ndof, dtype=bool)
-    kept = np.zeros(ncol, dtype=bool)
-    node_cols: list[list[int]] = [[] for _ in range(nnode)]  # processed columns per joint
-    # the states as found, in scaled terms: (column, value, state) triples, state by state;
-    # normalised and pruned all at once at the end
-    raw_cols: list[int] = []
-    raw_y: list[float] = []
-    raw_state: list[int] = []
-    closing: list[int] = []
-    first_node = [nodes[0] for nodes in column_nodes]
-    last_node = [nodes[-1] for nodes in column_nodes]
+    return col_time, np.lexsort((priority, col_time))
 
-    def entries(j: int) -> tuple[np.ndarray, np.ndarray]:
-        return indices[indptr[j]:indptr[j + 1]], data[indptr[j]:indptr[j + 1]]
 
-    def finish(j: int) -> None:
-        rows, _ = entries(j)
-        touched[rows] = True
-        for n in column_nodes[j]:
-            node_cols[n].append(j)
+# ---------------------------------------------------------------------------- 2.-5. the sweep
 
-    def local_state(j: int, now: int):
+
+class _Sweep:
+    """Steps 2-5 over the scaled equilibrium matrix ``S``: which columns are kept, and the
+    states as found, in scaled terms: (column, value, state) triples, state by state
+    (``raw_cols``, ``raw_y``, ``raw_state``), with the column each state closes
+    (``closing``); normalised and pruned all at once at the end (:func:`_assemble_states`).
+    """
+
+    def __init__(self, S: sp.csc_matrix, column_nodes: list[tuple[int, ...]],
+                 node_neighbours: list[list[int]], order: np.ndarray, *, tied_joints: bool,
+                 kept_first: bool) -> None:
+        ndof, ncol = S.shape
+        self.indptr, self.indices, self.data = S.indptr, S.indices, S.data
+        self.column_nodes = column_nodes
+        self.node_neighbours = node_neighbours
+        self.order = order
+        self.tied_joints = tied_joints
+        self.kept_first = kept_first
+        self.touched = np.zeros(ndof, dtype=bool)  #: rows reached by a processed column
+        self.kept = np.zeros(ncol, dtype=bool)
+        #: processed columns per joint
+        self.node_cols: list[list[int]] = [[] for _ in range(len(node_neighbours))]
+        self.raw_cols: list[int] = []
+        self.raw_y: list[float] = []
+        self.raw_state: list[int] = []
+        self.closing: list[int] = []
+        self.first_node = [nodes[0] for nodes in column_nodes]
+        self.last_node = [nodes[-1] for nodes in column_nodes]
+
+    def entries(self, j: int) -> tuple[np.ndarray, np.ndarray]:
+        """Rows and values of column j of S."""
+        indptr = self.indptr
+        return self.indices[indptr[j]:indptr[j + 1]], self.data[indptr[j]:indptr[j + 1]]
+
+    def finish(self, j: int) -> None:
+        """Column j is processed: its rows are reached, its joints know it."""
+        rows, _ = self.entries(j)
+        self.touched[rows] = True
+        for n in self.column_nodes[j]:
+            self.node_cols[n].append(j)
+
+    def run(self, col_time: np.ndarray, col_order: np.ndarray) -> None:
+        """Steps 2-4: the columns in processing order, one joint's columns at a time."""
+        ncol = len(col_order)
+        pos = 0
+        while pos < ncol:
+            end = pos
+            t = col_time[col_order[pos]]
+            while end < ncol and col_time[col_order[end]] == t:
+                end += 1
+            group = [int(j) for j in col_order[pos:end]]
+            pos = end
+            rest = self.keep_new_directions(group)
+            self.close_locally(rest, t)
+
+    def keep_new_directions(self, group: list[int]) -> list[int]:
+        """Step 2: keep the columns of ``group`` independent through directions no earlier
+        column reaches (each with a pivot of at least ``_GOOD_PIVOT``); return the rest."""
+        new_rows = sorted({int(r) for j in group for r in self.entries(j)[0]
+                           if not self.touched[r]})
+        if not new_rows:
+            return group
+        rest = []
+        where = {r: i for i, r in enumerate(new_rows)}
+        Q = np.zeros((len(new_rows), 0))
+        for j in group:
+            rr, vv = self.entries(j)
+            v = np.zeros(len(new_rows))
+            for r, val in zip(rr, vv, strict=True):
+                if r in where:
+                    v[where[int(r)]] = val
+            res = v - Q @ (Q.T @ v)
+            nr = np.linalg.norm(res)
+            if nr > _GOOD_PIVOT:
+                Q = np.column_stack([Q, res / nr])
+                self.kept[j] = True
+                self.finish(j)
+            else:
+                rest.append(j)
+        return rest
+
+    def close_locally(self, rest: list[int], t: int) -> None:
+        """Step 3: a local state for each column of ``rest`` (joints swept up to ``t``), or
+        the column is kept. A force barely independent of the earlier ones (residual below
+        ``_GOOD_PIVOT``) would make the released structure nearly singular (a flat arch):
+        it is decided after the others of its joint, which may make it dependent."""
+        near = []
+        for j in rest:
+            found, resid = self.local_state(j, t)
+            if found is not None:
+                self.add_state(j, *found)
+            elif resid < _GOOD_PIVOT:
+                near.append(j)
+                continue
+            else:
+                self.kept[j] = True
+            self.finish(j)
+        for j in near:
+            found, _ = self.local_state(j, t)
+            if found is None:
+                self.kept[j] = True
+            else:
+                self.add_state(j, *found)
+            self.finish(j)
+
+    def local_state(self, j: int, now: int):
         """Earlier columns within growing neighbourhoods of column j (joints swept up to
         ``now``) that reproduce it: ((columns, coefficients), 0) or (None, the smallest
         residual seen, column j having unit norm)."""
-        rows_j, vals_j = entries(j)
+        rows_j, vals_j = self.entries(j)
+        node_cols, first_node, last_node = self.node_cols, self.first_node, self.last_node
         tried: set[int] = set()
         least = 1.0
         steep = None  # a state found only with large coefficients, kept as a last resort
-        for ball in _balls(j, now):
+        for ball in self.balls(j, now):
             cols = np.array(sorted({c for n in ball for c in node_cols[n]
                                     if first_node[c] in ball and last_node[c] in ball}),
                             dtype=int)
@@ -199,10 +315,10 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
             # least-norm over every earlier column in the set (kept and closing: some states
             # need an earlier closing force, the third support of a beam); optionally the
             # kept columns alone first, whose state is unique
-            alone = cols[kept[cols]]
-            tries = (alone, cols) if kept_first and alone.size < cols.size else (cols,)
+            alone = cols[self.kept[cols]]
+            tries = (alone, cols) if self.kept_first and alone.size < cols.size else (cols,)
             for use in tries:
-                found, resid = _reproduce(use, rows_j, vals_j)
+                found, resid = self.reproduce(use, rows_j, vals_j)
                 if found is not None:
                     size = float(np.max(np.abs(found[1]), initial=0.0))
                     if size <= _STATE_BOUND:
@@ -217,12 +333,13 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
             return steep[1], 0.0
         return None, least
 
-    def _balls(j: int, now: int):
+    def balls(self, j: int, now: int):
         """Growing sets of joints around column j (joints swept up to ``now``): first the
         joints tied to at least two of the ball's joints, twice (a braced panel, a triangle
         fan), then every neighbour, ``_MAX_RADIUS`` times (a rigid ring, two spans)."""
-        ball = set(column_nodes[j])
-        for _ in range(2 if tied_joints else 0):
+        node_neighbours, order = self.node_neighbours, self.order
+        ball = set(self.column_nodes[j])
+        for _ in range(2 if self.tied_joints else 0):
             near: dict[int, int] = {}
             for n in ball:
                 for m in set(node_neighbours[n]):
@@ -233,7 +350,7 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
                 break
             ball = ball | tied
             yield ball
-        ball = set(column_nodes[j])
+        ball = set(self.column_nodes[j])
         for _ in range(_MAX_RADIUS):
             grown = {m for n in ball for m in node_neighbours[n]
                      if m not in ball and order[m] <= now}
@@ -242,12 +359,13 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
             ball = ball | grown
             yield ball
 
-    def _reproduce(cols: np.ndarray, rows_j: np.ndarray, vals_j: np.ndarray):
+    def reproduce(self, cols: np.ndarray, rows_j: np.ndarray, vals_j: np.ndarray):
         """Least-squares combination x of columns ``cols`` with S[:, cols] x = -S[:, j];
         ((cols, x), residual) when it reproduces column j to the rank tolerance, else
         (None, residual)."""
         if not cols.size:
             return None, 1.0
+        indptr, indices, data = self.indptr, self.indices, self.data
         starts, lens = indptr[cols], indptr[cols + 1] - indptr[cols]
         offsets = np.repeat(starts - np.cumsum(lens) + lens, lens) + np.arange(lens.sum())
         rr, vv = indices[offsets], data[offsets]
@@ -260,119 +378,77 @@ def local_self_stress(A: sp.csc_matrix, dofs, column_nodes: list[tuple[int, ...]
         resid = float(np.linalg.norm(M @ x + b))
         return ((cols, x) if resid <= _LOCAL_TOL else None), resid
 
-    def add_state(j: int, cols: np.ndarray, x: np.ndarray) -> None:
+    def add_state(self, j: int, cols: np.ndarray, x: np.ndarray) -> None:
         """Record the scaled null vector with y_j = 1 on ``cols`` plus j."""
-        raw_cols.extend(cols.tolist())
-        raw_cols.append(j)
-        raw_y.extend(x.tolist())
-        raw_y.append(1.0)
-        raw_state.extend([len(closing)] * (len(cols) + 1))
-        closing.append(j)
+        self.raw_cols.extend(cols.tolist())
+        self.raw_cols.append(j)
+        self.raw_y.extend(x.tolist())
+        self.raw_y.append(1.0)
+        self.raw_state.extend([len(self.closing)] * (len(cols) + 1))
+        self.closing.append(j)
 
-    # 2.-4. the sweep, one joint's columns at a time
-    pos = 0
-    while pos < ncol:
-        end = pos
-        t = col_time[col_order[pos]]
-        while end < ncol and col_time[col_order[end]] == t:
-            end += 1
-        group = [int(j) for j in col_order[pos:end]]
-        pos = end
-        # columns independent through directions no earlier column reaches
-        new_rows = sorted({int(r) for j in group for r in entries(j)[0] if not touched[r]})
-        rest = []
-        if new_rows:
-            where = {r: i for i, r in enumerate(new_rows)}
-            Q = np.zeros((len(new_rows), 0))
-            for j in group:
-                rr, vv = entries(j)
-                v = np.zeros(len(new_rows))
-                for r, val in zip(rr, vv, strict=True):
-                    if r in where:
-                        v[where[int(r)]] = val
-                res = v - Q @ (Q.T @ v)
-                nr = np.linalg.norm(res)
-                if nr > _GOOD_PIVOT:
-                    Q = np.column_stack([Q, res / nr])
-                    kept[j] = True
-                    finish(j)
-                else:
-                    rest.append(j)
-        else:
-            rest = group
-        # 3c. a force barely independent of the earlier ones (residual below
-        # _GOOD_PIVOT) would make the released structure nearly singular (a flat arch):
-        # decide it after the others of its joint, which may make it dependent
-        near = []
-        for j in rest:
-            found, resid = local_state(j, t)
-            if found is not None:
-                add_state(j, *found)
-            elif resid < _GOOD_PIVOT:
-                near.append(j)
-                continue
-            else:
-                kept[j] = True
-            finish(j)
-        for j in near:
-            found, _ = local_state(j, t)
-            if found is None:
-                kept[j] = True
-            else:
-                add_state(j, *found)
-            finish(j)
+    def close_long_range(self, S: sp.csc_matrix, col_order: np.ndarray) -> int:
+        """Step 5: the self-stresses left among the kept columns (more kept columns than
+        rows), each closing one of them (no longer kept); returns how many were found."""
+        K = np.flatnonzero(self.kept)
+        ndof = S.shape[0]
+        g = len(K) - ndof
+        if g <= 0:
+            return 0
+        X = _kept_null_space(S[:, K], g)
+        if X is None or not np.all(np.isfinite(X)):
+            return 0
+        # pivots: latest processed columns first
+        rank_in_sweep = np.empty(S.shape[1], dtype=int)
+        rank_in_sweep[col_order] = np.arange(S.shape[1])
+        W, pivots = _unit_on_pivots(X, np.argsort(-rank_in_sweep[K], kind="stable"))
+        for i, pk in enumerate(pivots):
+            self.raw_cols.extend(K.tolist())
+            self.raw_y.extend(W[:, i].tolist())
+            self.raw_state.extend([len(self.closing)] * len(K))
+            self.closing.append(int(K[pk]))
+        self.kept[K[pivots]] = False
+        return g
 
-    # 5. long-range states among the kept columns
-    K = np.flatnonzero(kept)
-    long_range = 0
-    g = len(K) - ndof
-    if g > 0:
-        rng = np.random.default_rng(20261202)
-        SK = S[:, K]
-        R = sp.csc_matrix(rng.standard_normal((g, len(K))))
-        border = sp.vstack([SK, R]).tocsc()
-        try:
-            from scipy.sparse.linalg import splu
 
-            lu = splu(border)
-            rhs = np.zeros((ndof + g, g))
-            rhs[ndof:] = np.eye(g)
-            X = lu.solve(rhs)  # (len(K), g): a basis of the null space of S[:, K]
-        except RuntimeError:
-            X = None
-        if X is not None and np.all(np.isfinite(X)):
-            # pivots: latest processed columns first, threshold 0.1 of the column's largest
-            rank_in_sweep = np.empty(ncol, dtype=int)
-            rank_in_sweep[col_order] = np.arange(ncol)
-            candidates = np.argsort(-rank_in_sweep[K], kind="stable")
-            W = X.copy()
-            pivots: list[int] = []
-            for i in range(g):
-                col = W[:, i]
-                big = np.max(np.abs(col))
-                pick = next(c for c in candidates
-                            if c not in pivots and abs(col[c]) >= 0.1 * big)
-                pivots.append(int(pick))
-                W[:, i] = col / col[pick]
-                for q in range(i + 1, g):
-                    W[:, q] -= W[:, i] * W[pick, q]
-            # make it the identity on the pivots (back substitution)
-            P = W[pivots, :]
-            W = W @ np.linalg.inv(P)
-            for i, pk in enumerate(pivots):
-                raw_cols.extend(K.tolist())
-                raw_y.extend(W[:, i].tolist())
-                raw_state.extend([len(closing)] * len(K))
-                closing.append(int(K[pk]))
-            kept[K[pivots]] = False
-            long_range = g
-    released = np.flatnonzero(kept)
-    factor = _released_factor(S[:, released]) if len(released) == ndof else None
-    motion = () if factor is not None else _free_motion(S[:, released])
-    states, internal = _assemble_states(raw_cols, raw_y, raw_state, closing, cs, is_member,
-                                        ncol)
-    return SelfStressBasis(states, np.array(closing, dtype=int), released, internal,
-                           long_range, factor is not None, motion, factor, rs, cs[released])
+def _kept_null_space(SK: sp.csc_matrix, g: int) -> np.ndarray | None:
+    """Step 5: a basis (columns) of the null space of the kept columns ``SK`` (ndof x k,
+    ``g`` = k - ndof states missing), from one sparse LU of ``SK`` bordered by ``g`` random
+    rows (fixed seed); None when that factorisation fails."""
+    from scipy.sparse.linalg import splu
+
+    ndof, k = SK.shape
+    rng = np.random.default_rng(20261202)
+    R = sp.csc_matrix(rng.standard_normal((g, k)))
+    border = sp.vstack([SK, R]).tocsc()
+    try:
+        lu = splu(border)
+        rhs = np.zeros((ndof + g, g))
+        rhs[ndof:] = np.eye(g)
+        return lu.solve(rhs)  # (k, g): a basis of the null space of SK
+    except RuntimeError:
+        return None
+
+
+def _unit_on_pivots(X: np.ndarray, candidates: np.ndarray) -> tuple[np.ndarray, list[int]]:
+    """Step 5: the null basis ``X`` (k, g) recombined to be the identity on g pivot rows,
+    picked by threshold pivoting (at least 0.1 of the column's largest) in the order of
+    ``candidates``: (W, pivots)."""
+    g = X.shape[1]
+    W = X.copy()
+    pivots: list[int] = []
+    for i in range(g):
+        col = W[:, i]
+        big = np.max(np.abs(col))
+        pick = next(c for c in candidates
+                    if c not in pivots and abs(col[c]) >= 0.1 * big)
+        pivots.append(int(pick))
+        W[:, i] = col / col[pick]
+        for q in range(i + 1, g):
+            W[:, q] -= W[:, i] * W[pick, q]
+    # make it the identity on the pivots (back substitution)
+    P = W[pivots, :]
+    return W @ np.linalg.inv(P), pivots
 
 
 def _assemble_states(raw_cols, raw_y, raw_state, closing, cs, is_member,

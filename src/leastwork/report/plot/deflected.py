@@ -1,0 +1,42 @@
+"""The deflected shape panel: every member's displaced axis, magnified by a 1-2-5 factor,
+over the undeformed structure in grey, with the largest displacement marked."""
+
+from __future__ import annotations
+
+import numpy as np
+
+from ...output.sheet import fmt
+from .data import deflection
+from .geometry import case_units, member_axes
+from .panel import Panel
+from .structure import draw_members, draw_supports
+from .style import SHAPE
+
+
+def deflected_panel(pn: Panel, sol, case: str) -> tuple[str, str]:
+    """The deflected shape of load case ``case``: (title, note)."""
+    st = sol.structure
+    res = sol.cases[case]
+    lf, lu = case_units(st)["length"]
+    factor, umax, where, shapes = deflection(sol, res, 81)
+    umax /= lf
+    draw_members(pn, st, faint=True)
+    draw_supports(pn, st, faint=True)
+    title = f"{case}: deflected shape"
+    if umax == 0.0:
+        return title, "no displacement in this load case"
+    best = (0.0, None)
+    for mid, (x, ux, uy) in shapes.items():
+        o, ex, _ = member_axes(st, mid)
+        base = o[None, :] + x[:, None] * ex[None, :]
+        moved = base + factor * np.c_[ux, uy]
+        pn.line(moved, color=SHAPE, lw=1.6, z=4)
+        mag = np.hypot(ux, uy)
+        k = int(np.argmax(mag))
+        if mag[k] > best[0]:
+            best = (float(mag[k]), moved[k], np.array([ux[k], uy[k]]))
+    _, p, u = best
+    pn.circle(p, 0.18 * pn.h, face=SHAPE, edge=SHAPE, z=6)
+    pn.label(p, f"{fmt(umax, 3)} {lu}", direction=u, color=SHAPE, force=True)
+    return (f"{title}, displacements drawn × {fmt(factor)}",
+            f"largest displacement {fmt(umax, 3)} {lu} ({where}); undeformed shape in grey")

@@ -1,0 +1,118 @@
+"""Where things sit and at what scale: the size of the structure, 1-2-5 factors, the case
+units, member axes, and the sides on which supports and labels go (all lengths in m)."""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+from ...model import Structure
+
+
+def nice_factor(x: float) -> float:
+    """The largest of 1, 2, 5 times a power of ten not above ``x`` (> 0).
+
+    >>> nice_factor(437.0), nice_factor(0.3), nice_factor(1.0)
+    (200.0, 0.2, 1.0)
+    """
+    if not x > 0 or not math.isfinite(x):
+        return 1.0
+    p = 10.0 ** math.floor(math.log10(x) + 1e-12)
+    for m in (5.0, 2.0, 1.0):
+        if m * p <= x * (1 + 1e-12):
+            return float(f"{m * p:.12g}")
+    return float(f"{p:.12g}")
+
+
+def structure_size(st: Structure) -> float:
+    """Size of the structure (m): the larger side of the box around its nodes."""
+    xs = [n.x for n in st.nodes.values()]
+    ys = [n.y for n in st.nodes.values()]
+    size = max(max(xs) - min(xs), max(ys) - min(ys))
+    return size if size > 0 else max((st.length(m) for m in st.members), default=1.0)
+
+
+def case_units(st: Structure) -> dict[str, tuple[float, str]]:
+    """(SI value of one case unit, its name) of force, length and moment."""
+    u = st.units
+    return {"force": (u.factor("force"), u.force), "length": (u.factor("length"), u.length),
+            "moment": (u.factor("moment"), f"{u.force}·{u.length}")}
+
+
+def xy(st: Structure, node: str) -> np.ndarray:
+    """Position of a node (m)."""
+    n = st.nodes[node]
+    return np.array([n.x, n.y])
+
+
+def member_axes(st: Structure, mid: str) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Start point, local x and local y unit vectors of a member."""
+    c, s = st.direction(mid)
+    return xy(st, st.members[mid].start), np.array([c, s]), np.array([-s, c])
+
+
+def away_from_members(st: Structure, node: str) -> np.ndarray:
+    """Unit vector pointing from a node away from the members that meet there."""
+    p = xy(st, node)
+    acc = np.zeros(2)
+    for m in st.members.values():
+        if node in (m.start, m.end):
+            other = xy(st, m.end if node == m.start else m.start)
+            d = other - p
+            acc += d / max(np.hypot(*d), 1e-300)
+    if np.hypot(*acc) < 1e-6:
+        return np.array([0.0, -1.0])
+    return -acc / np.hypot(*acc)
+
+
+def snap(v: np.ndarray) -> np.ndarray:
+    """The axis direction nearest to ``v`` (downwards first on a tie)."""
+    cands = [np.array(c, dtype=float) for c in ((0, -1), (0, 1), (-1, 0), (1, 0))]
+    return max(cands, key=lambda c: float(c @ v) + (1e-9 if c[1] < 0 else 0.0))
+
+
+def perp(v: np.ndarray) -> np.ndarray:
+    """``v`` turned a quarter counter-clockwise."""
+    return np.array([-v[1], v[0]])
+
+
+def ground_side(nvec: np.ndarray, away_dir: np.ndarray) -> np.ndarray:
+    """Which way (+ or - ``nvec``) the ground of a one-way restraint lies: away from the
+    members when that is clear, else below, else to the left."""
+    d = float(nvec @ away_dir)
+    if abs(d) > 0.3:
+        return nvec if d > 0 else -nvec
+    if abs(nvec[1]) > 1e-9:
+        return nvec if nvec[1] < 0 else -nvec
+    return nvec if nvec[0] < 0 else -nvec
+
+
+def support_side(st: Structure, sup) -> np.ndarray:
+    """Unit vector from a support's node towards its ground."""
+    away_dir = away_from_members(st, sup.node)
+    rigid = [r for r in sup.restraints if not r.is_spring and r.direction != "rz"]
+    if len(rigid) == 1:
+        return ground_side(np.array(rigid[0].vector[:2], dtype=float), away_dir)
+    pinned = len(rigid) >= 2 and not any(r.direction == "rz" and not r.is_spring
+                                         for r in sup.restraints)
+    down = np.array([0.0, -1.0])
+    if pinned and not any(member_towards(st, sup.node, down)):
+        return down  # a pin sits on the ground below when it can
+    return snap(away_dir)
+
+
+def member_towards(st: Structure, node: str, d: np.ndarray):
+    """For each member at ``node``: whether it runs (nearly) in direction ``d``."""
+    p = xy(st, node)
+    for m in st.members.values():
+        if node in (m.start, m.end):
+            u = xy(st, m.end if node == m.start else m.start) - p
+            yield float(u @ d) > 0.95 * np.hypot(*u)
+
+
+def blocked(st: Structure, node: str, d: np.ndarray) -> bool:
+    """Whether a member or the support symbol at ``node`` lies in direction ``d``."""
+    if any(member_towards(st, node, d)):
+        return True
+    return node in st.supports and float(support_side(st, st.supports[node]) @ d) > 0.7

@@ -1,0 +1,269 @@
+"""The structure drawn to scale: members (hinges as open circles), supports and springs,
+node and member names, a scale bar, the redundants X marked where they act, and the
+structure panel that puts these together with the loads."""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+from ...model import Structure, TemperatureLoad
+from ...output.sheet import fmt
+from .geometry import (
+    away_from_members,
+    case_units,
+    ground_side,
+    member_axes,
+    nice_factor,
+    perp,
+    structure_size,
+    support_side,
+    xy,
+)
+from .loads import draw_loads
+from .panel import Panel
+from .style import FAINT, FONT, GROUND, INK, REDUNDANT
+
+
+def draw_members(pn: Panel, st: Structure, faint: bool = False) -> None:
+    """Beams thick, bars thin; open circles at hinges and at the pins of bars. ``faint``:
+    thin grey lines only (under a diagram)."""
+    for m in st.members.values():
+        a, b = xy(st, m.start), xy(st, m.end)
+        if faint:
+            pn.line([a, b], color=FAINT, lw=0.8, z=1)
+            continue
+        pn.line([a, b], color=INK, lw=2.0 if m.is_beam else 1.1, z=3)
+    if faint:
+        return
+    r = 0.22 * pn.h
+    for m in st.members.values():
+        a, b = xy(st, m.start), xy(st, m.end)
+        d = (b - a) / np.hypot(*(b - a))
+        if m.is_beam:
+            if m.hinge_start:
+                pn.circle(a + d * 1.6 * r, r)
+            if m.hinge_end:
+                pn.circle(b - d * 1.6 * r, r)
+        else:
+            pn.circle(a, 0.75 * r, z=4)
+            pn.circle(b, 0.75 * r, z=4)
+
+
+def _ground(pn: Panel, p, a, width: float, depth: float) -> None:
+    """A ground band behind point ``p`` on the side ``a`` (unit), ``width`` wide."""
+    t = perp(a)
+    q = [p + t * width / 2, p - t * width / 2, p - t * width / 2 + a * depth,
+         p + t * width / 2 + a * depth]
+    pn.poly(q, face=GROUND, z=1)
+    pn.line([q[0], q[1]], color=INK, lw=1.0, z=2)
+
+
+def _zigzag(p, a, length: float, amp: float, turns: int = 5) -> np.ndarray:
+    """A spring from ``p`` along ``a`` (unit), ``length`` long."""
+    t = perp(a)
+    s = np.linspace(0.2, 0.8, 2 * turns + 1)
+    pts = [p, p + a * 0.2 * length]
+    for k, sk in enumerate(s[1:-1]):
+        pts.append(p + a * sk * length + t * amp * (1 if k % 2 == 0 else -1))
+    pts += [p + a * 0.8 * length, p + a * length]
+    return np.array(pts)
+
+
+def draw_supports(pn: Panel, st: Structure, faint: bool = False) -> None:
+    """Every support: its rigid restraints as one symbol, then its springs."""
+    h = pn.h * (0.7 if faint else 1.0)
+    col = FAINT if faint else INK
+    for sup in st.supports.values():
+        _rigid_support(pn, st, sup, h, col)
+        _springs(pn, st, sup, h, col, faint)
+
+
+def _rigid_support(pn: Panel, st: Structure, sup, h: float, col: str) -> None:
+    """Fixed (ground at the node), pinned (a triangle), roller (a triangle on wheels),
+    guided (a block on wheels) or a rotational restraint only (a square)."""
+    p = xy(st, sup.node)
+    rigid = [r for r in sup.restraints if not r.is_spring]
+    trans = [r for r in rigid if r.direction != "rz"]
+    rot = any(r.direction == "rz" for r in rigid)
+    a = support_side(st, sup)
+    if len(trans) >= 2:
+        if rot:  # fixed: the ground right at the node
+            _ground(pn, p, a, 2.4 * h, 0.55 * h)
+        else:  # pinned: a triangle on the ground
+            t = perp(a)
+            pn.poly([p, p + a * h + t * 0.62 * h, p + a * h - t * 0.62 * h],
+                    face="white", edge=col, lw=0.9, z=3)
+            _ground(pn, p + a * h, a, 2.0 * h, 0.4 * h)
+    elif len(trans) == 1:  # roller (perhaps on an inclined surface) or guided
+        t = perp(a)
+        if rot:  # guided: a block that slides
+            pn.poly([p + t * 0.5 * h, p - t * 0.5 * h, p - t * 0.5 * h + a * 0.8 * h,
+                     p + t * 0.5 * h + a * 0.8 * h], face="white", edge=col, z=3)
+            top = 0.8 * h
+        else:
+            pn.poly([p, p + a * h + t * 0.62 * h, p + a * h - t * 0.62 * h],
+                    face="white", edge=col, lw=0.9, z=3)
+            top = h
+        rr = 0.13 * h
+        for s in (-0.32, 0.32):
+            pn.circle(p + a * (top + rr) + t * s * h, rr, edge=col, lw=0.7, z=3)
+        _ground(pn, p + a * (top + 2 * rr), a, 2.0 * h, 0.4 * h)
+    elif rot:  # a rotational restraint only
+        pn.poly([p + [-0.4 * h, -0.4 * h], p + [0.4 * h, -0.4 * h],
+                 p + [0.4 * h, 0.4 * h], p + [-0.4 * h, 0.4 * h]], face="none",
+                edge=col, z=3)
+
+
+def _springs(pn: Panel, st: Structure, sup, h: float, col: str, faint: bool) -> None:
+    """The springs of a support (a spiral for a rotational one, else a zigzag to the
+    ground) with their stiffness in the case units (not when ``faint``)."""
+    uf = case_units(st)
+    p = xy(st, sup.node)
+    away = away_from_members(st, sup.node)
+    for r in sup.restraints:
+        if not r.is_spring:
+            continue
+        if r.direction == "rz":
+            t = np.linspace(0, 3.5 * math.pi, 60)
+            rad = 0.25 * h + 0.75 * h * t / t[-1]
+            pn.line(p + np.c_[rad * np.cos(t), rad * np.sin(t)], color=col, lw=0.8, z=3)
+            k = r.stiffness / uf["moment"][0]
+            where, unit = p + [h, h], f"{uf['moment'][1]}/rad"
+        else:
+            a = ground_side(np.array(r.vector[:2], dtype=float), away)
+            zz = _zigzag(p, a, 2.4 * h, 0.3 * h)
+            pn.line(zz, color=col, lw=0.8, z=3)
+            _ground(pn, p + a * 2.4 * h, a, 1.6 * h, 0.35 * h)
+            k = r.stiffness / (uf["force"][0] / uf["length"][0])
+            where, unit = p + a * 1.2 * h + perp(a) * 0.45 * h, \
+                f"{uf['force'][1]}/{uf['length'][1]}"
+        if not faint:
+            pn.label(where, f"k = {fmt(k)} {unit}", direction=(1, 0), size=FONT - 0.5)
+
+
+# ---------------------------------------------------------------------------- redundants
+
+
+def _draw_redundants(pn: Panel, sol, res) -> None:
+    """Each redundant X where it acts, with its value: an arrow at a support for a
+    reaction, a cut across a member for an axial force, a hinge put in for an end
+    moment."""
+    st, topo = sol.structure, sol.topology
+    uf = case_units(st)
+    for i, j in enumerate(sol.redundant_columns):
+        col = topo.columns[j]
+        moment = col.kind in ("start_m", "end_m") or (col.kind == "reaction"
+                                                       and col.name.endswith(".rz"))
+        f, unit = uf["moment" if moment else "force"]
+        text = f"X{i + 1} = {col.name} = {fmt(res.redundants[i] / f, 3)} {unit}"
+        if col.kind == "reaction":
+            _redundant_reaction(pn, st, col, text)
+        elif col.kind == "axial":
+            _redundant_cut(pn, st, col.owner, text)
+        else:
+            _redundant_hinge(pn, st, col, text)
+
+
+def _redundant_reaction(pn: Panel, st: Structure, col, text: str) -> None:
+    h = pn.h
+    p = xy(st, col.owner)
+    away = support_side(st, st.supports[col.owner])
+    direction = col.name.rsplit(".", 1)[1]
+    if direction == "rz":
+        q = pn.arc_arrow(p, 1.6 * h, True, color=REDUNDANT, lw=1.1)
+        pn.label(q, text, color=REDUNDANT, box=True, must=True)
+        return
+    if direction == "n":
+        r = next(r for r in st.supports[col.owner].restraints if r.direction == "n")
+        d = np.array(r.vector[:2], dtype=float)
+    else:
+        d = np.array([1.0, 0.0]) if direction == "x" else np.array([0.0, 1.0])
+    t = perp(d)
+    if float(t @ -away) > 0 or (abs(float(t @ away)) < 1e-9 and t[0] + t[1] < 0):
+        t = -t
+    c = p + t * 1.9 * h + away * (0.6 * h if abs(float(d @ away)) < 0.5 else 0.0)
+    tail = c - d * 2.0 * h
+    pn.arrow(tail, c, color=REDUNDANT, lw=1.4, head=0.55 * h)
+    pn.label(tail, text, direction=-d if abs(d[1]) > 0.5 else t,
+             color=REDUNDANT, box=True, must=True)
+
+
+def _redundant_cut(pn: Panel, st: Structure, mid: str, text: str) -> None:
+    h = pn.h
+    o, ex, ey = member_axes(st, mid)
+    c = o + ex * 0.5 * st.length(mid)
+    for s in (-0.2, 0.2):
+        pn.line([c + ex * s * h - ey * 0.55 * h, c + ex * s * h + ey * 0.55 * h],
+                color=REDUNDANT, lw=1.5, z=7)
+    pn.label(c + ey * 0.55 * h, text + " (cut)", direction=ey if ey[1] >= -1e-9
+             else -ey, color=REDUNDANT, box=True, must=True)
+
+
+def _redundant_hinge(pn: Panel, st: Structure, col, text: str) -> None:
+    h = pn.h
+    o, ex, ey = member_axes(st, col.owner)
+    L = st.length(col.owner)
+    at = min(0.12 * L, 1.5 * h)
+    c = o + ex * (at if col.kind == "start_m" else L - at)
+    pn.circle(c, 0.3 * h, edge=REDUNDANT, lw=1.2, z=7)
+    pn.label(c + ey * 0.3 * h, text + " (hinge put in)", direction=ey,
+             color=REDUNDANT, box=True, must=True)
+
+
+# ---------------------------------------------------------------------------- names, scale
+
+
+def _node_names(pn: Panel, st: Structure) -> None:
+    for nid in st.nodes:
+        d = away_from_members(st, nid)
+        if nid in st.supports:  # beside the support symbol, on its left or lower side
+            a = support_side(st, st.supports[nid])
+            t = perp(a)
+            t = -t if t[0] > 1e-9 or (abs(t[0]) <= 1e-9 and t[1] > 0) else t
+            pn.label(xy(st, nid) + a * 0.5 * pn.h, nid, direction=t, gap=0.9 * pn.h,
+                     size=FONT + 0.5, weight="bold")
+            continue
+        d = d + perp(d) * 0.6
+        pn.label(xy(st, nid), nid, direction=d, gap=0.55 * pn.h, size=FONT + 0.5,
+                 weight="bold")
+
+
+def _member_names(pn: Panel, st: Structure) -> None:
+    for mid in st.members:
+        o, ex, ey = member_axes(st, mid)
+        side = -ey if ey[1] > 1e-9 else ey
+        pn.label(o + ex * 0.5 * st.length(mid), mid, direction=side, color="#555555",
+                 size=FONT - 0.5, gap=0.3 * pn.h)
+
+
+def _scale_bar(pn: Panel, st: Structure) -> None:
+    lf, lu = case_units(st)["length"]
+    xs = [n.x for n in st.nodes.values()]
+    ys = [n.y for n in st.nodes.values()]
+    bar = nice_factor(0.2 * structure_size(st) / lf) * lf
+    p0 = np.array([min(xs), min(ys) - 3.2 * pn.h])
+    pn.line([p0, p0 + [bar, 0]], color=INK, lw=1.2)
+    for q in (p0, p0 + [bar, 0]):
+        pn.line([q - [0, 0.2 * pn.h], q + [0, 0.2 * pn.h]], color=INK, lw=0.8)
+    pn.label(p0 + [bar / 2, -0.2 * pn.h], f"{fmt(bar / lf)} {lu}", direction=(0, -1),
+             gap=0.1 * pn.h, force=True)
+
+
+def structure_panel(pn: Panel, sol, case: str) -> tuple[str, str]:
+    """The structure panel of load case ``case``: (title, note on what is shown)."""
+    st = sol.structure
+    res = sol.cases[case]
+    draw_members(pn, st)
+    draw_supports(pn, st)
+    _node_names(pn, st)
+    _draw_redundants(pn, sol, res)
+    draw_loads(pn, st, case)
+    _member_names(pn, st)
+    _scale_bar(pn, st)
+    note = ("to scale; loads in blue, imposed effects brown, redundants X red; "
+            "open circles are hinges and pins")
+    if any(isinstance(ld, TemperatureLoad) and ld.case == case for ld in st.loads):
+        note += "; gradient = temperature of local -y face minus +y face"
+    return f"{case}: structure, loads and redundants", note
