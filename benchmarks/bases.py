@@ -52,8 +52,8 @@ from scale import difference, force_summary  # noqa: E402
 import leastwork  # noqa: E402
 from leastwork.selfstress import members_per_state  # noqa: E402
 from leastwork.sparse_solve import solve_local  # noqa: E402
-from leastwork.stiffness import solve_stiffness  # noqa: E402
 from leastwork.topology import build_topology, choose_redundants  # noqa: E402
+from leastwork.verify import solve_stiffness  # noqa: E402
 
 __all__ = ["STRUCTURES", "BASES", "measure", "main"]
 

@@ -1,7 +1,7 @@
 """Whole-process time of a large solve from the command line: ``python -m leastwork solve
 big.toml --json`` (output thrown away) against a straightforward process that reads the
 same file with :func:`leastwork.load_case` and runs the direct stiffness solver
-(:func:`leastwork.stiffness.solve_stiffness`) on every load case, nothing else. The case
+(:func:`leastwork.verify.solve_stiffness`) on every load case, nothing else. The case
 is a cross-braced grid (:func:`generators.braced_grid`, square, about ``--members``
 members, 10^4 by default) written to a temporary .toml file.
 
@@ -41,7 +41,7 @@ __all__ = ["ProcessTimes", "grid_panels", "commands", "measure", "report", "main
 STIFFNESS_SCRIPT = """\
 import sys
 import leastwork
-from leastwork.stiffness import solve_stiffness
+from leastwork.verify import solve_stiffness
 st = leastwork.load_case(sys.argv[1])
 for case in st.case_names:
     solve_stiffness(st, case)

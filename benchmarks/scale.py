@@ -66,7 +66,7 @@ from generators import FAMILIES, structure  # noqa: E402
 
 import leastwork  # noqa: E402
 from leastwork.solve import column_count  # noqa: E402
-from leastwork.stiffness import solve_stiffness  # noqa: E402
+from leastwork.verify import solve_stiffness  # noqa: E402
 
 __all__ = ["Row", "Run", "members_of", "sizes", "measure", "measure_fresh", "difference", "force_summary",
            "growth_exponent", "format_row", "main", "DENSE_MAX_COLUMNS", "MAX_MEMBERS"]
