@@ -163,3 +163,50 @@ FAMILIES = {
     "storey frame": (lambda n: storey_frame(n, max(1, n // 2)), "bays"),
     "continuous beam": (continuous_beam, "supports"),
 }
+
+
+def multi_span_truss(panels: int, *, every: int = 50, panel: float = 3.0,
+                     depth: float = 2.5) -> str:
+    """The cross-braced girder of :func:`braced_truss` (same joints, bars and loads) on a
+    support every ``every`` panels: pinned at ``L0``, a roller at ``L{k * every}`` for
+    k = 1, 2, ... and at ``Ln``.
+
+    Degree of indeterminacy m + r - 2 j (common practice) with m = 5 n + 1 bars,
+    j = 2 (n + 1) joints and r = 2 + (s - 1) reactions for s supported joints:
+    ``n + s - 2`` (:func:`multi_span_truss_degree`). Quantities are bare numbers in the case
+    units (kN, m) so that reading stays cheap at 10^4 bars.
+    """
+    if panels < 1 or every < 1:
+        raise ValueError("multi_span_truss needs panels >= 1 and every >= 1")
+    nodes = [f"L{i} = [{panel * i:g}, 0]" for i in range(panels + 1)]
+    nodes += [f"U{i} = [{panel * i:g}, {depth:g}]" for i in range(panels + 1)]
+    bars = []
+    for i in range(panels):
+        for name, a, b in ((f"B{i}", f"L{i}", f"L{i + 1}"), (f"T{i}", f"U{i}", f"U{i + 1}"),
+                           (f"D{i}", f"L{i}", f"U{i + 1}"), (f"E{i}", f"U{i}", f"L{i + 1}")):
+            bars.append(_bar(name, a, b, _ea(name)))
+    bars += [_bar(f"V{i}", f"L{i}", f"U{i}", _ea("V")) for i in range(panels + 1)]
+    supports = ['L0 = "pinned"'] + [f'L{i} = "roller"' for i in _supported(panels, every)[1:]]
+    loads = [f'[[loads]]\nnode = "L{i}"\nfy = -12\n' for i in range(1, panels)]
+    loads.append('[[loads]]\nnode = "U0"\nfx = 3\n')
+    return (_HEADER.format(name=f"braced truss, {panels} panels, a support every {every}")
+            + _table("nodes", nodes) + _table("bars", bars) + _table("supports", supports)
+            + "\n".join(loads))
+
+
+def _supported(panels: int, every: int) -> list[int]:
+    """Panel points of :func:`multi_span_truss` with a support, from 0 to ``panels``."""
+    return sorted(set(range(0, panels + 1, every)) | {panels})
+
+
+def multi_span_truss_degree(panels: int, every: int = 50) -> int:
+    """Degree of indeterminacy of :func:`multi_span_truss` (see there)."""
+    return panels + len(_supported(panels, every)) - 2
+
+
+def multi_span_truss_panels(bars: int) -> int:
+    """Panels of :func:`multi_span_truss` with about ``bars`` bars (5 per panel, plus one)."""
+    return max(1, round((bars - 1) / 5))
+
+
+__all__ += ["multi_span_truss", "multi_span_truss_degree", "multi_span_truss_panels"]

@@ -30,7 +30,8 @@ import numpy as np
 from .errors import CaseError
 from .influence import reaction_rows
 from .model import Structure
-from .units import UnitSystem, ureg
+from .plaintext import ECHO_LIMIT, literal
+from .units import QuantityError, UnitSystem, parse_quantity
 
 __all__ = [
     "Reported",
@@ -61,9 +62,14 @@ _MAX_STORED = 50_000_000
 #: Entries of G below this fraction of the largest force of their column (moments over the
 #: longest member) are round-off and taken as zero.
 _ROUND_OFF = 1e-12
-#: |G[target, adjust]| below this fraction of the largest force the adjusted member's misfit
-#: sets up is "no effect" for the inverse question.
-_NO_EFFECT = 1e-9
+#: The inverse question takes a sensitivity G[target, adjust] as "no effect" while it is
+#: within this many times what round-off of the flexibility products could make of a true
+#: zero (:func:`sensitivity_round_off`; docs/studies.md). Sensitivities that are round-off
+#: measure below 0.05 of that on the bundled cases, true ones above 10^5.
+NO_EFFECT_ROUND_OFF = 64.0
+#: An adjustment longer than this fraction of the adjusted member's length leaves the
+#: small-displacement range of the analysis: it is reported with a warning.
+SMALL_CHANGE_FRACTION = 0.01
 _SOURCE, _WHERE = "command line", "--tolerance"
 _NUMBER_FIRST = re.compile(r"^[-+]?(?:\d|\.\d)")
 
@@ -71,27 +77,30 @@ _NUMBER_FIRST = re.compile(r"^[-+]?(?:\d|\.\d)")
 # ------------------------------------------------------------------------------ input
 def _tolerance_value(st: Structure, item: str, text: str) -> float:
     """One tolerance (m) from ``text``: a length with units, or a bare number in the case
-    length unit."""
+    length unit. Read by :func:`leastwork.units.parse_quantity` (bounded in length and in
+    the cost of its arithmetic)."""
     def bad(msg: str) -> CaseError:
-        return CaseError(f'"{item}": {msg}', source=_SOURCE, where=_WHERE)
+        return CaseError(f'"{literal(item, ECHO_LIMIT)}": {msg}', source=_SOURCE, where=_WHERE)
 
+    shown = literal(text, ECHO_LIMIT)
     try:
         value = float(text) * st.units.factor("length")
     except ValueError:
         if not _NUMBER_FIRST.match(text):
-            raise bad(f'"{text}" is not a length (expected a number with or without a unit, '
+            raise bad(f'"{shown}" is not a length (expected a number with or without a unit, '
                       'e.g. 2mm or 0.002)') from None
         try:
-            q = ureg().parse_expression(text)
-            value = st.units.to_si(q if hasattr(q, "magnitude") else float(q), "length")
-        except ValueError as exc:
-            raise bad(str(exc)) from None
-        except Exception:  # the unit parser raises several kinds
-            raise bad(f'cannot read "{text}" as a length (e.g. 2mm or 0.002)') from None
+            q = parse_quantity(text)
+            value = st.units.to_si(q, "length")
+        except QuantityError as exc:
+            raise bad(f'cannot read "{shown}" as a length: {exc}') from None
+        except (ValueError, ArithmeticError) as exc:  # a wrong dimension; an overflow
+            raise bad(str(exc) if isinstance(exc, ValueError) else
+                      f'"{shown}" is beyond the floating-point range') from None
     if not math.isfinite(value):
-        raise bad(f"the tolerance must be a finite length, got {text}")
+        raise bad(f"the tolerance must be a finite length, got {shown}")
     if value < 0.0:
-        raise bad(f"a tolerance is a +- band and cannot be negative, got {text}")
+        raise bad(f"a tolerance is a +- band and cannot be negative, got {shown}")
     return value
 
 
@@ -117,23 +126,27 @@ def parse_tolerances(text: str, st: Structure) -> dict[str, float]:
             continue
         name, sep, value = (s.strip() for s in item.partition("="))
         if not sep or not name or not value:
-            raise CaseError(f'"{item}": expected MEMBER=LENGTH (e.g. DA=2mm or *=1mm)',
+            raise CaseError(f'"{literal(item, ECHO_LIMIT)}": expected MEMBER=LENGTH (e.g. '
+                            "DA=2mm or *=1mm)",
                             source=_SOURCE, where=_WHERE)
         if name == "*":
             if star is not None:
-                raise CaseError(f'"{item}": * is given twice', source=_SOURCE, where=_WHERE)
+                raise CaseError(f'"{literal(item, ECHO_LIMIT)}": * is given twice',
+                                source=_SOURCE, where=_WHERE)
             star = _tolerance_value(st, item, value)
             said["*"] = item
             continue
         if name not in st.members:
             import difflib
 
-            close = difflib.get_close_matches(name, list(st.members), n=1, cutoff=0.5)
-            hint = f' (did you mean "{close[0]}"?)' if close else ""
-            raise CaseError(f'"{item}": unknown member "{name}"{hint}', source=_SOURCE,
-                            where=_WHERE)
+            close = (difflib.get_close_matches(name, list(st.members), n=1, cutoff=0.5)
+                     if len(name) <= ECHO_LIMIT and len(st.members) <= 5000 else [])
+            hint = f' (did you mean "{literal(close[0], ECHO_LIMIT)}"?)' if close else ""
+            raise CaseError(f'"{literal(item, ECHO_LIMIT)}": unknown member '
+                            f'"{literal(name, ECHO_LIMIT)}"{hint}', source=_SOURCE, where=_WHERE)
         if name in explicit:
-            raise CaseError(f'"{item}": member {name} is given twice', source=_SOURCE,
+            raise CaseError(f'"{literal(item, ECHO_LIMIT)}": member '
+                            f"{literal(name, ECHO_LIMIT)} is given twice", source=_SOURCE,
                             where=_WHERE)
         explicit[name] = _tolerance_value(st, item, value)
         said[name] = item
@@ -147,7 +160,8 @@ def parse_tolerances(text: str, st: Structure) -> dict[str, float]:
             continue
         L = st.length(mid)
         if t >= 0.5 * L:
-            raise CaseError(f'"{said.get(mid, said.get("*"))}": the tolerance of {mid} is half '
+            raise CaseError(f'"{literal(said.get(mid, said.get("*")), ECHO_LIMIT)}": the '
+                            f"tolerance of {literal(mid, ECHO_LIMIT)} is half "
                             "its length or more, outside the small-displacement assumption",
                             source=_SOURCE, where=_WHERE)
         out[mid] = t
@@ -211,14 +225,47 @@ def reported_quantities(st: Structure, topo) -> Reported:
 def misfit_influence(sol, members) -> np.ndarray:
     """G (ncol, k): basic forces and reactions (N, N*m) per metre of misfit of each of
     ``members``, from one multi-right-hand-side solve with the factorised flexibility."""
+    return sol.B @ _misfit_redundants(sol, members)
+
+
+def _misfit_redundants(sol, members) -> np.ndarray:
+    """X (nred, k): the redundants (or local state amplitudes) per metre of misfit of each
+    of ``members``, X = -delta^-1 B' E."""
     st, topo = sol.structure, sol.topology
     E = np.zeros((len(topo.columns), len(members)))
     for k, mid in enumerate(members):
         E[axial_column(st, topo, mid), k] = 1.0
     from .influence import _flexibility_solver
 
-    X = _flexibility_solver(sol).solve(-sol.B.T @ E)
-    return sol.B @ X
+    X = _flexibility_solver(sol).solve(-(sol.B.T @ E))
+    return np.asarray(X).reshape(-1, len(members))
+
+
+def sensitivity_round_off(sol, target: str, member: str, X: np.ndarray) -> float:
+    """What round-off could make (N/m) of a true zero G[target, member] = -b_t' delta^-1 b_m,
+    with b the rows of the states B at the two axial forces and ``X`` (nred, 2) the
+    redundants per metre of misfit of ``member`` and of ``target`` (:func:`_misfit_redundants`).
+
+    First-order bound: each entry of B is known to tau of its column's largest entry nu
+    (tau: the unit round-off of a back-substitution, or the accuracy of a local
+    self-stress state), and the solve with delta to EPS times its condition number:
+    tau (|X_t|·nu + |X_m|·nu) + EPS cond |b_t|·|X_m|.
+    """
+    from .solution import EPS, LOCAL_STATE_ACCURACY
+
+    st, topo = sol.structure, sol.topology
+    B = sol.B
+    if hasattr(B, "tocsr"):  # sparse local states
+        B = B.tocsr()
+        nu = np.asarray(abs(B).max(axis=0).todense()).ravel()
+        b_t = np.asarray(B[axial_column(st, topo, target)].todense()).ravel()
+    else:
+        nu = np.max(np.abs(B), axis=0, initial=0.0)
+        b_t = np.asarray(B[axial_column(st, topo, target)]).ravel()
+    tau = LOCAL_STATE_ACCURACY if sol.basis == "local" else EPS
+    x_m, x_t = np.abs(X[:, 0]), np.abs(X[:, 1])
+    cond = max(float(sol.condition), 1.0) if math.isfinite(sol.condition) else 1.0 / EPS
+    return float(tau * (x_t @ nu + x_m @ nu) + EPS * cond * (np.abs(b_t) @ x_m))
 
 
 def _clean(Gq: np.ndarray, dims, lmax: float) -> np.ndarray:
@@ -385,6 +432,8 @@ class Adjustment:
     rate: float
     before: dict[str, float]
     after: dict[str, float]
+    #: plain-text warnings (an adjustment outside the small-displacement range)
+    warnings: tuple[str, ...] = ()
 
 
 def adjustment(sol, member: str, target: str, case: str | None = None) -> Adjustment:
@@ -392,43 +441,66 @@ def adjustment(sol, member: str, target: str, case: str | None = None) -> Adjust
     the only load case, or the first).
 
     Raises CaseError when a member is unknown, the load case does not exist, or the length
-    of ``member`` does not affect the force in ``target`` (|G| below 1e-9 of the largest
-    force its misfit sets up, or no force at all).
+    of ``member`` locks in no force at all or does not affect the force in ``target``: the
+    sensitivity (G[member, member], G[target, member]) within ``NO_EFFECT_ROUND_OFF`` times
+    what round-off could make of a zero (:func:`sensitivity_round_off`). An adjustment
+    longer than ``SMALL_CHANGE_FRACTION`` of the member's length carries a warning.
     """
     st, topo = sol.structure, sol.topology
     for mid, where in ((member, "--adjust"), (target, "--zero")):
         if mid not in st.members:
             import difflib
 
-            close = difflib.get_close_matches(mid, list(st.members), n=1, cutoff=0.5)
-            hint = f' (did you mean "{close[0]}"?)' if close else ""
-            raise CaseError(f'unknown member "{mid}"{hint}', source=_SOURCE, where=where)
+            close = (difflib.get_close_matches(mid, list(st.members), n=1, cutoff=0.5)
+                     if len(mid) <= ECHO_LIMIT and len(st.members) <= 5000 else [])
+            hint = f' (did you mean "{literal(close[0], ECHO_LIMIT)}"?)' if close else ""
+            raise CaseError(f'unknown member "{literal(mid, ECHO_LIMIT)}"{hint}',
+                            source=_SOURCE, where=where)
     if case is None:
         case = next(iter(sol.cases))
     if case not in sol.cases:
-        raise CaseError(f'no load case "{case}"; the case has: ' + ", ".join(sol.cases),
+        raise CaseError(f'no load case "{literal(case, ECHO_LIMIT)}"; the case has: '
+                        + literal(", ".join(sol.cases), 4 * ECHO_LIMIT),
                         source=_SOURCE, where="--case")
-    col = misfit_influence(sol, [member])[:, 0]
+    X = _misfit_redundants(sol, [member, target])
+    col = np.asarray(sol.B @ X[:, 0]).ravel()
     axial = {mid: axial_column(st, topo, mid) for mid in st.members}
-    lmax = max((st.length(m) for m in st.members), default=1.0)
-    scale = max([abs(col[j]) for j in axial.values()]
-                + [abs(v) / lmax for j, v in enumerate(col)
-                   if topo.columns[j].kind in ("start_m", "end_m")] + [0.0])
-    rate = float(col[axial[target]])
-    if scale == 0.0:
-        raise CaseError(f"a length change of {member} locks in no force at all (the "
-                        f"structure follows it freely), so it cannot change the force in "
-                        f"{target}", source=_SOURCE, where="--adjust")
-    if abs(rate) <= _NO_EFFECT * scale:
-        raise CaseError(f"a length change of {member} does not change the force in {target} "
-                        "(the two share no redundant load path); adjust another member",
+    m_name, t_name = literal(member, ECHO_LIMIT), literal(target, ECHO_LIMIT)
+    own = float(col[axial[member]])
+    if abs(own) <= NO_EFFECT_ROUND_OFF * sensitivity_round_off(sol, member, member, X[:, [0, 0]]):
+        raise CaseError(f"a length change of {m_name} locks in no force at all (the structure "
+                        f"follows it freely), so it cannot change the force in {t_name}",
                         source=_SOURCE, where="--adjust")
+    rate = float(col[axial[target]])
+    if abs(rate) <= NO_EFFECT_ROUND_OFF * sensitivity_round_off(sol, target, member, X):
+        raise CaseError(f"a length change of {m_name} does not change the force in {t_name} "
+                        "(the sensitivity is zero to round-off: the two share no redundant "
+                        "load path); adjust another member", source=_SOURCE, where="--adjust")
     s = sol.cases[case].s
     force = float(s[axial[target]])
     change = -force / rate
     before = {mid: float(s[j]) for mid, j in axial.items()}
     after = {mid: float(s[j] + col[j] * change) for mid, j in axial.items()}
-    return Adjustment(member, target, case, change, force, rate, before, after)
+    return Adjustment(member, target, case, change, force, rate, before, after,
+                      _change_warnings(sol, member, target, change))
+
+
+def _change_warnings(sol, member: str, target: str, change: float) -> tuple[str, ...]:
+    """A warning when the length change exceeds ``SMALL_CHANGE_FRACTION`` of the member's
+    length: beyond the small-displacement range the linear answer does not hold."""
+    L = sol.structure.length(member)
+    if not abs(change) > SMALL_CHANGE_FRACTION * L:
+        return ()
+    u = sol.units
+    Lf = u.factor("length")
+    how = "longer" if change > 0 else "shorter"
+    m_name = literal(member, ECHO_LIMIT)
+    return (f"making {m_name} {abs(change) / Lf:.4g} {u.length} {how} "
+            f"({100 * abs(change) / L:.3g}% of its length, {L / Lf:.4g} {u.length}) is outside "
+            "the small-displacement range this analysis assumes (length changes up to "
+            f"{100 * SMALL_CHANGE_FRACTION:g}% of the member's length): the force in "
+            f"{literal(target, ECHO_LIMIT)} responds too little to {m_name}; the forces after "
+            "the change are not reliable",)
 
 
 # ------------------------------------------------------------------------------ JSON
@@ -491,6 +563,7 @@ def adjustment_to_dict(adj: Adjustment, units: UnitSystem) -> dict:
         "force_per_length": _num(adj.rate * Lf / Ff),
         "before": {m: force(v) for m, v in adj.before.items()},
         "after": {m: force(v) for m, v in adj.after.items()},
+        "warnings": list(adj.warnings),
     }
 
 

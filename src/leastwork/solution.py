@@ -5,19 +5,31 @@ units."""
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from functools import cached_property
 
 import numpy as np
 
 from .fields import Piecewise, gauss_integral
 from .model import DistributedLoad, NodalLoad, PointLoad, Structure, reaction_components
 
-__all__ = ["MemberResult", "CaseResult", "Solution", "EQUILIBRIUM_RTOL", "member_result"]
+__all__ = ["MemberResult", "CaseResult", "Solution", "EquilibriumCheck", "EQUILIBRIUM_ROUND_OFF",
+           "LOCAL_STATE_ACCURACY", "member_result"]
 
-#: Relative tolerance of the equilibrium check (residual / force scale).
-EQUILIBRIUM_RTOL = 1e-8
-#: Smallest force scale of a case (N): a case whose forces are all zero (a determinate
-#: structure that is only heated, say) is checked against this instead of against zero, so
-#: that round-off (of the order of 1e-10 N where EA is large) is not taken for an error.
+#: Machine epsilon of double precision (the unit round-off is half of it).
+EPS = float(np.finfo(float).eps)
+#: The equilibrium check accepts the sum of each equation (x, y or moment of a joint, or of
+#: the whole structure) while it is at most ``EQUILIBRIUM_ROUND_OFF * EPS`` times the sum of
+#: the absolute values of the terms that form it: the round-off of such a sum, and of the
+#: solve that made its terms, grows with that total, not with any one term or with the
+#: distance from the origin (docs/verification.md, "Equilibrium check tolerance").
+EQUILIBRIUM_ROUND_OFF = 1024.0
+#: Accuracy of a local self-stress state (selfstress.py accepts a state when the residual of
+#: its unit-norm columns is below 1e-11; states found by the global step measure about
+#: 2e-12): on the local basis the terms of the states count this much, not EPS.
+LOCAL_STATE_ACCURACY = 1e-11
+#: Smallest force scale of a case (N), ``CaseResult.equilibrium_scale``: other outputs treat
+#: forces far below the scale as round-off, and a case whose forces are all zero (a
+#: determinate structure that is only heated, say) is measured against 1 N.
 FORCE_FLOOR = 1.0
 
 
@@ -95,8 +107,10 @@ class CaseResult:
     nodal_displacements: np.ndarray  #: (ndof,)
     members: dict[str, MemberResult]
     reactions: dict[str, dict[str, float]]
-    equilibrium_residual: float  #: largest residual force (N) or moment (N*m)
-    equilibrium_scale: float  #: force scale of the case (N), for the relative check
+    #: residual of the governing equation of the equilibrium check (N; a moment divided by
+    #: a length, see :class:`EquilibriumCheck`)
+    equilibrium_residual: float
+    equilibrium_scale: float  #: force scale of the case (N): its largest force, at least 1 N
     loading: object = None
     deformations: np.ndarray | None = None  #: F s + e, per column (ncol,)
     released: object = None  #: the ReleasedStructure, for unit-load displacements
@@ -105,14 +119,41 @@ class CaseResult:
     #: amplitudes of the local self-stress states (the unknowns of the compatibility
     #: equations) when the basis is local; None when they are the redundants themselves
     amplitudes: np.ndarray | None = None
+    equilibrium_tolerance: float = 0.0  #: accepted residual of the governing equation (N)
+    equilibrium_where: str = ""  #: the governing equation, e.g. "node C, y"
 
     @property
     def equilibrium_ok(self) -> bool:
-        return self.equilibrium_residual <= EQUILIBRIUM_RTOL * max(self.equilibrium_scale, 1e-300)
+        """The governing equation, and so every equation, is within its tolerance (False
+        for a residual that is not a number)."""
+        return bool(self.equilibrium_residual <= self.equilibrium_tolerance)
+
+    @staticmethod
+    def term_sizes(s0: np.ndarray, size_B, X: np.ndarray, local: bool) -> np.ndarray:
+        """(2, ncol): the size of the terms each basic force of s = s0 + B X is summed from
+        (``size_B`` = |B|, dense or sparse). Row 0, terms that carry round-off: |s0|, and
+        |B| |X| for unit-redundant states (back-substitutions, exact to round-off). Row 1,
+        local self-stress states, self-stresses only to ``LOCAL_STATE_ACCURACY`` of their
+        largest term (selfstress.py): at every member a state reaches, the size of that
+        largest term, max|B_i| |X_i|."""
+        if not local:
+            return np.vstack([np.abs(s0) + size_B @ np.abs(X), np.zeros_like(s0)])
+        if hasattr(size_B, "tocsc"):  # sparse
+            top = size_B.max(axis=0).toarray().ravel()
+            reach = size_B.tocsc(copy=True)
+            reach.data = np.ones_like(reach.data)
+        else:
+            top = np.max(size_B, axis=0, initial=0.0)
+            reach = (size_B != 0).astype(float)
+        return np.vstack([np.abs(s0), reach @ (top * np.abs(X))])
 
     @classmethod
     def build(cls, st: Structure, topo, loading, X, load_terms, Delta, s, s0, nodal_disp,
-              deformations, released):
+              deformations, released, formed: np.ndarray | None = None):
+        """The result of a load case from its basic forces ``s`` = ``s0`` + B X; ``formed``
+        (2, ncol): the size of the terms each basic force was summed from
+        (:meth:`term_sizes`; default |s0| + |s - s0|, all carrying round-off), for the
+        allowance of the equilibrium check."""
         members = {mid: member_result(st, topo, mid, s, loading.particulars.get(mid))
                    for mid in st.members}
         def value_of(r) -> float:
@@ -121,10 +162,13 @@ class CaseResult:
 
         reactions = {sup.node: reaction_components(sup, value_of)
                      for sup in st.supports.values()}
-        resid, scale = _equilibrium(st, topo, loading, members, reactions)
-        scale = max(scale, FORCE_FLOOR)
+        if formed is None:
+            formed = np.vstack([np.abs(s0) + np.abs(s - s0), np.zeros_like(s)])
+        check = _equilibrium(st, topo, loading, members, reactions, formed)
         res = cls(loading.name, X, load_terms, Delta, s, s0, nodal_disp, members, reactions,
-                  resid, scale, loading, deformations=deformations, released=released)
+                  check.residual, check.scale, loading, deformations=deformations,
+                  released=released, equilibrium_tolerance=check.tolerance,
+                  equilibrium_where=check.where)
         from .displacements import evaluate_target
 
         for t in st.displacements:
@@ -132,48 +176,218 @@ class CaseResult:
         return res
 
 
-def _equilibrium(st: Structure, topo, loading, members, reactions) -> tuple[float, float]:
-    """Largest residual of nodal and overall equilibrium, recomputed from the final end
-    forces, reactions and the loads as given (not from the equilibrium matrix)."""
-    node_sum = {nid: np.zeros(3) for nid in st.nodes}
-    scale = 0.0
-    for mr in members.values():
-        mem = st.members[mr.id]
-        c, s = st.direction(mr.id)
-        ex, ey = np.array([c, s]), np.array([-s, c])
-        n0, v0, m0 = mr.start
-        nL, vL, mL = mr.end
-        f_start = n0 * ex - v0 * ey
-        f_end = -nL * ex + vL * ey
-        node_sum[mem.start] += [f_start[0], f_start[1], m0]
-        node_sum[mem.end] += [f_end[0], f_end[1], -mL]
-        scale = max(scale, abs(n0), abs(v0), abs(nL), abs(vL))
-    for ld in loading.nodal_loads:
-        node_sum[ld.node] += [ld.fx, ld.fy, ld.mz]
-        scale = max(scale, abs(ld.fx), abs(ld.fy))
-    for nid, rs in reactions.items():
-        node_sum[nid] += [rs.get("x", 0.0), rs.get("y", 0.0), rs.get("rz", 0.0)]
-        scale = max(scale, abs(rs.get("x", 0.0)), abs(rs.get("y", 0.0)))
-    lengths = [st.length(m) for m in st.members]
-    lref = max(lengths)
-    worst = 0.0
-    for nid, v in node_sum.items():
-        has_rz = f"{nid}.rz" in topo.dof_index
-        worst = max(worst, abs(v[0]), abs(v[1]), abs(v[2]) / lref if has_rz else 0.0)
-    # overall equilibrium of the whole structure from the loads as given
+@dataclass(frozen=True)
+class EquilibriumCheck:
+    """The equilibrium check of one load case (SI), recomputed from the final end forces,
+    the reactions and the loads as given (not from the equilibrium matrix).
+
+    Every equation is judged against its own tolerance, ``EQUILIBRIUM_ROUND_OFF * EPS``
+    times the sum of the absolute values of its terms: x and y of every joint and the
+    moment of every rigid joint; x, y and the moment about the centroid of the joints for
+    the whole structure (each load and reaction with its own lever arm from the centroid,
+    and each joint's terms with the joint's, since the whole structure is the sum of its
+    joints). The governing equation is the one with the largest ratio of residual to
+    tolerance. A moment is given as a force: divided by the longest member at a joint, by
+    the largest distance of a joint from the centroid for the whole structure.
+    """
+
+    residual: float  #: |sum| of the governing equation (N)
+    tolerance: float  #: its accepted residual (N)
+    where: str  #: the governing equation, e.g. "node C, y" or "whole structure, x"
+    scale: float  #: largest force of the case (N), at least FORCE_FLOOR
+
+    @property
+    def ok(self) -> bool:
+        """Every equation within its tolerance (False when a residual is not a number)."""
+        return bool(self.residual <= self.tolerance)
+
+
+@dataclass
+class _Sums:
+    """Running sums of one direction's equation at every joint: the signed sum, the sizes
+    of its terms that carry round-off, and the sizes of its terms made of local self-stress
+    states (which carry the states' own accuracy)."""
+
+    value: np.ndarray
+    size: np.ndarray
+    states: np.ndarray
+
+    @classmethod
+    def zeros(cls, n: int) -> _Sums:
+        return cls(np.zeros(n), np.zeros(n), np.zeros(n))
+
+    def add(self, at, value, size, states=0.0) -> None:
+        np.add.at(self.value, at, value)
+        np.add.at(self.size, at, size)
+        np.add.at(self.states, at, states)
+
+
+def _end_sizes(st: Structure, topo, members,
+               formed: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """(nmember, 6) twice: the size of the terms of each end force (n, v, m at the start, at
+    the end) that carry round-off, and of those made of local states. The first: the
+    polynomial sum that evaluates it (sum of |coefficient| x^j: the constant term at the
+    start, x = L at the end) plus ``formed[0]`` of its basic forces; the second ``formed[1]``
+    of its basic forces (v = (m_end - m_start)/L takes both moments')."""
+    ci = topo.column_index
+    nm = len(members)
+    cols = np.full((nm, 3), -1, dtype=int)  # axial, start moment, end moment columns
+    length = np.empty(nm)
+    first = np.empty((nm, 3))
+    last: list[np.ndarray] = []
+    for k, (mid, mr) in enumerate(members.items()):
+        cols[k] = (ci.get(mid if st.members[mid].kind == "bar" else f"{mid}.n", -1),
+                   ci.get(f"{mid}.start.m", -1), ci.get(f"{mid}.end.m", -1))
+        length[k] = mr.length
+        first[k] = mr.n.coef[0, 0], mr.v.coef[0, 0], mr.m.coef[0, 0]
+        last.extend((mr.n.coef[-1], mr.v.coef[-1], mr.m.coef[-1]))
+    width = max(len(c) for c in last)
+    coef = np.zeros((3 * nm, width))  # ascending powers of x, padded with zeros
+    for i, c in enumerate(last):
+        coef[i, :len(c)] = c
+    powers = np.repeat(length, 3)[:, None] ** np.arange(width)
+    at_end = np.sum(np.abs(coef) * powers, axis=1).reshape(nm, 3)
+    polynomial = np.hstack([np.abs(first), at_end])
+    out = []
+    for row in formed:
+        f = np.append(row, 0.0)[cols]  # column -1: none, size 0
+        sv = (f[:, 1] + f[:, 2]) / length
+        out.append(np.column_stack([f[:, 0], sv, f[:, 1], f[:, 0], sv, f[:, 2]]))
+    return polynomial + out[0], out[1]
+
+
+def _reactions(st: Structure, topo, reactions, formed: np.ndarray):
+    """Supported nodes, their reactions (n, 3: x, y, rz) and the sizes of the reactions'
+    terms that carry round-off and that are made of local states (``formed``, 2 x ncol, of
+    the reaction columns; an inclined roller's normal force by the size of its x, y parts)."""
+    nodes = list(reactions)
+    value = np.array([[reactions[n].get(d, 0.0) for d in ("x", "y", "rz")] for n in nodes])
+    sizes = np.zeros((2, len(nodes), 3))
+    for k, nid in enumerate(nodes):
+        for r in st.supports[nid].restraints:
+            j = topo.column_index.get(r.name)
+            if j is None:
+                continue
+            if r.direction == "n":
+                sizes[:, k, :2] += formed[:, j, None] * np.abs(r.vector[:2])
+            else:
+                sizes[:, k, ("x", "y", "rz").index(r.direction)] += formed[:, j]
+    sizes[0] += np.abs(value)
+    return nodes, value.reshape(-1, 3), sizes.reshape(2, -1, 3)
+
+
+def _equilibrium(st: Structure, topo, loading, members, reactions,
+                 formed: np.ndarray) -> EquilibriumCheck:
+    """The equilibrium check of a load case (see :class:`EquilibriumCheck`). ``formed``
+    (2, ncol): the size of the terms each basic force and reaction was summed from, those
+    carrying round-off and those of local self-stress states (see
+    :meth:`CaseResult.term_sizes`)."""
+    ids = list(st.nodes)
+    index = {nid: k for k, nid in enumerate(ids)}
+    nn = len(ids)
+    fx, fy, mz = _Sums.zeros(nn), _Sums.zeros(nn), _Sums.zeros(nn)
+    scale, lref = 0.0, 1.0
+    # member end forces on the joints: start n ex - v ey, end -n ex + v ey (ex = (c, s),
+    # ey = (-s, c)); end moments +m at the start, -m at the end
+    if members:
+        mids = list(members)
+        cs = np.array([st.direction(m) for m in mids])
+        c, s = cs[:, 0], cs[:, 1]
+        ac, as_ = np.abs(c), np.abs(s)
+        start = np.array([index[st.members[m].start] for m in mids])
+        end = np.array([index[st.members[m].end] for m in mids])
+        ends = np.array([(*members[m].start, *members[m].end) for m in mids])
+        n0, v0, m0, nL, vL, mL = ends.T
+        size, states = _end_sizes(st, topo, members, formed)
+        for at, sign, (n, v, m), (zn, zv, zm), (wn, wv, wm) in (
+                (start, 1.0, (n0, v0, m0), size[:, :3].T, states[:, :3].T),
+                (end, -1.0, (nL, vL, mL), size[:, 3:].T, states[:, 3:].T)):
+            fx.add(at, sign * (n * c + v * s), zn * ac + zv * as_, wn * ac + wv * as_)
+            fy.add(at, sign * (n * s - v * c), zn * as_ + zv * ac, wn * as_ + wv * ac)
+            mz.add(at, sign * m, zm, wm)
+        scale = float(np.max(np.abs(ends[:, [0, 1, 3, 4]]), initial=0.0))
+        lref = float(max(mr.length for mr in members.values()))
+    if loading.nodal_loads:
+        at = np.array([index[ld.node] for ld in loading.nodal_loads])
+        f = np.array([(ld.fx, ld.fy, ld.mz) for ld in loading.nodal_loads])
+        for sums, i in ((fx, 0), (fy, 1), (mz, 2)):
+            sums.add(at, f[:, i], np.abs(f[:, i]))
+        scale = max(scale, float(np.max(np.abs(f[:, :2]))))
+    if reactions:
+        nodes, r, (size_r, states_r) = _reactions(st, topo, reactions, formed)
+        at = np.array([index[nid] for nid in nodes])
+        for sums, i in ((fx, 0), (fy, 1), (mz, 2)):
+            sums.add(at, r[:, i], size_r[:, i], states_r[:, i])
+        scale = max(scale, float(np.max(np.abs(r[:, :2]))))
+    rigid = np.array([f"{nid}.rz" in topo.dof_index for nid in ids], dtype=bool)
+    # the solve is backward stable in norm, not joint by joint: each joint may keep the
+    # round-off of the largest joint's terms (moments: times the longest member) besides
+    # that of its own
+    largest = max(float(np.max(fx.size, initial=0.0)), float(np.max(fy.size, initial=0.0)),
+                  float(np.max(mz.size[rigid], initial=0.0)) / lref)
+    fx.size += largest
+    fy.size += largest
+    mz.size[rigid] += largest * lref
+    # every joint's allowance: round-off of its terms, and the states' accuracy
+    allow = [EQUILIBRIUM_ROUND_OFF * EPS * q.size + LOCAL_STATE_ACCURACY * q.states
+             for q in (fx, fy, mz)]
+    # the whole structure: forces and moments about the centroid of the joints (lever arms
+    # from the centroid, so that coordinates far from the origin add no round-off); it is
+    # the sum of its joints, so it takes their allowances (moments with each joint's lever
+    # arm), and the round-off of the span loads' own terms
+    xy = np.array([(st.nodes[nid].x, st.nodes[nid].y) for nid in ids])
+    centre = xy.mean(axis=0)
+    arm = xy - centre
+    radius = float(np.max(np.hypot(arm[:, 0], arm[:, 1]), initial=0.0)) or lref
+    total, span_size, scale = _whole_structure(st, loading, reactions, centre, scale)
+    whole = EQUILIBRIUM_ROUND_OFF * EPS * span_size + [
+        float(np.sum(allow[0])), float(np.sum(allow[1])),
+        float(np.sum(allow[2] + np.abs(arm[:, 0]) * allow[1] + np.abs(arm[:, 1]) * allow[0]))]
+    # every equation: |sum|, its allowance, the length that makes it a force, its name
+    nr = int(rigid.sum())
+    residual = np.abs(np.concatenate([fx.value, fy.value, mz.value[rigid], total]))
+    tolerance = np.concatenate([allow[0], allow[1], allow[2][rigid], whole])
+    lengths = np.concatenate([np.ones(2 * nn), np.full(nr, lref),
+                              [1.0, 1.0, radius]])
+    with np.errstate(divide="ignore", invalid="ignore"):
+        ratio = np.where(residual == 0.0, 0.0, residual / tolerance)
+    k = int(np.argmax(np.nan_to_num(ratio, nan=np.inf)))
+    if k < 2 * nn:
+        where = f"node {ids[k % nn]}, {'xy'[k // nn]}"
+    elif k < 2 * nn + nr:
+        where = f"node {np.array(ids, dtype=object)[rigid][k - 2 * nn]}, moment"
+    else:
+        where = ("whole structure, x", "whole structure, y",
+                 "whole structure, moment about the centroid")[k - 2 * nn - nr]
+    return EquilibriumCheck(float(residual[k] / lengths[k]), float(tolerance[k] / lengths[k]),
+                            where, max(scale, FORCE_FLOOR))
+
+
+def _whole_structure(st: Structure, loading, reactions, centre: np.ndarray,
+                     scale: float) -> tuple[np.ndarray, np.ndarray, float]:
+    """Sums of x, y and of the moment about ``centre`` of the loads as given and the
+    reactions, with the sums of the absolute values of the span loads' terms (the nodal
+    loads' and reactions' are among the joints'), and the force scale raised by the span
+    loads."""
     total = np.zeros(3)
+    size = np.zeros(3)
+    cx, cy = centre
     for ld in loading.loads:
         if isinstance(ld, NodalLoad):
             nd = st.nodes[ld.node]
-            total += [ld.fx, ld.fy, ld.mz + nd.x * ld.fy - nd.y * ld.fx]
+            total += [ld.fx, ld.fy, ld.mz + (nd.x - cx) * ld.fy - (nd.y - cy) * ld.fx]
         elif isinstance(ld, PointLoad):
-            x, y = _point_on(st, ld.member, ld.at)
-            total += [ld.fx, ld.fy, ld.mz + x * ld.fy - y * ld.fx]
+            o = st.nodes[st.members[ld.member].start]
+            c, s = st.direction(ld.member)
+            dx, dy = (o.x - cx) + ld.at * c, (o.y - cy) + ld.at * s
+            total += [ld.fx, ld.fy, ld.mz + dx * ld.fy - dy * ld.fx]
+            size += [abs(ld.fx), abs(ld.fy), abs(ld.mz) + abs(dx * ld.fy) + abs(dy * ld.fx)]
         elif isinstance(ld, DistributedLoad):
             L = st.length(ld.member)
             a, b = ld.start, (L if np.isnan(ld.end) else ld.end)
             c, s = st.direction(ld.member)
             o = st.nodes[st.members[ld.member].start]
+            ox, oy = o.x - cx, o.y - cy
 
             def w(xi, pair, a=a, b=b):
                 return pair[0] + (pair[1] - pair[0]) * (xi - a) / (b - a)
@@ -181,22 +395,22 @@ def _equilibrium(st: Structure, topo, loading, members, reactions) -> tuple[floa
             brk = np.array([a, b])
             fx = gauss_integral(brk, lambda xi, ld=ld, w=w: w(xi, ld.wx))
             fy = gauss_integral(brk, lambda xi, ld=ld, w=w: w(xi, ld.wy))
-            mz = gauss_integral(brk, lambda xi, ld=ld, w=w, o=o, c=c, s=s: (o.x + xi * c)
-                                * w(xi, ld.wy) - (o.y + xi * s) * w(xi, ld.wx))
+            mz = gauss_integral(brk, lambda xi, ld=ld, w=w, c=c, s=s, ox=ox, oy=oy:
+                                (ox + xi * c) * w(xi, ld.wy) - (oy + xi * s) * w(xi, ld.wx))
             total += [fx, fy, mz]
+            # sizes: the integral of |w| is at most the mean of the end values' sizes
+            # times the loaded length; the lever arm at most the farther end's
+            span = b - a
+            wx = 0.5 * (abs(ld.wx[0]) + abs(ld.wx[1])) * span
+            wy = 0.5 * (abs(ld.wy[0]) + abs(ld.wy[1])) * span
+            far = max(np.hypot(ox + a * c, oy + a * s), np.hypot(ox + b * c, oy + b * s))
+            size += [wx, wy, far * (wx + wy)]
             scale = max(scale, abs(fx), abs(fy))
     for nid, rs in reactions.items():
         nd = st.nodes[nid]
         rx, ry = rs.get("x", 0.0), rs.get("y", 0.0)
-        total += [rx, ry, rs.get("rz", 0.0) + nd.x * ry - nd.y * rx]
-    worst = max(worst, abs(total[0]), abs(total[1]), abs(total[2]) / lref)
-    return worst, scale
-
-
-def _point_on(st: Structure, mid: str, at: float) -> tuple[float, float]:
-    a = st.nodes[st.members[mid].start]
-    c, s = st.direction(mid)
-    return a.x + at * c, a.y + at * s
+        total += [rx, ry, rs.get("rz", 0.0) + (nd.x - cx) * ry - (nd.y - cy) * rx]
+    return total, size, scale
 
 
 @dataclass
@@ -238,6 +452,34 @@ class Solution:
     def cross_check_ok(self) -> bool:
         """No load case disagrees with (or failed in) the direct-stiffness cross-check."""
         return all(c.stiffness is None or c.stiffness.ok for c in self.cases.values())
+
+    @cached_property
+    def flexibility_terms(self) -> tuple:
+        """The energy terms summed into ``F``, member by member and term by term
+        (:func:`leastwork.energy.flexibility_terms`, SI), found once on first use."""
+        from .energy import flexibility_terms
+
+        return tuple(flexibility_terms(self.structure, self.topology))
+
+    @cached_property
+    def deformation_terms(self) -> dict[str, tuple]:
+        """Per load case, the initial deformations summed into ``e``, member by member and
+        effect by effect (:func:`leastwork.energy.initial_deformation_terms`, SI), found
+        once on first use from the loading the solve used."""
+        from .energy import initial_deformation_terms
+
+        return {name: tuple(initial_deformation_terms(self.structure, self.topology,
+                                                      res.loading.particulars,
+                                                      res.loading.imposed))
+                for name, res in self.cases.items()}
+
+    @cached_property
+    def combination_envelope(self) -> dict | None:
+        """Extremes over the load combinations (:func:`leastwork.envelope.envelope`, SI),
+        found once on first use; None without combinations."""
+        from .envelope import combination_envelope
+
+        return combination_envelope(self)
 
     def to_dict(self) -> dict:
         """The JSON result (contract section 4), every number in the case units."""

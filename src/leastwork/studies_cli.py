@@ -12,9 +12,9 @@ import json
 import sys
 
 import numpy as np
-from rich.markup import escape
 
 from .errors import CaseError
+from .plaintext import literal
 
 __all__ = ["add_parsers", "run", "COMMANDS"]
 
@@ -117,6 +117,9 @@ def _fitup(args, st, console) -> int:
              if tol is not None else None)
     adj = (adjustment(sol, args.adjust, args.zero, args.load_case)
            if args.adjust is not None else None)
+    adj_warnings = list(adj.warnings) if adj is not None else []
+    for w in adj_warnings:  # an adjustment outside the small-displacement range
+        print(f"leastwork: WARNING: {w}", file=sys.stderr)
     if args.json:
         out: dict = {"name": st.name}
         if study is not None:
@@ -124,7 +127,7 @@ def _fitup(args, st, console) -> int:
         if adj is not None:
             out["adjust"] = adjustment_to_dict(adj, units)
         out["units"] = {"force": units.force, "length": units.length, "moment": units.moment}
-        out["warnings"] = list(sol.warnings)
+        out["warnings"] = list(sol.warnings) + adj_warnings
         sys.stdout.write(json.dumps(out, indent=2) + "\n")
         return 0
     _header(console, sol)
@@ -136,12 +139,14 @@ def _fitup(args, st, console) -> int:
 
 
 def _header(console, sol) -> None:
+    from .report.terminal import heading, user_text
+
     st = sol.structure
-    console.print(f"[bold]{escape(st.name)}[/bold]  ({escape(st.source)})")
+    console.print(heading(st.name, st.source))
     console.print("Linear elastic, small displacements. Results must be checked by a "
                   "qualified engineer against the governing local codes before use.")
     for w in sol.warnings:
-        console.print(f"[yellow]Warning: {escape(w)}[/yellow]")
+        console.print(user_text(f"Warning: {w}", "yellow"))
 
 
 def _g(x: float) -> str:
@@ -155,12 +160,14 @@ def _length(x_si: float, units) -> str:
 def _print_study(console, study, units) -> None:
     from rich.table import Table
 
+    from .report.terminal import user_text
+
     rep = study.quantities
     tol = ", ".join(f"{m} ±{_g(t / units.factor('length'))}" for m, t in study.tolerances.items())
     dist = ("uniform over ±t" if study.distribution == "uniform"
             else "normal, sigma = t/3")
-    console.print(escape(f"Fit-up study: forces locked in by length errors alone (no loads). "
-                         f"Tolerances [{units.length}]: {tol}"))
+    console.print(user_text(f"Fit-up study: forces locked in by length errors alone (no "
+                            f"loads). Tolerances [{units.length}]: {tol}"))
     console.print(f"Monte Carlo: {study.samples} samples, {dist}, seed {study.seed}.")
     titles = {("members", "force"): "Axial forces", ("moments", "moment"): "Beam end moments",
               ("reactions", "force"): "Reactions", ("reactions", "moment"): "Reaction couples"}
@@ -170,13 +177,13 @@ def _print_study(console, study, units) -> None:
             continue
         u = units.force if dim == "force" else units.moment
         f = units.factor(dim)
-        t = Table(title=escape(f"{title} [{u}]: exact worst case and Monte Carlo"),
+        t = Table(title=user_text(f"{title} [{u}]: exact worst case and Monte Carlo"),
                   header_style="bold")
         t.add_column("quantity", no_wrap=True)
         for head in ("worst ±", "mean", "std", "std exact", "p05", "p95"):
-            t.add_column(escape(f"{head} [{u}]"), justify="right", overflow="fold")
+            t.add_column(user_text(f"{head} [{u}]"), justify="right", overflow="fold")
         for q in idx:
-            t.add_row(rep.names[q], *(_g(v[q] / f) for v in (
+            t.add_row(user_text(rep.names[q]), *(_g(v[q] / f) for v in (
                 study.worst.max, study.stats.mean, study.stats.std, study.std_exact,
                 study.stats.p05, study.stats.p95)))
         console.print(t)
@@ -186,7 +193,7 @@ def _print_study(console, study, units) -> None:
         if study.worst.max[q] > 0:
             pat = ", ".join(f"{m} {_length(e, units)}" for m, e in zip(
                 study.tolerances, study.worst.pattern_max[q], strict=True) if e != 0)
-            console.print(escape(
+            console.print(user_text(
                 f"Largest worst-case axial force: {rep.names[q]}, "
                 f"{_g(study.worst.max[q] / units.factor('force'))} {units.force}, with the "
                 f"length errors [{units.length}] {pat} (the opposite signs give the minimum)."))
@@ -195,22 +202,29 @@ def _print_study(console, study, units) -> None:
 def _print_adjustment(console, adj, units) -> None:
     from rich.table import Table
 
+    from .report.terminal import user_text
+
     Ff, Lf = units.factor("force"), units.factor("length")
     how = "longer" if adj.change > 0 else "shorter"
-    console.print(
-        f"Load case {adj.case}: the axial force in {adj.target} is "
-        f"{_g(adj.force_before / Ff)} {units.force} and changes by "
-        f"{_g(adj.rate * Lf / Ff)} {units.force} per {units.length} of length change of "
-        f"{adj.member}. Make {adj.member} [bold]{_g(abs(adj.change) / Lf)} {units.length} "
-        f"{how}[/bold] (misfit {_length(adj.change, units)} {units.length}) to make it zero.")
-    t = Table(title=escape(f"Axial forces [{units.force}], load case {adj.case}"),
+    from rich.text import Text
+
+    console.print(Text.assemble(
+        literal(f"Load case {adj.case}: the axial force in {adj.target} is "
+                f"{_g(adj.force_before / Ff)} {units.force} and changes by "
+                f"{_g(adj.rate * Lf / Ff)} {units.force} per {units.length} of length change "
+                f"of {adj.member}. Make {adj.member} "),
+        (literal(f"{_g(abs(adj.change) / Lf)} {units.length} {how}"), "bold"),
+        literal(f" (misfit {_length(adj.change, units)} {units.length}) to make it zero.")))
+    for w in adj.warnings:
+        console.print(Text(f"WARNING: {w}", style="bold red"))
+    t = Table(title=user_text(f"Axial forces [{units.force}], load case {adj.case}"),
               header_style="bold")
     for head in ("member", f"before [{units.force}]", f"after [{units.force}]"):
-        t.add_column(escape(head), justify="left" if head == "member" else "right")
+        t.add_column(user_text(head), justify="left" if head == "member" else "right")
     top = max([abs(v) for v in (*adj.before.values(), *adj.after.values())] + [0.0])
     for m in adj.before:
         after = adj.after[m] if abs(adj.after[m]) > 1e-12 * top else 0.0
-        t.add_row(m, _g(adj.before[m] / Ff), _g(after / Ff))
+        t.add_row(user_text(m), _g(adj.before[m] / Ff), _g(after / Ff))
     console.print(t)
 
 
@@ -264,7 +278,7 @@ def _draw_influence(d: dict, args, st) -> None:
     buf = io.BytesIO()
     fig.savefig(buf, format=out.suffix[1:].lower())
     write_files({out: buf.getvalue()}, force=args.force, case=st.source)
-    print(f"leastwork: wrote {out}", file=sys.stderr)
+    print(f"leastwork: wrote {literal(out)}", file=sys.stderr)
 
 
 def _influence(args, st, console) -> int:
@@ -290,18 +304,23 @@ def _influence(args, st, console) -> int:
     _header(console, sol)
     u = d["units"]
     along = ", ".join(dict.fromkeys(p["member"] for p in d["points"]))
-    console.print(f"Influence line of [bold]{escape(d['quantity'])}[/bold] for a load of "
-                  f"{escape(u['load'])} moving along {escape(along)} ({args.points} intervals "
-                  "per member).")
+    from rich.text import Text
+
+    from .report.terminal import user_text
+
+    console.print(Text.assemble(
+        "Influence line of ", (literal(d["quantity"]), "bold"),
+        literal(f" for a load of {u['load']} moving along {along} ({args.points} intervals "
+                "per member).")))
     t = Table(header_style="bold")
     t.add_column("member")
-    t.add_column(escape(f"at [{u['length']}]"), justify="right")
-    t.add_column(escape(f"value [{u['value']}]"), justify="right")
+    t.add_column(user_text(f"at [{u['length']}]"), justify="right")
+    t.add_column(user_text(f"value [{u['value']}]"), justify="right")
     sides = any("side" in p for p in d["points"])
     if sides:
         t.add_column("load")
     for p in d["points"]:
-        row = [p["member"], _g(p["at"]), _g(p["value"])]
+        row = [user_text(p["member"]), _g(p["at"]), _g(p["value"])]
         if sides:
             row.append({"start": "just before the section", "end": "just after the section"}
                        .get(p.get("side", ""), ""))
@@ -310,6 +329,7 @@ def _influence(args, st, console) -> int:
     vals = np.array([p["value"] for p in d["points"]])
     for label, k in (("largest", int(np.argmax(vals))), ("smallest", int(np.argmin(vals)))):
         p = d["points"][k]
-        console.print(f"{label.capitalize()} ordinate: {_g(p['value'])} {u['value']} with the "
-                      f"load on {p['member']} at {_g(p['at'])} {u['length']}.")
+        console.print(user_text(f"{label.capitalize()} ordinate: {_g(p['value'])} "
+                                f"{u['value']} with the load on {p['member']} at "
+                                f"{_g(p['at'])} {u['length']}."))
     return 0
