@@ -6,7 +6,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from .errors import CaseError, MechanismError
-from .stiffness import solve_stiffness, stiffness_dofs
+from .verify import solve_stiffness, stiffness_dofs
 
 __all__ = ["StiffnessCheck", "stiffness_check", "should_verify", "STIFFNESS_RTOL",
            "CONDITION_RTOL", "STIFFNESS_CONDITION_RTOL", "VERIFY_MAX_DOFS"]

@@ -19,6 +19,7 @@ from .solve import (
     _check_targets,
     cross_check,
     flexibility_matrix,
+    layout_warnings,
     solve_cases,
 )
 
@@ -87,7 +88,12 @@ def reanalyse(previous: Solution, structure: Structure, *, verify: bool | None =
     delta = flexibility_matrix(B, F)
     solver = (SparseFlexibilitySolver if local else FlexibilitySolver)(delta, names, st.source)
     results = solve_cases(st, topo, red, B, F, previous.released, solver, local=local)
-    notes = cross_check(st, results, solver.cond, verify)
+    from .sparse_solve import basis_view
+    from .stability import soft_spring_warnings
+
+    layout = layout_warnings(st, topo, basis_view(previous) if local else None)
+    notes = [*layout, *soft_spring_warnings(st, topo, B),
+             *cross_check(st, results, solver.cond, verify)]
     return Solution(st, topo, red, previous.chosen_by_user, B, F, delta, results,
                     warnings=tuple(solver.warnings + notes), released=previous.released,
                     condition=solver.cond, flexibility_solver=solver, basis=previous.basis,

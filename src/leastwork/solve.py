@@ -20,16 +20,12 @@ from .energy import flexibility_blocks, initial_deformations
 from .errors import CaseError
 from .model import Structure
 from .solution import CaseResult, Solution
+from .stability import soft_spring_warnings
 from .statics import ReleasedStructure, case_loading
-from .topology import (
-    NEAR_MECHANISM,
-    build_topology,
-    choose_redundants,
-    soft_spring_warnings,
-    weakest_mode,
-)
+from .topology import build_topology, check_stable, choose_redundants
 
-__all__ = ["solve", "resolve_basis", "column_count", "solve_cases", "flexibility_matrix", "cross_check", "FlexibilitySolver", "CONDITION_WARN", "LOCAL_BASIS_MIN_COLUMNS", "BASES"]
+__all__ = ["solve", "resolve_basis", "column_count", "solve_cases", "flexibility_matrix", "cross_check", "FlexibilitySolver", "CONDITION_WARN", "LOCAL_BASIS_MIN_COLUMNS", "BASES",
+           "layout_warnings"]
 
 
 #: Above this many basic forces and reactions the automatic choice is the local
@@ -79,16 +75,22 @@ def solve(structure: Structure, redundants=None, *, where: str | None = None,
     st = structure
     names = redundants if redundants is not None else st.redundants
     basis = resolve_basis(st, names, basis, where or "[analysis] redundants")
+    fallback: list[str] = []
     if basis == "local":
-        from .sparse_solve import solve_local
+        from .sparse_solve import SweepSingular, solve_local
 
-        return solve_local(st, verify=verify, progress=progress)
+        try:
+            return solve_local(st, verify=verify, progress=progress)
+        except SweepSingular as exc:
+            fallback.append(exc.note)
     if progress is not None:
         progress("equilibrium matrix")
     topo = build_topology(st)
     if where is None:
         where = "--redundants" if redundants is not None else "[analysis] redundants"
     chosen_by_user = names is not None
+    check_stable(st, topo)
+    notes: list[str] = [*fallback, *layout_warnings(st, topo)]
     if progress is not None:
         progress("redundants")
     red = choose_redundants(st, topo, names, where=where)
@@ -96,7 +98,6 @@ def solve(structure: Structure, redundants=None, *, where: str | None = None,
         progress("flexibility")
     F = flexibility_blocks(st, topo)
     released, B, delta, solver = _flexibility(st, topo, red, F)
-    notes: list[str] = []
     if solver.cond > CONDITION_WARN:
         alt = _better_choice(st, topo, F, red, solver.cond)
         if alt is not None and not chosen_by_user:
@@ -115,12 +116,7 @@ def solve(structure: Structure, redundants=None, *, where: str | None = None,
                          f"{solver.cond:.2g}): digits of the redundants may be lost, whatever "
                          "the redundants; check the model for near-mechanisms or members of "
                          "wildly different stiffness")
-    ratio, mode = weakest_mode(st, topo)
-    if ratio < NEAR_MECHANISM:
-        notes.append(f"near-mechanism: the equilibrium matrix is almost singular (smallest "
-                     f"to largest singular value {ratio:.1e}); the weak mode moves "
-                     f"{', '.join(mode)} — bars or supports almost in line?")
-    notes.extend(soft_spring_warnings(st, topo))
+    notes.extend(soft_spring_warnings(st, topo, B))
     if progress is not None:
         progress("load cases")
     results = solve_cases(st, topo, red, B, F, released, solver)
@@ -129,6 +125,18 @@ def solve(structure: Structure, redundants=None, *, where: str | None = None,
     return Solution(st, topo, red, chosen_by_user, B, F, delta, results,
                     warnings=tuple(solver.warnings + notes), released=released,
                     condition=solver.cond, flexibility_solver=solver)
+
+
+def layout_warnings(st: Structure, topo, basis=None) -> list[str]:
+    """Warnings that depend only on the layout, the same on every path: a near-mechanism
+    (:func:`leastwork.stability.assess_stability`, which raises MechanismError for a
+    mechanism to working precision; ``basis``: the local self-stress basis on the local
+    path) and members that overlap or pass through a joint
+    (:func:`leastwork.geometry_checks.overlap_warnings`)."""
+    from .geometry_checks import overlap_warnings
+    from .stability import assess_stability
+
+    return [*assess_stability(st, topo, basis), *overlap_warnings(st)]
 
 
 def resolve_basis(st: Structure, names, basis: str, where: str) -> str:
@@ -161,6 +169,7 @@ def solve_cases(st: Structure, topo, red: list[int], B, F, released, solver,
     self-stress states when ``local``), with flexibility ``F``, the factorised released
     structure and flexibility solver. Dense or sparse ``B`` and ``F`` alike."""
     results = {}
+    size_B = abs(B)  # |B| |X|: the size of the terms of B X, for the equilibrium check
     for case in st.case_names:
         loading = case_loading(st, topo, case)
         s0 = released.forces(loading.p)[:, 0]
@@ -173,7 +182,8 @@ def solve_cases(st: Structure, topo, red: list[int], B, F, released, solver,
         d = F @ s + e
         nodal_disp = released.displacements(d - c)
         res = CaseResult.build(st, topo, loading, s[red] if local else X, load_terms, Delta,
-                               s, s0, nodal_disp, d, released)
+                               s, s0, nodal_disp, d, released,
+                               formed=CaseResult.term_sizes(s0, size_B, X, local))
         if local:
             res.amplitudes = X
         results[case] = res

@@ -27,11 +27,28 @@ from .errors import CaseError, MechanismError
 from .model import Structure
 from .selfstress import SelfStressBasis, local_self_stress
 from .solution import Solution
-from .solve import cross_check, flexibility_matrix, jacobi_scaling, solve_cases
+from .solve import cross_check, flexibility_matrix, jacobi_scaling, layout_warnings, solve_cases
+from .stability import soft_spring_warnings
 from .topology import Topology, _keep_order, check_stable, sparse_topology
 
 __all__ = ["solve_local", "SparseReleased", "SparseFlexibilitySolver", "sparse_flexibility",
-           "find_basis", "condition_estimate", "raise_unstable", "local_topology"]
+           "find_basis", "condition_estimate", "raise_unstable", "local_topology",
+           "SweepSingular", "DENSE_CHECK_MAX_DOFS", "basis_view"]
+
+#: Up to this many nodal directions, a structure whose local sweep found no non-singular
+#: released structure is decided by the dense rank (and, if stable, solved on the
+#: released basis instead): one verdict for the two paths.
+DENSE_CHECK_MAX_DOFS = 3000
+
+
+class SweepSingular(MechanismError):
+    """The released structure of the local sweep is singular although the structure is
+    stable by the dense rank and its stability index: solve on the released basis instead
+    (``note`` says so, for the warnings)."""
+
+    def __init__(self, message: str, motions=None, note: str = ""):
+        super().__init__(message, motions)
+        self.note = note
 
 
 def sparse_flexibility(st: Structure, topo: Topology) -> sp.csr_matrix:
@@ -186,15 +203,39 @@ class SparseFlexibilitySolver:
         return D * self._lu.solve(b)
 
 
+def basis_view(sol: Solution):
+    """What the stability index needs of the local basis of a solution on that basis (the
+    released columns and their sparse LU, the states): for a reanalysis."""
+    import types
+
+    rel = sol.released
+    return types.SimpleNamespace(released=rel.keep, factor=rel._lu, states=sol.B)
+
+
 def raise_unstable(st: Structure, topo: Topology, basis: SelfStressBasis):
-    """MechanismError naming what moves: the freest motion the sweep found, or the dense
-    singular values when it found none and the structure is small enough."""
-    if not basis.motion and len(topo.dofs) <= 3000:
+    """MechanismError naming what moves when the sweep found no non-singular released
+    structure. Fewer independent forces than equations is a mechanism outright (named by
+    the freest motion the sweep found, or by the dense singular values when it found
+    none). A square but singular released structure is decided, up to
+    ``DENSE_CHECK_MAX_DOFS`` nodal directions, by the dense rank and the stability index
+    (the verdict of the released path): a mechanism raises their MechanismError, a stable
+    structure raises :class:`SweepSingular` (solve it on the released basis)."""
+    short = len(topo.dofs) - len(basis.released)
+    if len(topo.dofs) <= DENSE_CHECK_MAX_DOFS and (short <= 0 or not basis.motion):
+        from .stability import assess_stability
         from .topology import build_topology
 
-        check_stable(st, build_topology(st))
+        dense = build_topology(st)
+        check_stable(st, dense)
+        if short <= 0:
+            assess_stability(st, dense)
+            raise SweepSingular(
+                f"{st.source}: the released structure found by the self-stress sweep is "
+                "singular although the structure is stable", [],
+                note="the local self-stress sweep left a nearly singular released structure "
+                     "(the structure is close to a mechanism); the released basis was used "
+                     "instead")
     moving = [topo.dofs[r] for r in basis.motion]
-    short = len(topo.dofs) - len(basis.released)
     count = f"{short} more equation(s) than independent forces" if short > 0 else \
         "the released structure found by the self-stress sweep is singular"
     raise MechanismError(
@@ -227,6 +268,7 @@ def solve_local(st: Structure, *, verify: bool | None = None, progress=None,
     ``basis_options``: keywords of :func:`find_basis`, to compare variants only."""
     say = progress or (lambda phase: None)
     topo, basis = local_topology(st, say, **(basis_options or {}))
+    layout = layout_warnings(st, topo, basis)  # a mechanism to working precision raises
     say("released structure")
     released = SparseReleased(topo, basis)
     say("flexibility")
@@ -235,7 +277,7 @@ def solve_local(st: Structure, *, verify: bool | None = None, progress=None,
     delta = flexibility_matrix(N, F)
     names = [topo.columns[j].name for j in basis.closing]
     solver = SparseFlexibilitySolver(delta, names, st.source)
-    notes: list[str] = []
+    notes: list[str] = [*layout, *soft_spring_warnings(st, topo, N)]
     if solver.cond > 1e8:
         notes.append(f"the flexibility matrix is ill-conditioned (condition number estimate "
                      f"{solver.cond:.2g}): digits of the redundants may be lost; check the "

@@ -110,6 +110,11 @@ class ReleasedStructure:
         ncol = len(topo.columns)
         self.keep = [j for j in range(ncol) if j not in self.redundants]
         A0 = topo.A[:, self.keep]
+        if A0.shape[0] != A0.shape[1]:  # never factorise a non-square "released structure"
+            raise MechanismError(
+                f"the released structure has {A0.shape[1]} forces for {A0.shape[0]} "
+                "equilibrium equations: it is not statically determinate (a mechanism, or "
+                "a wrong number of redundants)", list(topo.mechanism))
         self._lu = lu_factor(A0)
         self.ncol = ncol
 

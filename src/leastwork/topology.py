@@ -9,7 +9,10 @@ equilibrium matrix and ``p`` the nodal loads (including those passed on by span 
 ``A @ s + p = 0``.
 
 Degree of indeterminacy = columns - rank(A); the structure is stable when A has full row
-rank. The redundants are columns whose removal leaves a square non-singular A0.
+rank. The rank is taken on the scaled matrix with the size-aware tolerance of
+:func:`rank_tolerance`, so that "stable" here and the global part of the stability index
+of :mod:`leastwork.stability` are one decision. The redundants are columns whose removal
+leaves a square non-singular A0.
 """
 
 from __future__ import annotations
@@ -26,10 +29,12 @@ if TYPE_CHECKING:
     import networkx as nx
 
 __all__ = ["Column", "Topology", "build_topology", "sparse_topology", "assemble_equilibrium", "choose_redundants", "structure_graph",
-           "member_graph_counts", "weakest_mode", "soft_spring_warnings", "NEAR_MECHANISM"]
+           "member_graph_counts", "rank_tolerance", "check_stable"]
 
-_RANK_TOL = 1e-9
 _GOOD_PIVOT = 1e-3
+#: Round-off floor of the rank tolerance: a singular value of the scaled matrix (columns of
+#: unit norm) at or below this is zero whatever the structure's size.
+_ROUND_OFF = 1e-13
 
 
 @dataclass(frozen=True)
@@ -69,6 +74,8 @@ class Topology:
     loops: int = 0  #: independent closed loops of the member graph (cycle rank)
     parts: int = 1  #: connected parts of the member graph
     A_sparse: object = None  #: the same equilibrium matrix, scipy.sparse CSC
+    #: smallest singular value of the scaled equilibrium matrix (dense path; NaN unknown)
+    sigma_min: float = float("nan")
 
     @property
     def member_columns(self) -> list[int]:
@@ -214,12 +221,15 @@ def build_topology(st: Structure) -> Topology:
     A = A_sparse.toarray()
     column_index = {c.name: i for i, c in enumerate(columns)}
     scaled = _scaled(A, dofs, st)
-    rank = _rank(scaled)
+    tol = rank_tolerance(st)
+    sv = _singular_values(scaled)
+    rank = int(np.sum(sv > tol))
     member_cols = [i for i, c in enumerate(columns) if c.kind != "reaction"]
-    internal = len(member_cols) - _rank(scaled[:, member_cols])
+    internal = len(member_cols) - _rank(scaled[:, member_cols], tol)
     degree = len(columns) - rank
     stable = rank == len(dofs)
-    mechanism = () if stable else _motion(scaled, dofs)
+    mechanism = () if stable else _motion(scaled, dofs, tol)
+    sigma_min = float(sv[-1]) if len(sv) == len(dofs) and len(dofs) else 0.0
     counting = _counting(st, dofs, columns, restraints)
     parts, loops = member_graph_counts(st)
     return Topology(
@@ -227,8 +237,18 @@ def build_topology(st: Structure) -> Topology:
         dofs=tuple(dofs), dof_index=dof_index, columns=tuple(columns),
         column_index=column_index, restraints=tuple(restraints), A=A, rank=rank,
         degree=degree, internal=internal, external=degree - internal, stable=stable,
-        counting=counting, dropped=tuple(dropped), mechanism=mechanism,
+        counting=counting, dropped=tuple(dropped), mechanism=mechanism, sigma_min=sigma_min,
     )
+
+
+def rank_tolerance(st: Structure) -> float:
+    """Singular values of the scaled equilibrium matrix (moment rows over the mean member
+    length, columns of unit norm) at or below ``MECHANISM_INDEX / size_factor`` count as
+    zero (never below the round-off floor 1e-13): the structure is stable exactly when its
+    global stability index, sigma_min times the size factor, is above MECHANISM_INDEX."""
+    from .stability import MECHANISM_INDEX, size_factor
+
+    return max(MECHANISM_INDEX / size_factor(st), _ROUND_OFF)
 
 
 def _scaled(A: np.ndarray, dofs, st: Structure) -> np.ndarray:
@@ -242,19 +262,22 @@ def _scaled(A: np.ndarray, dofs, st: Structure) -> np.ndarray:
     return S / norms
 
 
-def _rank(M: np.ndarray) -> int:
+def _singular_values(M: np.ndarray) -> np.ndarray:
+    """Singular values of M, largest first (none for an empty matrix)."""
     if M.size == 0:
-        return 0
-    sv = np.linalg.svd(M, compute_uv=False)
-    if sv.size == 0 or sv[0] == 0:
-        return 0
-    return int(np.sum(sv > _RANK_TOL * max(1.0, sv[0])))
+        return np.zeros(0)
+    return np.linalg.svd(M, compute_uv=False)
 
 
-def _motion(M: np.ndarray, dofs) -> tuple[str, ...]:
+def _rank(M: np.ndarray, tol: float) -> int:
+    """Singular values of M above ``tol`` (M scaled: columns of unit norm)."""
+    return int(np.sum(_singular_values(M) > tol))
+
+
+def _motion(M: np.ndarray, dofs, tol: float) -> tuple[str, ...]:
     """Nodal directions taking part in the first mechanism (a left null vector of M)."""
     u, sv, _ = np.linalg.svd(M, full_matrices=True)
-    ranks = int(np.sum(sv > _RANK_TOL * max(1.0, sv[0] if sv.size else 1.0)))
+    ranks = int(np.sum(sv > tol))
     null = u[:, ranks:]
     if null.shape[1] == 0:
         return ()
@@ -263,73 +286,19 @@ def _motion(M: np.ndarray, dofs) -> tuple[str, ...]:
     return tuple(d for d, v in zip(dofs, moving, strict=True) if v > 1e-6 * top)
 
 
-#: Equilibrium matrices whose smallest singular value (column-scaled) is below this fraction
-#: of the largest, yet above the rank tolerance, are reported as near-mechanisms.
-NEAR_MECHANISM = 1e-6
-
-
-def weakest_mode(st: Structure, topo: Topology) -> tuple[float, tuple[str, ...]]:
-    """Smallest singular value of the column-scaled equilibrium matrix over the largest,
-    and the nodal directions that move most in that mode (the left singular vector).
-
-    A ratio near zero means the structure is close to a mechanism: some nodal motion is
-    resisted only through an almost singular geometry (bars almost in line, supports
-    almost parallel). Only meaningful for a stable structure.
-    """
-    S = _scaled(topo.A, topo.dofs, st)
-    if S.size == 0:
-        return 1.0, ()
-    u, sv, _ = np.linalg.svd(S, full_matrices=False)
-    if sv.size < len(topo.dofs) or sv[0] == 0:
-        return 0.0, ()
-    mode = np.abs(u[:, -1])
-    top = mode.max()
-    return float(sv[-1] / sv[0]), tuple(d for d, v in zip(topo.dofs, mode, strict=True)
-                                        if v > 0.3 * top)
-
-
-def soft_spring_warnings(st: Structure, topo: Topology, ratio: float = 1e-6) -> list[str]:
-    """Springs without which the structure is a mechanism and whose stiffness is below
-    ``ratio`` times the stiffness of the members it works with (EA/L or EI/L^3 scale):
-    the structure stands only on that spring."""
-    out = []
-    S = _scaled(topo.A, topo.dofs, st)
-    member_k = []
-    for m in st.members.values():
-        L = st.length(m.id)
-        if m.EA is not None:
-            member_k.append(m.EA / L)
-        if m.is_beam and m.EI:
-            member_k.append(m.EI / L ** 3)
-    if not member_k:
-        return out
-    k_ref = float(np.median(member_k))
-    for j, c in enumerate(topo.columns):
-        if c.kind != "reaction":
-            continue
-        r = topo.restraints[c.restraint_index]
-        if not r.is_spring:
-            continue
-        kdim = r.stiffness if r.direction != "rz" else r.stiffness / max(
-            st.length(m) for m in st.members) ** 2
-        if kdim >= ratio * k_ref:
-            continue
-        rest = np.delete(S, j, axis=1)
-        if _rank(rest) < len(topo.dofs):
-            out.append(f"the structure stands only on spring {c.name}, whose stiffness is "
-                       f"{kdim / k_ref:.1e} of the members' (median EA/L, EI/L^3): a "
-                       "near-mechanism; large displacements and a poorly determined answer "
-                       "are to be expected")
-    return out
-
-
 def _describe(motion: tuple[str, ...]) -> str:
     return ", ".join(motion) if motion else "(not identified)"
 
 
 def check_stable(st: Structure, topo: Topology) -> None:
-    """Raise MechanismError if the structure itself can move."""
+    """Raise MechanismError if the structure itself can move. A matrix nearly but not
+    exactly singular (smallest singular value above round-off) is explained by the
+    stability index (:func:`leastwork.stability.assess_stability`): where and why."""
     if not topo.stable:
+        if topo.sigma_min > _ROUND_OFF:
+            from .stability import assess_stability
+
+            assess_stability(st, topo)
         free = len(topo.dofs) - topo.rank
         raise MechanismError(
             f"{st.source}: the structure is unstable (a mechanism): {free} independent "
@@ -378,39 +347,38 @@ def choose_redundants(st: Structure, topo: Topology, names=None, where: str = "[
                             f"{topo.degree}", source=st.source, where=where)
         keep = [j for j in range(ncol) if j not in idx]
         S0 = S[:, keep]
-        if _rank(S0) < len(topo.dofs):
-            motion = _motion(S0, topo.dofs)
+        tol = rank_tolerance(st)
+        if _rank(S0, tol) < len(topo.dofs):
+            motion = _motion(S0, topo.dofs, tol)
             raise MechanismError(
                 f"{st.source}: releasing {', '.join(names)} leaves a mechanism (the released "
                 "structure can move); choose other redundants.", list(motion))
         return idx
-    dropped_rank = _rank(S)
     order = _keep_order(st, topo)
     if prefer == "members":
         members = [j for j in order if topo.columns[j].kind != "reaction"]
         order = [j for j in order if j not in members] + members
     kept: list[int] = []
     Q = np.zeros((S.shape[0], 0))
-    for threshold in (_GOOD_PIVOT, _RANK_TOL * 10):
-        remaining = [j for j in order if j not in kept]
-        if threshold == _GOOD_PIVOT:
-            for j in remaining:
-                r = _residual(Q, S[:, j])
-                if np.linalg.norm(r) > threshold:
-                    kept.append(j)
-                    Q = np.column_stack([Q, r / np.linalg.norm(r)])
-        else:
-            while len(kept) < dropped_rank:
-                cand = [j for j in order if j not in kept]
-                res = [np.linalg.norm(_residual(Q, S[:, j])) for j in cand]
-                best = int(np.argmax(res))
-                if res[best] <= threshold:
-                    break
-                r = _residual(Q, S[:, cand[best]])
-                kept.append(cand[best])
-                Q = np.column_stack([Q, r / np.linalg.norm(r)])
-        if len(kept) >= dropped_rank:
-            break
+    for j in order:  # clearly independent columns, in order of preference
+        r = _residual(Q, S[:, j])
+        if np.linalg.norm(r) > _GOOD_PIVOT:
+            kept.append(j)
+            Q = np.column_stack([Q, r / np.linalg.norm(r)])
+    # then the most independent of the rest until A0 is square: the rank decision made the
+    # structure stable, so a full set exists (a near-mechanism leaves small residuals)
+    while len(kept) < len(topo.dofs):
+        cand = [j for j in order if j not in kept]
+        res = [np.linalg.norm(_residual(Q, S[:, j])) for j in cand]
+        best = int(np.argmax(res)) if res else -1
+        if best < 0 or res[best] <= _ROUND_OFF:
+            raise MechanismError(
+                f"{st.source}: no statically determinate released structure could be found "
+                "(the equilibrium equations are dependent to round-off): a mechanism.",
+                list(topo.mechanism))
+        r = _residual(Q, S[:, cand[best]])
+        kept.append(cand[best])
+        Q = np.column_stack([Q, r / np.linalg.norm(r)])
     return [j for j in range(ncol) if j not in kept]
 
 
