@@ -16,9 +16,9 @@ import numpy as np
 import pytest
 
 from leastwork import load_case, solve
-from leastwork.audit import audit_sheet
 from leastwork.cli import main
-from leastwork.sheet import Grid, fmt, split_grid
+from leastwork.output.audit import audit_sheet
+from leastwork.output.sheet import Grid, fmt, split_grid
 
 CASES = sorted((Path(__file__).resolve().parents[1] / "cases").glob("*.toml"))
 

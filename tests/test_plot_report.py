@@ -33,6 +33,7 @@ import pytest
 import leastwork
 from leastwork.checks import StiffnessCheck
 from leastwork.errors import CaseError
+from leastwork.output.sheet import fmt
 from leastwork.report.html import image_names, report_html, report_markdown_files
 from leastwork.report.plot import (
     DEFLECTION_SHARE,
@@ -42,7 +43,6 @@ from leastwork.report.plot import (
     parse_diagrams,
     plot_case,
 )
-from leastwork.sheet import fmt
 
 CASES = sorted((Path(__file__).parent.parent / "cases").glob("*.toml"))
 SVG = "{http://www.w3.org/2000/svg}"

@@ -1,9 +1,12 @@
 """Envelopes over load combinations: per member the largest and smallest n, v and m along
-it, per support the extreme reactions, each with the combination that governs."""
+it, per support the extreme reactions, each with the combination that governs.
+
+:func:`combination_envelope` is the envelope every output reports (the JSON result, the
+sheet, the summary); ``Solution.combination_envelope`` keeps it once found."""
 
 from __future__ import annotations
 
-__all__ = ["envelope"]
+__all__ = ["envelope", "combination_envelope"]
 
 
 def envelope(sol, names) -> dict:
@@ -35,3 +38,13 @@ def envelope(sol, names) -> dict:
                 if v < e["min"][0]:
                     e["min"] = (v, name)
     return {"members": members, "reactions": reactions}
+
+
+def combination_envelope(sol) -> dict | None:
+    """:func:`envelope` over the load combinations of ``sol``, in the order they are
+    written, with their names under ``"combinations"``; None without combinations. Use
+    ``sol.combination_envelope``, which finds it once."""
+    names = [name for name, _ in sol.structure.combinations]
+    if not names:
+        return None
+    return {"combinations": names, **envelope(sol, names)}

@@ -1,11 +1,23 @@
 """A calculation sheet as a document: Markdown or LaTeX text (no I/O here; the command
-line writes the file)."""
+line writes the file).
+
+Every piece of text is shown literally: control characters escaped
+(:func:`leastwork.plaintext.literal`), then, in Markdown, the characters that would format
+or become HTML escaped (:func:`md_text`: ``<`` ``>`` ``&`` as entities, emphasis, link,
+code, table and math marks with a backslash, block marks at the start of a line), and in
+LaTeX the special characters (:func:`tex_escape`). So a name such as
+``<script>alert(1)</script>`` or ``*draft* [link](x)`` reads as written.
+"""
 
 from __future__ import annotations
 
-from ..sheet import Formula, Grid, Para, Sheet, fmt, split_grid
+import re
 
-__all__ = ["sheet_markdown", "sheet_latex", "FORMATS"]
+from ..output.sheet import Formula, Grid, Para, Sheet, fmt, split_grid
+from ..plaintext import literal
+
+__all__ = ["sheet_markdown", "sheet_latex", "FORMATS", "md_text", "md_block", "md_code",
+           "tex_escape"]
 
 #: Document formats by name, with the file suffixes that select them.
 FORMATS = {"md": (".md", ".markdown"), "latex": (".tex",)}
@@ -13,36 +25,100 @@ FORMATS = {"md": (".md", ".markdown"), "latex": (".tex",)}
 _TONE_MD = {"plain": "", "note": "*Note:* ", "warning": "**Warning:** ", "alarm": "**FAILED:** "}
 
 
+#: HTML characters, written as entities (a backslash does not stop HTML in every renderer).
+_MD_ENTITIES = {"&": "&amp;", "<": "&lt;", ">": "&gt;"}
+#: Inline marks (emphasis, code, links, tables, strike-through, math), escaped by a backslash.
+_MD_INLINE = re.compile(r"([\\`*_\[\]|~$])")
+#: Marks that begin a block at the start of a line: heading, list, setext underline, and
+#: the "." or ")" after the number of an ordered list.
+_MD_BLOCK_MARK = re.compile(r"^( *)([#+=-]|\d+(?=[.)]))")
+
+
+def md_text(text: object, limit: int | None = None) -> str:
+    r"""``text`` as literal Markdown inline text (also safe in a table cell): control
+    characters escaped, HTML characters as entities, Markdown marks backslash-escaped.
+
+    >>> print(md_text("<b>*x*</b> | a_b"))
+    &lt;b&gt;\*x\*&lt;/b&gt; \| a\_b
+    """
+    s = _MD_INLINE.sub(r"\\\1", literal(text, limit))
+    return "".join(_MD_ENTITIES.get(ch, ch) for ch in s)
+
+
+def md_block(text: object, limit: int | None = None) -> str:
+    r"""``text`` as literal Markdown at the start of a line (a paragraph, a list item, a
+    quote): :func:`md_text`, and a leading block mark escaped so that it cannot start a
+    heading, list or code block.
+
+    >>> print(md_block("# 1. draft"), md_block("2) b"), md_block("    code"), sep=" / ")
+    \# 1. draft / 2\) b / &#32;   code
+    """
+    s = md_text(text, limit)
+    m = _MD_BLOCK_MARK.match(s)
+    if m:
+        mark = m.group(2)
+        if mark[0].isdigit():
+            s = s[:m.end()] + "\\" + s[m.end():]
+        else:
+            s = s[:m.start(2)] + "\\" + s[m.start(2):]
+    if s.startswith("    "):  # four spaces would make an indented code block
+        s = "&#32;" + s[1:]
+    return s
+
+
+def md_code(text: object, in_table: bool = True) -> str:
+    """``text`` as a Markdown code span, literal (control characters escaped), with a
+    delimiter longer than any run of backticks inside; ``in_table``: a pipe is escaped, as
+    a table cell needs even inside code."""
+    s = literal(text)
+    if in_table:
+        s = s.replace("|", "\\|")
+    runs = [len(r) for r in re.findall(r"`+", s)]
+    fence = "`" * (max(runs, default=0) + 1)
+    pad = " " if s.startswith("`") or s.endswith("`") or not s.strip() else ""
+    return f"{fence}{pad}{s}{pad}{fence}"
+
+
+def _md_fence(text: str) -> list[str]:
+    """A fenced code block holding ``text`` (literal) with a fence no line can close."""
+    runs = [len(r) for r in re.findall(r"`{3,}", text)]
+    fence = "`" * max(3, max(runs, default=0) + 1)
+    return [f"{fence}text", literal(text), fence]
+
+
 def _md_cell(x) -> str:
-    return fmt(x).replace("|", "\\|")
+    return md_text(fmt(x))
 
 
 def sheet_markdown(sheet: Sheet, extra: list[tuple[str, list[str]]] | None = None) -> str:
     """The sheet as Markdown: headings per step, pipe tables, formulas as code lines.
-    ``extra`` adds sections (title, Markdown lines) before the cautions."""
-    out = [f"# {sheet.title}", "", f"Case file: `{sheet.source}`"]
+    Every text of the sheet is escaped by :func:`md_text`; ``extra`` adds sections (title,
+    Markdown lines already escaped by the caller) before the cautions."""
+    out = [f"# {md_text(sheet.title)}", "", f"Case file: {md_code(sheet.source, False)}"]
     for k, v in sheet.meta.items():
-        out.append(f"  \n{k}: {v}")
+        out.append(f"  \n{md_text(k)}: {md_text(v)}")
     out += ["", "## Assumptions", ""]
-    out += [f"- {a}" for a in sheet.assumptions]
+    out += [f"- {md_block(a)}" for a in sheet.assumptions]
     for step in sheet.steps:
-        out += ["", f"## Step {step.number}. {step.title}", ""]
+        out += ["", f"## Step {step.number}. {md_text(step.title)}", ""]
         for b in step.blocks:
             if isinstance(b, Para):
-                out += [_TONE_MD[b.tone] + b.text, ""]
+                out += [(_TONE_MD[b.tone] + md_text(b.text)) if b.tone != "plain"
+                        else md_block(b.text), ""]
             elif isinstance(b, Formula):
-                out += ["```text", b.text, "```", ""]
+                out += [*_md_fence(b.text), ""]
             else:
                 out += _md_table(b)
     for title, lines in extra or []:
-        out += ["", f"## {title}", "", *lines]
+        out += ["", f"## {md_text(title)}", "", *lines]
     out += ["", "## Caution", ""]
-    out += [f"> {c}" for c in sheet.cautions]
+    for c in sheet.cautions:  # one quote each (consecutive "> " lines would merge)
+        out += [f"> {md_block(c)}", ""]
     return "\n".join(out).rstrip() + "\n"
 
 
 def _md_table(g: Grid) -> list[str]:
-    out = [f"**{g.title}**", ""]
+    out = [f"**{md_text(g.title)}**", ""]
     out.append("| " + " | ".join(_md_cell(h) for h in g.headers) + " |")
     out.append("|" + "|".join(":---" if k < g.keys or all(isinstance(r[k], str) for r in g.rows)
                               else "---:" for k in range(len(g.headers))) + "|")
@@ -64,13 +140,14 @@ _TEX_UNICODE = {"δ": r"$\delta$", "Δ": r"$\Delta$", "Σ": r"$\Sigma$", "∫": 
 
 
 def tex_escape(text: str) -> str:
-    """Plain text (Unicode) as LaTeX text.
+    """Plain text (Unicode) as LaTeX text, literal: control characters escaped first
+    (:func:`leastwork.plaintext.literal`; their backslashes then become ``\\textbackslash{}``).
 
     >>> tex_escape("δ12 = 5% of M_0")
     '$\\\\delta$12 = 5\\\\% of M\\\\_0'
     """
     out = []
-    for ch in str(text):
+    for ch in literal(text):
         out.append(_TEX_SPECIAL.get(ch) or _TEX_UNICODE.get(ch) or ch)
     return "".join(out)
 

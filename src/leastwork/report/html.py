@@ -2,6 +2,9 @@
 fetched) that prints well, and as Markdown with one diagram file per load case beside it.
 
 No I/O here: the functions return text (and file names); the command line writes them.
+Every text of the sheet and of the case (names, load cases, ids, warnings) is escaped:
+HTML by :func:`_e` (control characters escaped by :func:`leastwork.plaintext.literal`, then
+``& < > " '`` as entities), Markdown by :func:`leastwork.report.documents.md_text`.
 """
 
 from __future__ import annotations
@@ -13,7 +16,10 @@ import re
 from urllib.parse import quote
 
 from ..errors import CaseError
-from ..sheet import Formula, Grid, Para, Sheet, fmt, split_grid
+from ..output.quantities import quantities
+from ..output.reported import case_numbers
+from ..output.sheet import Formula, Grid, Para, Sheet, fmt, split_grid
+from ..plaintext import literal
 
 __all__ = ["report_html", "report_markdown_files", "image_names", "default_meta", "summary_grids", "CSS",
            "HTML_TABLE_WIDTH"]
@@ -96,7 +102,8 @@ def _cases(sol, case_names) -> list[str]:
 
 
 def _e(text) -> str:
-    return html.escape(str(text), quote=True)
+    """Text shown literally in HTML (element content or a quoted attribute)."""
+    return html.escape(literal(text), quote=True)
 
 
 # ---------------------------------------------------------------------------- blocks
@@ -155,28 +162,24 @@ def _blocks(blocks) -> str:
 
 
 def _redundant_unit(sol, j: int) -> str:
-    col = sol.topology.columns[j]
-    st = sol.structure
-    moment = col.kind in ("start_m", "end_m") or (col.kind == "reaction"
-                                                   and col.name.endswith(".rz"))
-    return f"{st.units.force}*{st.units.length}" if moment else st.units.force
+    return quantities(sol.units).column_unit(sol.topology.columns[j])
 
 
 def summary_grids(sol, cases: list[str]) -> list[Grid]:
     """The redundants of every case, and the checks (equilibrium and the direct-stiffness
-    cross-check), as tables in the case units."""
-    data = sol.to_dict()
+    cross-check), as tables in the output units (:mod:`leastwork.output.reported`)."""
+    numbers = {c: case_numbers(sol, c) for c in cases}
     grids = []
     names = sol.redundant_names
     if names:
         rows = tuple((f"X{i + 1}", n, _redundant_unit(sol, j),
-                      *[data["cases"][c]["redundants"][n] for c in cases])
+                      *[numbers[c].redundants[n] for c in cases])
                      for i, (n, j) in enumerate(zip(names, sol.redundant_columns,
                                                     strict=True)))
         grids.append(Grid("The redundants", ("X", "redundant", "unit", *cases), rows, keys=3))
     rows = []
     for c in cases:
-        ch = data["cases"][c]["checks"]
+        ch = numbers[c].checks
         res = sol.cases[c]
         sc = res.stiffness
         if sc is None:
@@ -189,7 +192,7 @@ def summary_grids(sol, cases: list[str]) -> list[Grid]:
         rows.append((c, ch["equilibrium_residual"], ch["equilibrium_tolerance"],
                      "OK" if ch["equilibrium_ok"] else "FAILED", cross, where, verdict))
     grids.append(Grid("Checks: equilibrium, and the independent direct-stiffness method",
-                      ("case", f"residual [{sol.structure.units.force}]", "tolerance",
+                      ("case", f"residual [{sol.units.force}]", "tolerance",
                        "equilibrium", "difference (relative)", "at", "cross-check"),
                       tuple(rows)))
     return grids
@@ -200,7 +203,8 @@ def _inputs(sol) -> str:
     lu = st.units.length
     out = [f"<p>Units of the case: forces in {_e(st.units.force)}, lengths in {_e(lu)}; "
            "every number below is in these units.</p>"]
-    rows = tuple((n.id, n.x / st.units.factor("length"), n.y / st.units.factor("length"),
+    lf = quantities(st.units).factor("length")
+    rows = tuple((n.id, n.x / lf, n.y / lf,
                   "yes" if n.id in st.supports else "-") for n in st.nodes.values())
     out.append(_table(Grid("Nodes", ("node", f"x [{lu}]", f"y [{lu}]", "support"), rows)))
     opts = [("redundants", ", ".join(sol.redundant_names) or "none (statically determinate)"),
@@ -226,11 +230,20 @@ def _diagrams(sol, cases: list[str]) -> str:
     return "\n".join(out)
 
 
+#: Control characters that must not reach the page raw (the line breaks and tabs of the SVG
+#: text itself are kept): C0 but tab, newline and carriage return; DEL and C1;
+#: bidirectional overrides and isolates.
+_SVG_CONTROL = re.compile("[\x00-\x08\x0b\x0c\x0e-\x1f\x7f-\x9f\u2028\u2029"
+                          "\u202a-\u202e\u2066-\u2069]")
+
+
 def _inline_svg(svg: str, label: str, prefix: str) -> str:
     """SVG text made fit to sit inside HTML: no XML prolog, doctype or metadata, its ids
-    prefixed (several figures share one document), labelled for screen readers."""
+    prefixed (several figures share one document), labelled for screen readers, and any
+    control character left in its text shown escaped (:func:`leastwork.plaintext.literal`)."""
     start = svg.find("<svg")
     body = svg[start:] if start >= 0 else svg
+    body = _SVG_CONTROL.sub(lambda m: literal(m.group()), body)
     body = re.sub(r"<metadata>.*?</metadata>\s*", "", body, flags=re.S)
     body = re.sub(r'\bid="', f'id="{prefix}', body)
     body = re.sub(r"url\(#", f"url(#{prefix}", body)
@@ -242,7 +255,7 @@ def report_html(sol, case_names=None, meta: dict[str, str] | None = None) -> str
     """The whole calculation as one HTML document: title, summary of the redundants and
     checks, inputs, assumptions, diagrams (inline SVG), the eight steps of the audit
     trail, cautions, tool version and date (``meta``; default: this tool and today)."""
-    from ..audit import audit_sheet
+    from ..output.audit import audit_sheet
 
     cases = _cases(sol, case_names)
     sheet = audit_sheet(sol, cases, meta=default_meta() if meta is None else meta)
@@ -285,10 +298,16 @@ def _document(sol, sheet: Sheet, cases: list[str]) -> str:
 # ---------------------------------------------------------------------------- Markdown
 
 
+#: Longest part of an image's file name taken from a load case's name (file systems allow
+#: 255 bytes for a whole name).
+IMAGE_NAME_CASE_LIMIT = 60
+
+
 def image_names(md_path, cases) -> dict[str, str]:
     """File name of each load case's diagram, beside the Markdown file:
     ``STEM-CASE.svg`` with anything but letters, digits, '-', '_' and '.' in the case name
-    replaced by '_' (a number is added when two names would clash).
+    replaced by '_' and cut to :data:`IMAGE_NAME_CASE_LIMIT` characters (a number is added
+    when two names would clash).
 
     >>> image_names("out/calc.md", ["dead", "wind/left", "wind left"])
     {'dead': 'calc-dead.svg', 'wind/left': 'calc-wind_left.svg', 'wind left': 'calc-wind_left-2.svg'}
@@ -297,7 +316,8 @@ def image_names(md_path, cases) -> dict[str, str]:
     out: dict[str, str] = {}
     taken: set[str] = set()
     for c in cases:
-        base = f"{stem}-{re.sub(r'[^A-Za-z0-9_.-]+', '_', c).strip('.') or 'case'}"
+        part = re.sub(r'[^A-Za-z0-9_.-]+', '_', c).strip('.')[:IMAGE_NAME_CASE_LIMIT]
+        base = f"{stem}-{part or 'case'}"
         name, k = f"{base}.svg", 2
         while name.lower() in taken:
             name, k = f"{base}-{k}.svg", k + 1
@@ -306,17 +326,13 @@ def image_names(md_path, cases) -> dict[str, str]:
     return out
 
 
-def _md_escape(text: str) -> str:
-    return re.sub(r"([\\`*_\[\]<>|])", r"\\\1", str(text))
-
-
 def report_markdown_files(sol, md_path, case_names=None,
                           meta: dict[str, str] | None = None) -> dict[pathlib.Path, bytes | str]:
     """The Markdown report (the audit trail with a summary of the checks and the diagrams
     linked) and one SVG diagram per load case beside it: {path: content}, the Markdown
     file first. Nothing is written here."""
-    from ..audit import audit_sheet
-    from .documents import sheet_markdown
+    from ..output.audit import audit_sheet
+    from .documents import md_text, sheet_markdown
     from .plot import figure_svg
 
     md_path = pathlib.Path(md_path)
@@ -327,15 +343,15 @@ def report_markdown_files(sol, md_path, case_names=None,
     lines = []
     for c in cases:
         images[md_path.with_name(names[c])] = figure_svg(sol, c)
-        lines += [f"![Diagrams of load case {_md_escape(c)}]({quote(names[c])})", "",
-                  f"*Load case {_md_escape(c)}: structure, loads and redundants; n, v, m "
+        lines += [f"![Diagrams of load case {md_text(c)}]({quote(names[c])})", "",
+                  f"*Load case {md_text(c)}: structure, loads and redundants; n, v, m "
                   "(m on the tension side); deflected shape, magnified as stated.*", ""]
     checks = []
     for g in summary_grids(sol, cases):
         checks += [f"**{g.title}**", "",
-                   "| " + " | ".join(_md_escape(h) for h in g.headers) + " |",
+                   "| " + " | ".join(md_text(h) for h in g.headers) + " |",
                    "|" + "|".join("---" for _ in g.headers) + "|"]
-        checks += ["| " + " | ".join(_md_escape(fmt(c)) for c in r) + " |" for r in g.rows]
+        checks += ["| " + " | ".join(md_text(fmt(c)) for c in r) + " |" for r in g.rows]
         checks.append("")
     text = sheet_markdown(sheet, extra=[("Summary of the redundants and checks", checks),
                                         ("Diagrams", lines)])

@@ -1,4 +1,12 @@
-"""Terminal summary and audit trail (rich)."""
+"""Terminal summary and audit trail (rich).
+
+User text (the structure name and file, load-case and combination names, ids, warnings that
+quote them) never reaches rich as markup: it goes in as :class:`rich.text.Text` made by
+:func:`user_text` or :func:`heading` (or ``Text.assemble`` of :func:`literal` pieces), after
+:func:`leastwork.plaintext.literal` (control characters escaped, one line). Text is neither
+markup nor emoji codes, so "[red]", "[/]", "[link=...]", ":smile:" or an escape sequence in
+a name print as written, whatever console is given.
+"""
 
 from __future__ import annotations
 
@@ -6,17 +14,20 @@ from dataclasses import dataclass
 
 import numpy as np
 from rich.console import Console
-from rich.markup import escape
 from rich.panel import Panel
 from rich.table import Table
+from rich.text import Text
 
-from ..audit import ASSUMPTIONS, CAUTION, energy_terms
-from ..sheet import Formula, Grid, Para, Sheet, fmt, split_grid
-from .jsonout import quantity_factors
+from ..output.audit import ASSUMPTIONS, CAUTION, energy_terms
+from ..output.quantities import quantities
+from ..output.reported import ROUND_OFF, case_numbers
+from ..output.sheet import Formula, Grid, Para, Sheet, fmt, split_grid
+from ..plaintext import literal
 
 __all__ = ["print_summary", "print_brief", "print_check", "print_steps", "print_sheet", "CAUTION",
            "ASSUMPTIONS", "energy_terms", "is_large", "print_short_summary", "governing_values", "Governing",
-           "SUMMARY_MAX_MEMBERS", "SUMMARY_MAX_REDUNDANTS", "NAMES_SHOWN"]
+           "SUMMARY_MAX_MEMBERS", "SUMMARY_MAX_REDUNDANTS", "NAMES_SHOWN", "user_text",
+           "heading"]
 
 #: A structure with more members than this, or more redundants than
 #: ``SUMMARY_MAX_REDUNDANTS``, gets the short summary (counts and governing values, not a
@@ -27,8 +38,20 @@ SUMMARY_MAX_REDUNDANTS = 30
 #: "and N more".
 NAMES_SHOWN = 10
 
+def user_text(text: object, style: str = "", limit: int | None = None) -> Text:
+    """``text`` (from the case file or the command line) as a rich Text shown literally:
+    no markup, no emoji codes, control characters escaped (:func:`leastwork.plaintext.literal`)."""
+    return Text(literal(text, limit), style=style)
+
+
+def heading(name: object, source: object, tail: str = "") -> Text:
+    """The first line of every report: the structure name in bold, the case file in
+    brackets, then ``tail`` (plain text)."""
+    return Text.assemble((literal(name), "bold"), f"  ({literal(source)})", tail)
+
+
 def _g(x: float, sig: int = 5) -> str:
-    """Summary numbers: ``sig`` significant figures (:func:`leastwork.sheet.fmt`)."""
+    """Summary numbers: ``sig`` significant figures (:func:`leastwork.output.sheet.fmt`)."""
     return fmt(x, sig)
 
 
@@ -52,7 +75,7 @@ def print_check(console: Console, st, topo, red_cols, *, basis: str = "released"
     ``basis`` "local": ``red_cols`` are the columns whose cuts the local self-stress states
     close (:mod:`leastwork.sparse_solve`). Long lists show their first names and a count.
     """
-    console.print(f"[bold]{st.name}[/bold]  ({st.source})")
+    console.print(heading(st.name, st.source))
     many = len(red_cols) > SUMMARY_MAX_REDUNDANTS or len(st.members) > SUMMARY_MAX_MEMBERS
     _indeterminacy(console, topo, limit=NAMES_SHOWN if many else None)
     if not topo.stable:
@@ -60,16 +83,17 @@ def print_check(console: Console, st, topo, red_cols, *, basis: str = "released"
     names = [topo.columns[j].name for j in red_cols]
     if basis == "local":
         plural = "s" if len(names) != 1 else ""
-        console.print(f"Suggested redundants: {len(names)} local self-stress state{plural}, "
-                      "each closing the cut of one member force or reaction: "
-                      f"[bold]{escape(_name_list(names) or 'none')}[/bold]")
+        console.print(Text.assemble(
+            f"Suggested redundants: {len(names)} local self-stress state{plural}, each "
+            "closing the cut of one member force or reaction: ",
+            (literal(_name_list(names) or "none"), "bold")))
         console.print("The released structure left by these cuts is statically determinate and "
                       "stable.")
         return
     text = _name_list(names) or "none (statically determinate)"
     if len(names) > SUMMARY_MAX_REDUNDANTS:
         text = f"{len(names)}: {text}"
-    console.print(f"Suggested redundants: [bold]{text}[/bold]")
+    console.print(Text.assemble("Suggested redundants: ", (literal(text), "bold")))
     console.print("The released structure left by this choice is statically determinate and "
                   "stable.")
 
@@ -91,13 +115,13 @@ def _indeterminacy(console: Console, topo, limit: int | None = None) -> None:
                       "governs (some members are arranged so that they cannot all act).[/yellow]")
     dropped = list(topo.dropped)
     if limit is not None and len(dropped) > limit:
-        console.print(f"Note: {len(dropped)} restraints are ignored ("
-                      f"{_name_list(dropped, limit)}): every member end at those nodes is "
-                      "hinged, so they can carry no moment.")
+        console.print(user_text(f"Note: {len(dropped)} restraints are ignored ("
+                                f"{_name_list(dropped, limit)}): every member end at those "
+                                "nodes is hinged, so they can carry no moment."))
         dropped = []
     for name in dropped:
-        console.print(f"Note: restraint {name} is ignored: every member end at that node is "
-                      "hinged, so it can carry no moment.")
+        console.print(user_text(f"Note: restraint {name} is ignored: every member end at "
+                                "that node is hinged, so it can carry no moment."))
 
 
 def print_summary(console: Console, sol, case_names=None) -> None:
@@ -107,23 +131,25 @@ def print_summary(console: Console, sol, case_names=None) -> None:
         print_short_summary(console, sol, case_names)
         return
     st, topo = sol.structure, sol.topology
-    Ff, _, Mf = quantity_factors(sol.units)
+    q = quantities(sol.units)
+    Ff = q.factor("force")
     fu, mu, lu = sol.units.force, f"{sol.units.force}*{sol.units.length}", sol.units.length
-    console.print(f"[bold]{st.name}[/bold]  ({st.source})")
+    console.print(heading(st.name, st.source))
     console.print(f"Assumptions: {ASSUMPTIONS}")
-    console.print(energy_terms(st))
+    console.print(user_text(energy_terms(st)))
     _indeterminacy(console, topo)
     how = "chosen by the user" if sol.chosen_by_user else "chosen automatically"
-    console.print(f"Redundants ({how}): [bold]{', '.join(sol.redundant_names) or 'none'}[/bold]")
+    console.print(Text.assemble(f"Redundants ({how}): ",
+                                (literal(", ".join(sol.redundant_names) or "none"), "bold")))
     if sol.redundant_names:
         console.print(f"Flexibility matrix: condition number {_g(sol.condition, 3)} "
                       "(after scaling its diagonal to one).")
     for w in sol.warnings:
-        console.print(f"[yellow]Warning: {w}[/yellow]")
-    sol_json = sol.to_dict()  # reactions as the JSON gives them (round-off shown as zero)
+        console.print(user_text(f"Warning: {w}", "yellow"))
     for name in case_names or list(sol.cases):
         res = sol.cases[name]
-        console.rule(f"Load case: {name}")
+        numbers = case_numbers(sol, name)  # as the JSON gives them (round-off shown as zero)
+        console.rule(user_text(f"Load case: {name}"))
         _equilibrium_alarm(console, res, Ff, fu)
         if len(res.redundants):
             t = Table(title="Redundants", header_style="bold")
@@ -132,18 +158,18 @@ def print_summary(console: Console, sol, case_names=None) -> None:
             t.add_column("unit")
             for j, x in zip(sol.redundant_columns, res.redundants, strict=True):
                 col = topo.columns[j]
-                mom = col.is_moment
-                t.add_row(col.name, _g(x / (Mf if mom else Ff)), mu if mom else fu)
+                t.add_row(user_text(col.name), _g(q.column(x, col)),
+                          user_text(q.column_unit(col)))
             console.print(t)
         t = Table(title="Reactions (force the support applies to the structure)",
                   header_style="bold")
         t.add_column("support")
-        t.add_column(escape(f"x [{fu}]"), justify="right")
-        t.add_column(escape(f"y [{fu}]"), justify="right")
-        t.add_column(escape(f"rz [{mu}]"), justify="right")
-        t.add_column(escape(f"normal n [{fu}]"), justify="right")
-        for node, comps in sol_json["cases"][name]["reactions"].items():
-            t.add_row(node, *[_g(comps[d]) if d in comps else "—"
+        t.add_column(user_text(f"x [{fu}]"), justify="right")
+        t.add_column(user_text(f"y [{fu}]"), justify="right")
+        t.add_column(user_text(f"rz [{mu}]"), justify="right")
+        t.add_column(user_text(f"normal n [{fu}]"), justify="right")
+        for node, comps in numbers.reactions.items():
+            t.add_row(user_text(node), *[_g(comps[d]) if d in comps else "—"
                               for d in ("x", "y", "rz", "n")])
         console.print(t)
         t = Table(title="Member end forces (section forces: n tension +, m sagging +, v = dm/dx)",
@@ -151,24 +177,24 @@ def print_summary(console: Console, sol, case_names=None) -> None:
         t.add_column("member")
         for h in (f"n start [{fu}]", f"v start [{fu}]", f"m start [{mu}]", f"n end [{fu}]",
                   f"v end [{fu}]", f"m end [{mu}]"):
-            t.add_column(escape(h), justify="right")
-        for mid, mj in sol_json["cases"][name]["members"].items():
-            t.add_row(mid, *[_g(mj[e][q]) for e in ("start", "end") for q in "nvm"])
+            t.add_column(user_text(h), justify="right")
+        for mid, mj in numbers.members.items():
+            t.add_row(user_text(mid), *[_g(mj[e][q]) for e in ("start", "end") for q in "nvm"])
         console.print(t)
         beams = [mid for mid in res.members if st.members[mid].is_beam]
         if beams:
             t = Table(title="Bending moment extremes and largest deflection along beams",
                       header_style="bold")
             t.add_column("beam")
-            t.add_column(escape(f"m max [{mu}]"), justify="right")
-            t.add_column(escape(f"at [{lu}]"), justify="right")
-            t.add_column(escape(f"m min [{mu}]"), justify="right")
-            t.add_column(escape(f"at [{lu}]"), justify="right")
-            t.add_column(escape(f"deflection [{lu}]"), justify="right")
-            t.add_column(escape(f"at [{lu}]"), justify="right")
+            t.add_column(user_text(f"m max [{mu}]"), justify="right")
+            t.add_column(user_text(f"at [{lu}]"), justify="right")
+            t.add_column(user_text(f"m min [{mu}]"), justify="right")
+            t.add_column(user_text(f"at [{lu}]"), justify="right")
+            t.add_column(user_text(f"deflection [{lu}]"), justify="right")
+            t.add_column(user_text(f"at [{lu}]"), justify="right")
             for mid in beams:  # as the JSON gives them (deflection found once)
-                mj = sol_json["cases"][name]["members"][mid]
-                t.add_row(mid, _g(mj["m_max"]["value"]), _g(mj["m_max"]["at"]),
+                mj = numbers.members[mid]
+                t.add_row(user_text(mid), _g(mj["m_max"]["value"]), _g(mj["m_max"]["at"]),
                           _g(mj["m_min"]["value"]), _g(mj["m_min"]["at"]),
                           _g(mj["deflection_max"]["value"], 4),
                           _g(mj["deflection_max"]["at"], 4))
@@ -179,16 +205,16 @@ def print_summary(console: Console, sol, case_names=None) -> None:
             t.add_column("where")
             t.add_column("value", justify="right")
             t.add_column("unit")
-            for k, v in sol_json["cases"][name]["displacements"].items():
-                t.add_row(k, _g(v), "rad" if k.endswith(".rz") else lu)
+            for k, v in numbers.displacements.items():
+                t.add_row(user_text(k), _g(v), user_text("rad" if k.endswith(".rz") else lu))
             console.print(t)
         status = "[green]OK[/green]" if res.equilibrium_ok else "[bold red]FAILED[/bold red]"
         console.print(f"Equilibrium check: largest residual {_g(res.equilibrium_residual / Ff, 2)}"
                       f" {fu} — {status}")
         _print_cross_check(console, res)
-    from ..audit import envelope_grids
+    from ..output.audit import envelope_grids
 
-    for grid in envelope_grids(sol, sol_json):
+    for grid in envelope_grids(sol):
         for part in split_grid(grid, console.width):
             console.print(_rich_table(part))
     console.print(Panel(CAUTION, title="Caution", style="yellow"))
@@ -280,15 +306,16 @@ def _governing_table(sol, res) -> Table:
     asked for when there are at most ``NAMES_SHOWN`` of them. Values within round-off of
     zero (1e-12 of the case's largest force, as in the JSON result) show as 0 with nothing
     named."""
-    Ff, Lf, Mf = quantity_factors(sol.units)
+    q = quantities(sol.units)
+    Ff, Lf, Mf = q.factor("force"), q.factor("length"), q.factor("moment")
     fu, mu, lu = sol.units.force, f"{sol.units.force}*{sol.units.length}", sol.units.length
     lmax = max((sol.structure.length(m) for m in sol.structure.members), default=1.0)
-    f_tol = 1e-12 * res.equilibrium_scale
+    f_tol = ROUND_OFF * res.equilibrium_scale
     t = Table(title="Governing values (largest magnitude)", header_style="bold",
               caption="n tension +, m sagging +; at: from the member's start node")
     for h, right in (("quantity", False), ("value", True), ("unit", False), ("where", False),
                      (f"at [{lu}]", True)):
-        t.add_column(escape(h), justify="right" if right else "left")
+        t.add_column(user_text(h), justify="right" if right else "left")
     for g in governing_values(sol, res):
         kind, _, d = g.quantity.partition(" ")
         if kind == "displacement":
@@ -301,16 +328,16 @@ def _governing_table(sol, res) -> Table:
             f, un, tol = (Mf, mu, f_tol * lmax) if kind == "m" else (Ff, fu, f_tol)
             label, where = _LABELS[kind], f"member {g.where}"
         if abs(g.value) <= tol:
-            t.add_row(label, "0", un, "—", "")
+            t.add_row(label, "0", user_text(un), "—", "")
             continue
         at = "" if kind in ("displacement", "reaction") else (
             "all along" if g.at is None else _g(g.at / Lf))
-        t.add_row(label, _g(g.value / f), un, escape(where), at)
+        t.add_row(label, _g(g.value / f), user_text(un), user_text(where), at)
     if len(res.displacements) <= NAMES_SHOWN:
         for k, v in res.displacements.items():
             rot = k.endswith(".rz")
-            t.add_row("displacement asked for", _g(v if rot else v / Lf), "rad" if rot else lu,
-                      escape(k), "")
+            t.add_row("displacement asked for", _g(v if rot else v / Lf),
+                      user_text("rad" if rot else lu), user_text(k), "")
     return t
 
 
@@ -319,11 +346,11 @@ def print_short_summary(console: Console, sol, case_names=None) -> None:
     load case (largest |n|, |v|, |m| with member and position, reactions, joint
     displacements), the checks and the warnings; no row per member, reaction or redundant."""
     st, topo = sol.structure, sol.topology
-    Ff = quantity_factors(sol.units)[0]
+    Ff = quantities(sol.units).factor("force")
     fu = sol.units.force
-    console.print(f"[bold]{escape(st.name)}[/bold]  ({escape(st.source)})")
+    console.print(heading(st.name, st.source))
     console.print(f"Assumptions: {ASSUMPTIONS}")
-    console.print(energy_terms(st))
+    console.print(user_text(energy_terms(st)))
     n_bars = sum(1 for m in st.members.values() if m.kind == "bar")
     n_beams = len(st.members) - n_bars
     n_react = sum(len(s.restraints) for s in st.supports.values())
@@ -342,22 +369,22 @@ def print_short_summary(console: Console, sol, case_names=None) -> None:
     else:
         console.print("Basis: unit redundant states of one released structure.")
         label = f"Redundants ({how})"
-    console.print(f"{label}: {len(names)}" + (f" — {_kinds(topo, sol.redundant_columns)}"
-                                               if names else "")
-                  + (f": [bold]{escape(_name_list(names, NAMES_SHOWN))}[/bold]"
-                     if names else ""), highlight=False)
+    console.print(Text.assemble(
+        f"{label}: {len(names)}"
+        + (f" — {_kinds(topo, sol.redundant_columns)}: " if names else ""),
+        (literal(_name_list(names, NAMES_SHOWN)) if names else "", "bold")))
     if names:
         est = "estimate " if sol.basis == "local" else ""
         console.print(f"Flexibility matrix: condition number {est}{_g(sol.condition, 3)} "
                       "(after scaling its diagonal to one).")
     for w in sol.warnings[:NAMES_SHOWN]:
-        console.print(f"[yellow]Warning: {escape(w)}[/yellow]")
+        console.print(user_text(f"Warning: {w}", "yellow"))
     if len(sol.warnings) > NAMES_SHOWN:
         console.print(f"[yellow]... and {len(sol.warnings) - NAMES_SHOWN} more warnings "
                       "(all of them in --json).[/yellow]")
     for name in case_names or list(sol.cases):
         res = sol.cases[name]
-        console.rule(f"Load case: {escape(name)}")
+        console.rule(user_text(f"Load case: {name}"))
         _equilibrium_alarm(console, res, Ff, fu)
         console.print(_governing_table(sol, res))
         if len(res.displacements) > NAMES_SHOWN:
@@ -369,7 +396,7 @@ def print_short_summary(console: Console, sol, case_names=None) -> None:
     if st.combinations:
         console.print(f"The envelope over the {len(st.combinations)} combination(s) is in "
                       "--json; each combination is summarised above as a load case.")
-    from ..audit import AUDIT_MAX_LOCAL_STATES
+    from ..output.audit import AUDIT_MAX_LOCAL_STATES
 
     steps = ("--steps the whole audit trail" if sol.basis != "local"
              or len(sol.redundant_columns) <= AUDIT_MAX_LOCAL_STATES
@@ -384,27 +411,26 @@ def print_short_summary(console: Console, sol, case_names=None) -> None:
 def print_brief(console: Console, sol, case_names=None) -> None:
     """One line per redundant and load case (for a large structure the largest few), the
     checks, and every warning (``--quiet``)."""
-    Ff, _, Mf = quantity_factors(sol.units)
-    u = sol.units
+    q = quantities(sol.units)
     for w in sol.warnings:
-        console.print(f"[yellow]Warning: {escape(w)}[/yellow]")
+        console.print(user_text(f"Warning: {w}", "yellow"))
     large = is_large(sol)
     for name in case_names or list(sol.cases):
         res = sol.cases[name]
         shown = list(zip(sol.redundant_columns, res.redundants, strict=True))
         if large:  # the largest few; every value is in --json
             shown = sorted(shown, key=lambda jx: -abs(jx[1]))[:NAMES_SHOWN]
-            console.print(f"{name}  {len(res.redundants)} redundants; the {len(shown)} "
-                          "largest:", highlight=False)
+            console.print(user_text(f"{name}  {len(res.redundants)} redundants; the "
+                                    f"{len(shown)} largest:"))
         for j, x in shown:
             col = sol.topology.columns[j]
-            mom = col.is_moment
-            console.print(f"{name}  {col.name} = {_g(x / (Mf if mom else Ff))} "
-                          f"{u.moment if mom else u.force}", highlight=False)
-        eq = "OK" if res.equilibrium_ok else "[bold red]FAILED[/bold red]"
+            console.print(user_text(f"{name}  {col.name} = {_g(q.column(x, col))} "
+                                    f"{q.column_unit(col)}"))
+        failed = ("FAILED", "bold red")
+        eq = "OK" if res.equilibrium_ok else failed
         c = res.stiffness
-        cc = ("not run" if c is None else "agrees" if c.ok else "[bold red]FAILED[/bold red]")
-        console.print(f"{name}  equilibrium {eq}, cross-check {cc}")
+        cc = "not run" if c is None else "agrees" if c.ok else failed
+        console.print(Text.assemble(f"{literal(name)}  equilibrium ", eq, ", cross-check ", cc))
 
 
 def _equilibrium_alarm(console: Console, res, Ff: float, fu: str) -> None:
@@ -429,12 +455,12 @@ def _print_cross_check(console: Console, res) -> None:
                 f"CROSS-CHECK FAILED: the direct stiffness method differs by "
                 f"{_g(c.difference, 2)} of the largest force (at {c.where}). Do not use these "
                 "numbers before the cause is found.")
-        console.print(Panel(escape(text), style="bold red"))
+        console.print(Panel(user_text(text), style="bold red"))
 
 
 def print_steps(console: Console, sol, case_names=None) -> None:
-    """The audit trail: every step of the force method, numbered (see :mod:`leastwork.audit`)."""
-    from ..audit import audit_sheet
+    """The audit trail: every step of the force method, numbered (see :mod:`leastwork.output.audit`)."""
+    from ..output.audit import audit_sheet
 
     print_sheet(console, audit_sheet(sol, case_names))
 
@@ -444,34 +470,34 @@ _TONE = {"plain": "", "note": "dim", "warning": "yellow", "alarm": "bold red"}
 
 def print_sheet(console: Console, sheet: Sheet) -> None:
     """A calculation sheet on the terminal; wide tables are split to the console width."""
-    console.print(f"[bold]{escape(sheet.title)}[/bold]  ({escape(sheet.source)})")
+    console.print(heading(sheet.title, sheet.source))
     for text in sheet.assumptions:
-        console.print(escape(text))
+        console.print(user_text(text))
     for step in sheet.steps:
-        console.rule(f"Step {step.number} — {escape(step.title)}")
+        console.rule(user_text(f"Step {step.number} — {step.title}"))
         for block in step.blocks:
             if isinstance(block, Para):
                 if block.tone == "alarm":
-                    console.print(Panel(escape(block.text), style="bold red"))
+                    console.print(Panel(user_text(block.text), style="bold red"))
                 else:
                     text = ("Warning: " if block.tone == "warning" else "") + block.text
-                    console.print(escape(text), style=_TONE[block.tone] or None)
+                    console.print(user_text(text, _TONE[block.tone]))
             elif isinstance(block, Formula):
-                console.print("  " + escape(block.text), highlight=False)
+                console.print(user_text("  " + block.text))
             else:
                 for part in split_grid(block, console.width):
                     console.print(_rich_table(part))
     for text in sheet.cautions:
-        console.print(Panel(escape(text), title="Caution", style="yellow"))
+        console.print(Panel(user_text(text), title="Caution", style="yellow"))
 
 
 def _rich_table(grid: Grid) -> Table:
-    t = Table(title=escape(grid.title), header_style="bold", show_footer=False)
+    t = Table(title=user_text(grid.title), header_style="bold", show_footer=False)
     for k, h in enumerate(grid.headers):
         text = all(isinstance(r[k], str) for r in grid.rows)
-        t.add_column(escape(h), justify="left" if k < grid.keys or text else "right")
+        t.add_column(user_text(h), justify="left" if k < grid.keys or text else "right")
     for row in grid.rows:
-        t.add_row(*[escape(fmt(c)) for c in row])
+        t.add_row(*[user_text(fmt(c)) for c in row])
     if grid.total:
-        t.add_row(*[escape(fmt(c)) for c in grid.total], style="bold", end_section=False)
+        t.add_row(*[user_text(fmt(c)) for c in grid.total], style="bold", end_section=False)
     return t

@@ -1,0 +1,47 @@
+"""The audit trail of a solve as a :class:`~leastwork.output.sheet.Sheet`: every step of
+the force method in the order an engineer does it by hand, with the numbers of the solve.
+
+One module per step (``structure``, ``redundants``, ``released``, ``coefficients``,
+``equations``, ``results`` with ``envelope``, ``displacements``, ``checks``); what they
+share is in ``context`` (the solution seen by the steps, the units of each coefficient)
+and ``contributions`` (member by member and term by term).
+
+The numbers that also appear in the JSON result (redundants, flexibility, load terms,
+reactions, end forces, displacements, the envelope) come from
+:mod:`leastwork.output.reported`, as the JSON result's do, so the two agree exactly.
+Contributions are summed from the energy terms the solution keeps
+(``Solution.flexibility_terms``, ``Solution.deformation_terms``); their sums equal the
+totals shown.
+"""
+
+from __future__ import annotations
+
+from ..sheet import Sheet
+from .assumptions import ASSUMPTIONS, CAUTION, energy_terms
+from .checks import step_check
+from .coefficients import step_coefficients
+from .context import AUDIT_MAX_LOCAL_STATES, Context
+from .displacements import step_displacements
+from .envelope import envelope_grids
+from .equations import step_equations
+from .redundants import step_redundants
+from .released import step_released
+from .results import step_solution
+from .structure import step_structure
+
+__all__ = ["audit_sheet", "envelope_grids", "ASSUMPTIONS", "CAUTION", "energy_terms",
+           "AUDIT_MAX_LOCAL_STATES"]
+
+#: The eight steps, in order.
+STEPS = (step_structure, step_redundants, step_released, step_coefficients, step_equations,
+         step_solution, step_displacements, step_check)
+
+
+def audit_sheet(sol, case_names=None, *, meta: dict[str, str] | None = None) -> Sheet:
+    """Build the audit trail of ``sol`` (a :class:`~leastwork.solution.Solution`) for the
+    load cases ``case_names`` (default: all)."""
+    ctx = Context(sol, case_names)
+    st = sol.structure
+    return Sheet(title=st.name, source=st.source, assumptions=(ASSUMPTIONS, energy_terms(st)),
+                 steps=tuple(step(ctx) for step in STEPS), cautions=(CAUTION,),
+                 meta=dict(meta or {}))

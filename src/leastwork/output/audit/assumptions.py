@@ -1,0 +1,41 @@
+"""The texts around the steps: the assumptions, the energy terms a solve includes, and the
+caution every output ends with."""
+
+from __future__ import annotations
+
+from ...model import Structure
+
+__all__ = ["ASSUMPTIONS", "CAUTION", "energy_terms"]
+
+ASSUMPTIONS = (
+    "Linear elastic material, small displacements, plane (2D) structure; prismatic members; "
+    "energy terms: bending and axial (beams without a cross-section area are axially rigid), "
+    "axial for bars, springs; shear only when asked."
+)
+CAUTION = (
+    "These results come from an idealised model. They must be checked by a qualified "
+    "engineer against the governing local codes before they are used for any real structure."
+)
+
+
+def energy_terms(st: Structure) -> str:
+    """Plain list of the energy terms a solve of ``st`` includes."""
+    terms = []
+    members = st.members.values()
+    if any(m.is_beam for m in members):
+        terms.append("bending (beams)")
+    if any(m.EA is not None for m in members):
+        kinds = sorted({"bars" if not m.is_beam else "beams with an area"
+                        for m in members if m.EA is not None})
+        terms.append("axial (" + ", ".join(kinds) + ")")
+    if st.shear:
+        terms.append("shear (beams)")
+    if any(r.is_spring for s in st.supports.values() for r in s.restraints):
+        terms.append("support springs")
+    text = "Energy terms included: " + ", ".join(terms) + "."
+    rigid = [m.id for m in members if m.is_beam and m.EA is None]
+    if rigid:
+        text += f" Axially rigid (no area given): {', '.join(rigid)}."
+    if not st.shear and any(m.is_beam for m in members):
+        text += " Shear energy not included."
+    return text

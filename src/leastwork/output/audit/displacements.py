@@ -1,0 +1,78 @@
+"""Step 7: the displacements asked for, by the unit-load method, contribution by
+contribution, and the largest deflection along each beam."""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+from ...model import Structure
+from ..sheet import Grid, Para, Step, fmt
+from .context import Context
+from .contributions import displacement_contributions
+
+__all__ = ["step_displacements"]
+
+
+def step_displacements(ctx: Context) -> Step:
+    blocks: list = [Para(
+        "Unit-load method: a unit load (or couple) at the point and in the direction "
+        "wanted, on the released structure (any released structure will do), does "
+        "virtual work on the real deformations: Δ = Σ ∫ m_u·M/EI dx + Σ ∫ n_u·N/EA dx "
+        "+ imposed deformations - Σ r_u·c.")]
+    any_target = False
+    for case in ctx.cases:
+        numbers = ctx.numbers(case)
+        for target, value in numbers.displacements.items():
+            any_target = True
+            blocks.append(_displacement(ctx, case, target, value))
+        defl = [(mid, mj["deflection_max"]["value"], mj["deflection_max"]["at"])
+                for mid, mj in numbers.members.items() if "deflection_max" in mj]
+        if defl:
+            lu = ctx.u.length_unit
+            blocks.append(Grid(f"Load case {case}: largest deflection along each beam "
+                               "(perpendicular to the beam)",
+                               ("beam", f"deflection [{lu}]", f"at [{lu}]"), tuple(defl)))
+    if not any_target:
+        blocks.append(Para("No displacements were asked for ([analysis] displacements "
+                           "or --at)."))
+    return Step(7, "Displacements by the unit-load method", tuple(blocks))
+
+
+def _displacement(ctx: Context, case: str, target: str, value) -> Para | Grid:
+    """The contributions to displacement ``target`` of load case ``case`` summing to
+    ``value`` (as reported); a point inside a member gets its total only."""
+    s_u, dim = _virtual_state(ctx.st, ctx.topo, ctx.sol.cases[case], target)
+    lab = "rad" if dim == (0, 0) else ctx.u.length_unit
+    if s_u is None:
+        return Para(f"Load case {case}: {target} = {fmt(value)} {lab} (a point inside a "
+                    "member: the unit load's own span field is included; see the total).")
+    s_u = ctx.denoise(s_u[:, None])[:, 0]
+    rows = displacement_contributions(ctx, case, s_u, dim)
+    return Grid(f"Load case {case}: displacement {target}",
+                ("source", "term", f"contribution [{lab}]"), tuple(rows), keys=2,
+                total=(target, "total", value))
+
+
+def _virtual_state(st: Structure, topo, res, target: str):
+    """Basic forces of the released structure under the unit load of ``target`` and the
+    (force, length) exponents of the displacement; None for points inside members."""
+    from ...displacements import parse_target
+
+    t = parse_target(st, topo, target, "displacements")
+    di = topo.dof_index
+    p = np.zeros(len(topo.dofs))
+    if t.kind == "node":
+        p[di[f"{t.a}.{t.direction}"]] = 1.0
+        dim = (0, 0) if t.direction == "rz" else (0, 1)
+    elif t.kind == "pair":
+        na, nb = st.nodes[t.a], st.nodes[t.b]
+        L = math.hypot(nb.x - na.x, nb.y - na.y)
+        ex, ey = (nb.x - na.x) / L, (nb.y - na.y) / L
+        p[di[f"{t.b}.x"]], p[di[f"{t.b}.y"]] = ex, ey
+        p[di[f"{t.a}.x"]], p[di[f"{t.a}.y"]] = -ex, -ey
+        dim = (0, 1)
+    else:
+        return None, (0, 1)
+    return res.released.forces(p)[:, 0], dim

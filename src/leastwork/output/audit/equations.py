@@ -1,0 +1,38 @@
+"""Step 5: the compatibility equations dU/dX_i = Delta_i (Menabrea), symbolic and with the
+numbers of each load case."""
+
+from __future__ import annotations
+
+from ...solve import CONDITION_WARN
+from ..sheet import Formula, Para, Step, fmt
+from .context import Context
+
+__all__ = ["step_equations"]
+
+
+def step_equations(ctx: Context) -> Step:
+    nr = ctx.nred
+    blocks: list = [Para(
+        "Menabrea's least-work theorem (Castigliano's second theorem): the derivative of "
+        "the complementary energy with respect to each redundant equals the imposed "
+        "displacement at that redundant (zero unless a support settles there).")]
+    if not nr:
+        return Step(5, "Compatibility equations", (*blocks, Para("No redundants.")))
+    blocks.append(Para(
+        f"The flexibility matrix is symmetric (Maxwell-Betti); its condition number after "
+        f"scaling the diagonal to one is {fmt(ctx.sol.condition, 3)} (above "
+        f"{CONDITION_WARN:.0e} the tool warns and looks for better redundants)."))
+    for i in range(nr):
+        sym = " + ".join(f"δ{i + 1}{j + 1}·X{j + 1}" for j in range(nr)) + f" + δ{i + 1}0"
+        blocks.append(Formula(f"∂U/∂X{i + 1} = {sym} = Δ{i + 1}",
+                              rf"\frac{{\partial U}}{{\partial X_{i + 1}}} = "
+                              + " + ".join(rf"\delta_{{{i + 1}{j + 1}}} X_{j + 1}"
+                                           for j in range(nr))
+                              + rf" + \delta_{{{i + 1}0}} = \Delta_{i + 1}"))
+    for case in ctx.cases:
+        n = ctx.numbers(case)
+        blocks.append(Para(f"Load case {case}:"))
+        for i in range(nr):
+            lhs = " + ".join(f"({fmt(ctx.flex[i][j])})·X{j + 1}" for j in range(nr))
+            blocks.append(Formula(f"{lhs} + ({fmt(n.load_terms[i])}) = {fmt(n.imposed[i])}"))
+    return Step(5, "Compatibility equations ∂U/∂Xi = Δi", tuple(blocks))

@@ -1,0 +1,150 @@
+"""Step 3: the released structure under the loads and under a unit value of each
+redundant (or each local self-stress state): axial forces, bending moments along the
+beams, and their products per member and term."""
+
+from __future__ import annotations
+
+import numpy as np
+
+from ...fields import gauss_integral
+from ...solution import member_result
+from ..sheet import Grid, Step
+from .context import Context, pair_labels
+from .contributions import load_sources, term_products
+from .polynomials import poly_text, scaled_poly
+
+__all__ = ["step_released"]
+
+
+def step_released(ctx: Context) -> Step:
+    st, nr = ctx.st, ctx.nred
+    blocks: list = []
+    pairs = pair_labels(nr)
+    if nr and any(m.EA is not None for m in st.members.values()):
+        blocks.append(_unit_axial(ctx, pairs))
+    if nr and any(m.is_beam for m in st.members.values()):
+        blocks.append(_unit_moments(ctx))
+        blocks.append(_pair_table(ctx, "bending", "∫ m{i}·m{j} dx / EI", pairs))
+        if st.shear:
+            blocks.append(_pair_table(ctx, "shear", "∫ v{i}·v{j} dx / GAs", pairs))
+    if nr and any(t.term == "spring" for t in ctx.terms):
+        blocks.append(_pair_table(ctx, "spring", "r{i}·r{j} / k", pairs))
+    for case in ctx.cases:
+        blocks.extend(_released_under_loads(ctx, case))
+    return Step(3, "Released structure under the loads; the unit self-stress states"
+                if ctx.local else "Released structure under the loads and unit redundants",
+                tuple(blocks))
+
+
+def _axial_column(ctx: Context, m) -> int:
+    ci = ctx.topo.column_index
+    return ci[m.id] if m.kind == "bar" else ci[f"{m.id}.n"]
+
+
+def _end_moments(ctx: Context, m, i: int) -> tuple[float, float]:
+    """End moments (SI) of beam ``m`` per unit X_i (0 at a hinged end)."""
+    ci = ctx.topo.column_index
+    ms = ctx.B[ci[f"{m.id}.start.m"], i] if f"{m.id}.start.m" in ci else 0.0
+    me = ctx.B[ci[f"{m.id}.end.m"], i] if f"{m.id}.end.m" in ci else 0.0
+    return ms, me
+
+
+def _unit_axial(ctx: Context, pairs) -> Grid:
+    st, u, nr = ctx.st, ctx.u, ctx.nred
+    heads = ["member", f"L [{u.length_unit}]", f"EA [{u.force_unit}]"]
+    heads += [f"n{i + 1} [{u.label(1 - ctx.xdim[i][0], -ctx.xdim[i][1])}]" for i in range(nr)]
+    heads += [f"n{i + 1}·n{j + 1}·L/EA [{ctx.delta_label(i, j)}]" for i, j in pairs]
+    rows, tot = [], np.zeros(len(pairs))
+    for m in (m for m in st.members.values() if m.EA is not None):
+        k = _axial_column(ctx, m)
+        L = st.length(m.id)
+        n = [ctx.unit_state(k, i) for i in range(nr)]
+        prods = [ctx.delta_case(ctx.B[k, i] * ctx.B[k, j] * L / m.EA, i, j) for i, j in pairs]
+        tot += prods
+        rows.append((m.id, u.convert(L, 0, 1), u.convert(m.EA, 1, 0), *n, *prods))
+    per = "per unit state amplitude" if ctx.local else "per unit redundant"
+    return Grid(f"Axial forces of the released structure {per} (bars, and beams with an "
+                "area)", tuple(heads), tuple(rows), total=("total", "", "", *[""] * nr, *tot))
+
+
+def _unit_moments(ctx: Context) -> Grid:
+    st, u, nr = ctx.st, ctx.u, ctx.nred
+    rows = []
+    for m in (m for m in st.members.values() if m.is_beam):
+        L = st.length(m.id)
+        polys = []
+        for i in range(nr):
+            ms, me = _end_moments(ctx, m, i)
+            coef = scaled_poly([ms, (me - ms) / L], u.L, u.F ** (
+                1 - ctx.xdim[i][0]) * u.L ** (1 - ctx.xdim[i][1]))
+            polys.append(poly_text(coef))
+        rows.append((m.id, u.convert(L, 0, 1), u.convert(m.EI, 1, 2), *polys))
+    heads = ["beam", f"L [{u.length_unit}]", f"EI [{u.label(1, 2)}]"]
+    heads += [f"m{i + 1}(x) [{u.label(1 - ctx.xdim[i][0], 1 - ctx.xdim[i][1])}]"
+              for i in range(nr)]
+    return Grid(f"Bending moments of the released structure per unit redundant (x from the "
+                f"start node, in {u.length_unit})", tuple(heads), tuple(rows))
+
+
+def _pair_table(ctx: Context, term: str, pattern: str, pairs) -> Grid:
+    rows, tot = [], np.zeros(len(pairs))
+    for owner, _, vals in term_products(ctx, pairs, term):
+        tot += vals
+        rows.append((owner, *vals))
+    heads = ["member" if term != "spring" else "restraint"]
+    heads += [pattern.format(i=i + 1, j=j + 1) + f" [{ctx.delta_label(i, j)}]"
+              for i, j in pairs]
+    what = {"bending": "Bending", "shear": "Shear", "spring": "Support spring"}[term]
+    return Grid(f"{what} products of the unit states", tuple(heads), tuple(rows),
+                total=("total", *tot))
+
+
+def _released_under_loads(ctx: Context, case: str) -> list:
+    out: list = []
+    if any(m.EA is not None for m in ctx.st.members.values()):
+        out.append(_axial_under_loads(ctx, case))
+    if any(m.is_beam for m in ctx.st.members.values()):
+        out.append(_moments_under_loads(ctx, case))
+    return out
+
+
+def _axial_under_loads(ctx: Context, case: str) -> Grid:
+    u, nr = ctx.u, ctx.nred
+    heads = ["member", f"N0 [{u.force_unit}]"]
+    heads += [f"∫ N0·n{i + 1} dx/EA [{ctx.load_label(i)}]" for i in range(nr)]
+    rows, tot = [], np.zeros(nr)
+    sources = load_sources(ctx, case)
+    for m in (m for m in ctx.st.members.values() if m.EA is not None):
+        k = _axial_column(ctx, m)
+        vec = sources.get((m.id, "loads, axial"), np.zeros(nr))
+        vals = [ctx.load_term_case(float(vec[i]), i) for i in range(nr)]
+        tot += vals
+        rows.append((m.id, u.convert(ctx.s0[case][k], 1, 0), *vals))
+    return Grid(f"Load case {case}: axial forces of the released structure under the loads",
+                tuple(heads), tuple(rows), total=("total", "", *tot) if nr else None)
+
+
+def _moments_under_loads(ctx: Context, case: str) -> Grid:
+    """M0(x) piece by piece along each beam, with the integrals of M0·mi/EI over the piece."""
+    st, topo, u, nr = ctx.st, ctx.topo, ctx.u, ctx.nred
+    res = ctx.sol.cases[case]
+    heads = ["beam", f"from [{u.length_unit}]", f"to [{u.length_unit}]",
+             f"M0(x) [{u.label(1, 1)}]"]
+    heads += [f"∫ M0·m{i + 1} dx/EI [{ctx.load_label(i)}]" for i in range(nr)]
+    rows, tot = [], np.zeros(nr)
+    for m in (m for m in st.members.values() if m.is_beam):
+        mr0 = member_result(st, topo, m.id, ctx.s0[case], res.loading.particulars.get(m.id))
+        L = st.length(m.id)
+        unit = [_end_moments(ctx, m, i) for i in range(nr)]
+        for a, b, coef in mr0.m.pieces():
+            vals = []
+            for i, (ms, me) in enumerate(unit):
+                f = gauss_integral(np.array([a, b]), lambda x, c=coef, ms=ms, me=me, L=L: (
+                    np.polynomial.polynomial.polyval(x, c) * (ms + (me - ms) * x / L)))
+                vals.append(ctx.load_term_case(f / m.EI, i))
+            tot += vals
+            rows.append((m.id, u.convert(a, 0, 1), u.convert(b, 0, 1),
+                         poly_text(scaled_poly(coef, u.L, u.F * u.L)), *vals))
+    return Grid(f"Load case {case}: bending moments of the released structure under the "
+                f"loads (x from the start node, in {u.length_unit})", tuple(heads),
+                tuple(rows), total=("total", "", "", "", *tot) if nr else None)

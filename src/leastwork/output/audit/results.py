@@ -1,0 +1,98 @@
+"""Step 6: the redundants, the superposition of the basic forces, the reactions, the
+member end forces and moment extremes of each load case, and the envelope over the load
+combinations. Every number is the one the JSON result reports
+(:mod:`leastwork.output.reported`)."""
+
+from __future__ import annotations
+
+from ..sheet import Formula, Grid, Step
+from .context import Context
+from .envelope import envelope_grids
+
+__all__ = ["step_solution"]
+
+
+def step_solution(ctx: Context) -> Step:
+    blocks: list = []
+    for case in ctx.cases:
+        if ctx.nred:
+            blocks.append(_redundants(ctx, case))
+        blocks.append(Formula("final force = released structure under the loads + "
+                              "Σ Xi · (unit state i)"))
+        blocks.append(_superposition(ctx, case))
+        blocks.append(_reactions(ctx, case))
+        blocks.append(_end_forces(ctx, case))
+        extremes = _moment_extremes(ctx, case)
+        if extremes is not None:
+            blocks.append(extremes)
+    blocks.extend(envelope_grids(ctx.sol))
+    return Step(6, "Solution, superposition and reactions", tuple(blocks))
+
+
+def _unknowns(ctx: Context, case: str):
+    """What the compatibility equations solved for: the amplitudes of the local states,
+    or the redundants themselves (SI)."""
+    res = ctx.sol.cases[case]
+    return res.redundants if res.amplitudes is None else res.amplitudes
+
+
+def _redundants(ctx: Context, case: str) -> Grid:
+    values = ctx.numbers(case).redundants
+    if ctx.local:
+        X = _unknowns(ctx, case)
+        return Grid(f"Load case {case}: amplitudes of the states and the redundants they "
+                    "close", ("X", "closes", "amplitude", "redundant force", "unit"),
+                    tuple((ctx.x_label(i), c.name, ctx.u.convert(X[i], *ctx.xdim[i]),
+                           values[c.name], ctx.unit_of_x(i))
+                          for i, c in enumerate(ctx.rcols)))
+    return Grid(f"Load case {case}: the redundants", ("X", "redundant", "value", "unit"),
+                tuple((ctx.x_label(i), c.name, values[c.name], ctx.unit_of_x(i))
+                      for i, c in enumerate(ctx.rcols)))
+
+
+def _superposition(ctx: Context, case: str) -> Grid:
+    """Every basic force: released structure under the loads + X_i times state i."""
+    u, res = ctx.u, ctx.sol.cases[case]
+    X = _unknowns(ctx, case)
+    heads = ["force", "unit", "released, loads"]
+    heads += [f"X{i + 1}·(state {i + 1})" for i in range(ctx.nred)] + ["final"]
+    rows = []
+    for k, c in enumerate(ctx.cols):
+        f, l = u.column_dims(c)
+        parts = [u.convert(X[i] * ctx.B[k, i], f, l) for i in range(ctx.nred)]
+        rows.append((c.name, u.label(f, l), u.convert(ctx.s0[res.name][k], f, l), *parts,
+                     u.convert(res.s[k], f, l)))
+    return Grid(f"Load case {case}: superposition of the basic forces", tuple(heads),
+                tuple(rows), keys=2)
+
+
+def _reactions(ctx: Context, case: str) -> Grid:
+    u = ctx.u
+    rows = [(node, *[comps.get(d, "-") for d in ("x", "y", "rz", "n")])
+            for node, comps in ctx.numbers(case).reactions.items()]
+    fu = u.force_unit
+    return Grid(f"Load case {case}: reactions (forces the supports apply to the structure)",
+                ("support", f"x [{fu}]", f"y [{fu}]", f"rz [{u.moment_unit}]",
+                 f"normal n [{fu}]"), tuple(rows))
+
+
+def _end_forces(ctx: Context, case: str) -> Grid:
+    fu, ml = ctx.u.force_unit, ctx.u.moment_unit
+    rows = [(mid, *[mj[e][q] for e in ("start", "end") for q in "nvm"])
+            for mid, mj in ctx.numbers(case).members.items()]
+    return Grid(f"Load case {case}: member end forces (n tension +, m with the local -y face "
+                "in tension +, v = dm/dx)",
+                ("member", f"n start [{fu}]", f"v start [{fu}]", f"m start [{ml}]",
+                 f"n end [{fu}]", f"v end [{fu}]", f"m end [{ml}]"), tuple(rows))
+
+
+def _moment_extremes(ctx: Context, case: str) -> Grid | None:
+    lu, ml = ctx.u.length_unit, ctx.u.moment_unit
+    rows = [(mid, mj["m_max"]["value"], mj["m_max"]["at"], mj["m_min"]["value"],
+             mj["m_min"]["at"]) for mid, mj in ctx.numbers(case).members.items()
+            if ctx.st.members[mid].is_beam]
+    if not rows:
+        return None
+    return Grid(f"Load case {case}: bending moment extremes along beams",
+                ("beam", f"m max [{ml}]", f"at [{lu}]", f"m min [{ml}]", f"at [{lu}]"),
+                tuple(rows))

@@ -1,0 +1,147 @@
+"""Step 1: the structure (members, supports, loads, combinations) and its degree of
+indeterminacy."""
+
+from __future__ import annotations
+
+import math
+
+from ...model import (
+    DistributedLoad,
+    Misfit,
+    NodalLoad,
+    PointLoad,
+    Settlement,
+    Structure,
+    TemperatureLoad,
+)
+from ..quantities import Quantities
+from ..sheet import Formula, Grid, Para, Step, fmt
+from .context import Context
+
+__all__ = ["step_structure", "load_row"]
+
+
+def step_structure(ctx: Context) -> Step:
+    st, topo = ctx.st, ctx.topo
+    nbeam = sum(m.is_beam for m in st.members.values())
+    blocks: list = [Para(
+        f"{len(st.nodes)} nodes, {len(st.members)} members ({nbeam} beams, "
+        f"{len(st.members) - nbeam} bars), {len(topo.restraints)} reaction components; "
+        f"{len(topo.dofs)} equilibrium equations, {len(topo.columns)} unknown forces "
+        "(bar forces; beam axial forces and end moments; reactions).")]
+    blocks.append(_members(ctx))
+    blocks.append(_supports(ctx))
+    blocks.extend(_loads(ctx))
+    blocks.extend(_indeterminacy(ctx))
+    return Step(1, "The structure and its degree of indeterminacy", tuple(blocks))
+
+
+def _members(ctx: Context) -> Grid:
+    st, u = ctx.st, ctx.u
+    rows = []
+    for m in st.members.values():
+        a, b = st.nodes[m.start], st.nodes[m.end]
+        hinges = ", ".join(k for k, h in (("start", m.hinge_start), ("end", m.hinge_end))
+                           if h) or "-"
+        rows.append((m.id, m.kind, f"{a.id} -> {b.id}", u.convert(st.length(m.id), 0, 1),
+                     u.convert(m.EA, 1, 0) if m.EA is not None else "rigid",
+                     u.convert(m.EI, 1, 2) if m.EI is not None else "-",
+                     hinges if m.is_beam else "pins"))
+    return Grid("Members", ("member", "kind", "from -> to", f"L [{u.length_unit}]",
+                            f"EA [{u.force_unit}]", f"EI [{u.label(1, 2)}]", "hinges"),
+                tuple(rows))
+
+
+def _supports(ctx: Context) -> Grid:
+    u = ctx.u
+    rows = []
+    for sup in ctx.st.supports.values():
+        for r in sup.restraints:
+            if r.is_spring:
+                kdim = (1, 0) if r.direction == "rz" else (1, -1)
+                what = f"spring k = {fmt(u.convert(r.stiffness, *kdim))} {u.label(*kdim)}"
+            else:
+                what = "rigid"
+            if r.direction == "n":
+                what += (f", normal to a surface at "
+                         f"{fmt(math.degrees(sup.surface_angle or 0.0))} deg")
+            rows.append((r.name, what))
+    return Grid("Supports (reaction components)", ("restraint", "kind"), tuple(rows))
+
+
+def _loads(ctx: Context) -> list[Grid]:
+    st = ctx.st
+    combos = dict(st.combinations)
+    out = [Grid("Loads", ("case", "load", "on", "values"),
+                tuple(load_row(st, ctx.u, ld) for ld in st.loads
+                      if ld.case in ctx.cases and ld.case not in combos))]
+    if combos:
+        out.append(Grid("Load combinations (solved as load cases of factored loads)",
+                        ("combination", "factors"),
+                        tuple((name, " + ".join(f"{fmt(f)} × {c}" for c, f in parts))
+                              for name, parts in combos.items())))
+    return out
+
+
+def _indeterminacy(ctx: Context) -> list:
+    topo = ctx.topo
+    out: list = [Para(
+        f"Degree of indeterminacy by rank: {len(topo.columns)} unknown forces - rank "
+        f"{topo.rank} of the equilibrium matrix = {topo.degree} "
+        f"({topo.external} external, {topo.internal} internal)."),
+        Formula(f"Counting formula: {topo.counting['formula']}")]
+    if topo.counting["value"] != topo.degree:
+        out.append(Para("The counting formula and the rank disagree: the rank result "
+                        "governs (some members are arranged so that they cannot all "
+                        "act).", "warning"))
+    out.append(Para(f"Member graph: {topo.parts} connected part(s), {topo.loops} closed "
+                    "loop(s) of members."))
+    for name in topo.dropped:
+        out.append(Para(f"Restraint {name} is ignored: every member end at that node "
+                        "is hinged, so it can carry no moment.", "note"))
+    return out
+
+
+def load_row(st: Structure, u: Quantities, ld) -> tuple[str, str, str, str]:
+    """(case, kind, on, values) of one load, in the output units."""
+    lu = u.length_unit
+    if isinstance(ld, NodalLoad):
+        return ld.case, "nodal load", ld.node, _forces(u, ld.fx, ld.fy, ld.mz)
+    if isinstance(ld, PointLoad):
+        return (ld.case, "point load", f"{ld.member} at {fmt(u.convert(ld.at, 0, 1))} {lu}",
+                _forces(u, ld.fx, ld.fy, ld.mz))
+    if isinstance(ld, DistributedLoad):
+        return _distributed_row(st, u, ld)
+    if isinstance(ld, TemperatureLoad):
+        return (ld.case, "temperature", ld.member,
+                f"uniform {fmt(ld.uniform)} K, gradient {fmt(ld.gradient)} K")
+    if isinstance(ld, Misfit):
+        return ld.case, "misfit", ld.member, f"{fmt(u.convert(ld.elongation, 0, 1))} {lu}"
+    if isinstance(ld, Settlement):
+        vals = ", ".join(f"d{d} = " + (f"{fmt(v)} rad" if d == "rz" else
+                                       f"{fmt(u.convert(v, 0, 1))} {lu}")
+                         for d, v in ld.values)
+        return ld.case, "settlement", ld.node, vals
+    return ld.case, type(ld).__name__, "", ""  # pragma: no cover
+
+
+def _forces(u: Quantities, fx: float, fy: float, mz: float) -> str:
+    """"fx = ..., fy = ..., mz = ..." of the nonzero components, in the output units."""
+    parts = [f"{k} = {fmt(u.convert(v, *d))} {lab}" for k, v, d, lab in
+             (("fx", fx, (1, 0), u.force_unit), ("fy", fy, (1, 0), u.force_unit),
+              ("mz", mz, (1, 1), u.moment_unit)) if v]
+    return ", ".join(parts) or "0"
+
+
+def _distributed_row(st: Structure, u: Quantities, ld: DistributedLoad):
+    L = st.length(ld.member)
+    b = L if math.isnan(ld.end) else ld.end
+    parts = []
+    for k, pair in (("wx", ld.wx), ("wy", ld.wy)):
+        if any(pair):
+            a0, a1 = (fmt(u.convert(v, 1, -1)) for v in pair)
+            parts.append(f"{k} = {a0}" + ("" if pair[0] == pair[1] else f" to {a1}")
+                         + f" {u.label(1, -1)}")
+    return (ld.case, "distributed load",
+            f"{ld.member} from {fmt(u.convert(ld.start, 0, 1))} to {fmt(u.convert(b, 0, 1))} "
+            f"{u.length_unit}", ", ".join(parts) or "0")
