@@ -52,8 +52,9 @@ def _parser() -> argparse.ArgumentParser:
                    help="skip the cross-check by the independent direct-stiffness solver")
     s.add_argument("--symbolic", action="store_true",
                    help="keep every [parameters] name a symbol and give closed forms (sympy)")
-    s.add_argument("--time-limit", type=float, default=60.0, metavar="SECONDS",
-                   help="give up a --symbolic solve after this long (default 60)")
+    s.add_argument("--time-limit", type=_time_limit, default=60.0, metavar="SECONDS",
+                   help="give up a --symbolic solve after this long (default 60, at most "
+                        f"{TIME_LIMIT_MAX:g})")
     s.add_argument("--format", dest="doc_format", choices=("text", "md", "latex"),
                    help="calculation sheet format: text (terminal), md (Markdown) or latex; "
                         "md and latex always hold the whole audit trail")
@@ -159,13 +160,15 @@ def _split(text: str | None) -> list[str] | None:
 
 def main(argv: list[str] | None = None) -> int:
     """Entry point; returns the exit status."""
+    from .plaintext import literal
+
     try:
         return _run(argv)
-    except CaseError as exc:
-        print(f"leastwork: error: {exc}", file=sys.stderr)
+    except CaseError as exc:  # str() is one line already; literal() again costs nothing
+        print(f"leastwork: error: {literal(exc)}", file=sys.stderr)
         return 2
     except MechanismError as exc:
-        print(f"leastwork: unstable: {exc}", file=sys.stderr)
+        print(f"leastwork: unstable: {literal(exc)}", file=sys.stderr)
         return 3
     except KeyboardInterrupt:
         return 130
@@ -371,28 +374,44 @@ def _check(args, st, console) -> int:
     redundants), or with ``--basis local``, the answer comes from the sparse self-stress
     sweep (:func:`leastwork.sparse_solve.find_basis`): no dense singular values.
     """
-    from .report.terminal import print_check
-    from .solve import resolve_basis
+    import dataclasses
+
+    from .report.terminal import print_check, user_text
+    from .solve import layout_warnings, resolve_basis
     from .topology import build_topology, check_stable, choose_redundants
 
+    notes: list[str] = []
+    basis = None
     with _progress("checking") as say:
         local = resolve_basis(st, st.redundants, args.basis,
                               "[analysis] redundants") == "local"
         if local:
-            from .sparse_solve import local_topology
+            from .sparse_solve import SweepSingular, local_topology
 
-            topo, basis = local_topology(st, say)
-            red = [int(j) for j in basis.closing]
-        else:
+            try:
+                topo, basis = local_topology(st, say)
+                red = [int(j) for j in basis.closing]
+            except SweepSingular as exc:  # stable by the dense rank: that path answers
+                notes.append(exc.note)
+                local = False
+        if not local:
             say("equilibrium matrix")
             topo = build_topology(st)
             if topo.stable:
                 say("redundants")
                 red = choose_redundants(st, topo, st.redundants)
+        if topo.stable:
+            try:  # the same stability index and layout checks as a solve, on either path
+                notes += layout_warnings(st, topo, basis)
+            except MechanismError:
+                print_check(console, st, dataclasses.replace(topo, stable=False), [])
+                raise
     if not topo.stable:
         print_check(console, st, topo, [])
         check_stable(st, topo)
     print_check(console, st, topo, red, basis="local" if local else "released")
+    for w in notes:
+        console.print(user_text(f"Warning: {w}", "yellow"))
     return 0
 
 
@@ -441,8 +460,10 @@ def _drawing(args, st) -> int:
         raise CaseError(f'cannot tell the report format of "{out}": name it .html or .md',
                         source="command line", where="--output")
     write_files(files, force=args.force, case=st.source)
+    from .plaintext import literal
+
     for path in files:
-        print(f"leastwork: wrote {path}", file=sys.stderr)
+        print(f"leastwork: wrote {literal(path)}", file=sys.stderr)
     if not sol.equilibrium_ok or not sol.cross_check_ok:
         print("leastwork: WARNING: a check FAILED (equilibrium or cross-check); see the "
               "report", file=sys.stderr)
@@ -490,7 +511,7 @@ def _sheet_meta() -> dict[str, str]:
 
 
 def _document(sol, cases, fmt_name: str, extra=None) -> str:
-    from .audit import audit_sheet
+    from .output.audit import audit_sheet
     from .report.documents import sheet_latex, sheet_markdown
 
     sheet = audit_sheet(sol, cases, meta=_sheet_meta())
@@ -506,12 +527,34 @@ def _emit(text: str, args, st) -> None:
     if not args.output:
         sys.stdout.write(text)
         return
+    from .plaintext import literal
+
     write_files({pathlib.Path(args.output): text}, force=args.force, case=st.source)
-    print(f"leastwork: wrote {args.output}", file=sys.stderr)
+    print(f"leastwork: wrote {literal(args.output)}", file=sys.stderr)
+
+
+#: Largest --time-limit (seconds): a closed form that needs more is beyond reach in practice.
+TIME_LIMIT_MAX = 3600.0
+
+
+def _time_limit(text: str) -> float:
+    """``--time-limit``: a positive, finite number of seconds up to TIME_LIMIT_MAX."""
+    from .plaintext import ECHO_LIMIT, literal
+
+    try:
+        value = float(text)
+    except ValueError:
+        value = float("nan")
+    if not 0 < value <= TIME_LIMIT_MAX:  # also NaN and inf
+        raise argparse.ArgumentTypeError(
+            f"expected a number of seconds above 0 and at most {TIME_LIMIT_MAX:g}, got "
+            f'"{literal(text, ECHO_LIMIT)}"')
+    return value
 
 
 def _symbolic(args, st, sol, names, cases, fmt_name) -> int:
-    """``solve --symbolic``: closed forms (terminal, JSON strings, or a sheet section)."""
+    """``solve --symbolic``: closed forms (terminal, JSON strings, or a sheet section),
+    with the redundants of the numeric solve ``sol`` (the same as its sheet's)."""
     from rich.console import Console
 
     from .report.closed_forms import (
@@ -524,15 +567,23 @@ def _symbolic(args, st, sol, names, cases, fmt_name) -> int:
     with _busy(f"closed forms (at most {args.time_limit:g} s)"):
         sym = solve_symbolic(args.case, redundants=names,
                              extra_displacements=_split(args.at) or [],
-                             time_limit=args.time_limit)
+                             time_limit=args.time_limit,
+                             numeric_redundants=sol.redundant_names
+                             if sol.basis == "released" else None)
     if fmt_name == "json":
         d = sym.to_dict()
         if cases:
             d["cases"] = {k: v for k, v in d["cases"].items() if k in cases}
         _emit(json.dumps(d, indent=2) + "\n", args, st)
         return 0
+    combos = _combination_lines(sym, cases)
     if fmt_name in ("md", "latex"):
+        from .report.documents import md_text, tex_escape
+
         lines = (closed_forms_markdown if fmt_name == "md" else closed_forms_latex)(sym, cases)
+        if combos:
+            lines += ["", *(md_text(t) + "  " if fmt_name == "md" else tex_escape(t) + r"\\"
+                            for t in combos)]
         _emit(_document(sol, cases, fmt_name, extra=[("Closed forms", lines)]), args, st)
         return 0
     plain = args.no_color or bool(args.output)
@@ -543,9 +594,38 @@ def _symbolic(args, st, sol, names, cases, fmt_name) -> int:
 
         print_steps(console, sol, cases)
     print_closed_forms(console, sym, cases)
+    if combos:
+        from rich.text import Text
+
+        for line in combos:
+            console.print(Text(line))
     if args.output:
         _emit(console.export_text(), args, st)
     return 0
+
+
+def _combination_lines(sym, cases) -> list[str]:
+    """One plain line per load combination shown: its exact factors (``ULS = 27/20 × dead
+    + 3/2 × live``), user names made literal."""
+    import sympy
+
+    from .plaintext import literal
+
+    shown = [n for n in sym.combinations if cases is None or n in cases]
+    if not shown:
+        return []
+    out = ["Load combinations (each solved as a load case of its factored loads; exact "
+           "factors):"]
+    for name in shown:
+        text = ""
+        for case, f in sym.combinations[name].items():
+            negative = f.could_extract_minus_sign()
+            size = -f if negative else f
+            body = f"({size})" if isinstance(size, sympy.Add) else str(size)
+            sign = ("− " if negative else "") if not text else (" − " if negative else " + ")
+            text += f"{sign}{body} × {literal(case, 40)}"
+        out.append(f"{literal(name, 40)} = {text}")
+    return out
 
 
 if __name__ == "__main__":  # pragma: no cover
