@@ -21,10 +21,11 @@ from pathlib import Path
 
 import pytest
 
-import leastwork.caseio as caseio
-from leastwork.caseio import loads_case, read_case_record
 from leastwork.cli import main
 from leastwork.errors import CaseError
+from leastwork.io import files, quantities
+from leastwork.io.reader import loads_case
+from leastwork.io.record import read_case_record
 from leastwork.plaintext import ECHO_LIMIT
 from leastwork.units import (
     QUANTITY_LIMIT,
@@ -144,13 +145,13 @@ def test_integers_of_the_toml_file_beyond_a_float_are_refused():
 @pytest.mark.parametrize("value", [
     "[" * 3000 + "1" + "]" * 3000,                 # arrays, far beyond the parser's recursion
     "{ a = " * 3000 + "1" + " }" * 3000,           # inline tables
-    "[" * (caseio.NESTING_LIMIT + 1) + "1" + "]" * (caseio.NESTING_LIMIT + 1),  # just over
+    "[" * (files.NESTING_LIMIT + 1) + "1" + "]" * (files.NESTING_LIMIT + 1),  # just over
 ])
 def test_deep_nesting_is_refused(tmp_path, capsys, value):
     text = case_text().replace('name = "hardening probe"',
                                f'name = "hardening probe"\ndescription = {value}')
     line = check_file(tmp_path, capsys, text)
-    assert f"nested more than {caseio.NESTING_LIMIT} deep" in line
+    assert f"nested more than {files.NESTING_LIMIT} deep" in line
 
 
 def test_nesting_hidden_from_the_count_by_strings_is_still_refused():
@@ -172,7 +173,7 @@ def test_brackets_inside_strings_and_comments_are_not_nesting():
 
 
 def test_nesting_at_the_limit_is_read():
-    n = caseio.NESTING_LIMIT
+    n = files.NESTING_LIMIT
     text = case_text().replace('name = "hardening probe"',
                                f'name = "hardening probe"\ndescription = {"[" * n}1{"]" * n}')
     loads_case(text, "probe.toml")
@@ -205,7 +206,7 @@ def test_a_named_pipe_is_refused_not_waited_on(tmp_path, capsys):
 def test_a_file_above_the_size_limit_is_refused(tmp_path, capsys):
     big = tmp_path / "big.toml"
     with big.open("wb") as fh:  # sparse: costs no disk space
-        fh.truncate(caseio.CASE_FILE_LIMIT + 1)
+        fh.truncate(files.CASE_FILE_LIMIT + 1)
     line = refused(capsys, ["check", str(big)], str(big))
     assert "is larger than 32 MiB" in line
 
@@ -214,10 +215,10 @@ def test_a_file_at_the_size_limit_is_read_to_its_end(tmp_path):
     # exactly the limit: read (and then refused for what it holds, not for its size)
     text = case_text()
     path = tmp_path / "padded.toml"
-    path.write_bytes(text.encode() + b"#" + b"x" * (caseio.CASE_FILE_LIMIT - len(text) - 2)
+    path.write_bytes(text.encode() + b"#" + b"x" * (files.CASE_FILE_LIMIT - len(text) - 2)
                      + b"\n")
-    assert path.stat().st_size == caseio.CASE_FILE_LIMIT
-    assert caseio.read_case_text(path).startswith("[structure]")
+    assert path.stat().st_size == files.CASE_FILE_LIMIT
+    assert files.read_case_text(path).startswith("[structure]")
 
 
 # ------------------------------------------------------- 8. powers of billions of digits
@@ -295,7 +296,7 @@ def test_cheap_checks_come_before_any_value_is_read(monkeypatch):
     def no_reading(self, *args, **kwargs):
         raise AssertionError("a quantity was read before the cheap checks")
 
-    monkeypatch.setattr(caseio._Reader, "quantity", no_reading)
+    monkeypatch.setattr(quantities.QuantityReader, "quantity", no_reading)
     message = case_error(_many_nodes(20_000, stray=True))
     assert "[nodes] N19999" in message and "not connected to any member" in message
     unknown = _many_nodes(2000, stray=False).replace('nodes = ["N5", "N6"]',
@@ -315,7 +316,7 @@ def test_long_ids_and_values_are_echoed_cut(tmp_path, capsys):
 
 
 def test_distinct_expressions_beyond_the_budget_are_refused(monkeypatch):
-    monkeypatch.setattr(caseio, "EXPRESSION_LIMIT", 4)
+    monkeypatch.setattr(quantities, "EXPRESSION_LIMIT", 4)
     # repeats and plain "NUMBER UNIT" strings do not count against the budget
     cheap = _many_nodes(50, stray=False)
     assert len(loads_case(cheap, "probe.toml").nodes) == 50
@@ -327,7 +328,7 @@ def test_distinct_expressions_beyond_the_budget_are_refused(monkeypatch):
 def test_a_long_chain_of_parameters_is_refused():
     chain = "".join(f'p{i} = "p{i + 1} + 0 m"\n' for i in range(100)) + 'p100 = "1 m"\n'
     message = case_error(case_text(params=chain, bx='"p0"'))
-    assert f"more than {caseio.PARAMETER_CHAIN_LIMIT} others in a chain" in message
+    assert f"more than {quantities.PARAMETER_CHAIN_LIMIT} others in a chain" in message
     short = "".join(f'p{i} = "p{i + 1} + 0 m"\n' for i in range(20)) + 'p20 = "1 m"\n'
     assert loads_case(case_text(params=short, bx='"p0"'), "probe.toml").nodes["B"].x == 1.0
 
@@ -422,8 +423,8 @@ def test_plain_values_take_the_short_way_to_the_same_number(monkeypatch):
             "second moment of area", "stress", "angle", "rotational stiffness",
             "thermal expansion coefficient", "temperature difference", "moment"]
     for units in (UnitSystem(), UnitSystem("N", "mm"), UnitSystem("kip", "ft")):
-        short = caseio._Reader({}, "x")
-        full = caseio._Reader({}, "x")
+        short = quantities.QuantityReader("x")
+        full = quantities.QuantityReader("x")
         short.units = full.units = units
         full._simple = lambda text, dimension: None
         used = 0

@@ -17,8 +17,8 @@ from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
 from leastwork import solve
-from leastwork.caseio import loads_case
 from leastwork.errors import CaseError, MechanismError
+from leastwork.io.reader import loads_case
 
 CASES = sorted((Path(__file__).resolve().parents[1] / "cases").glob("*.toml"))
 TEXTS = [p.read_text() for p in CASES]

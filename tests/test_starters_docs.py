@@ -32,9 +32,9 @@ from rich.console import Console
 
 import leastwork
 from leastwork.cli import main
-from leastwork.demo import NEXT_COMMANDS, run_demo
+from leastwork.cli.starters import NEXT_COMMANDS, run_demo
 from leastwork.errors import CaseError
-from leastwork.starters import STARTERS, starter_kinds, starter_text
+from leastwork.io.starters import STARTERS, starter_kinds, starter_text
 
 ROOT = Path(__file__).resolve().parents[1]
 KINDS = starter_kinds()

@@ -22,8 +22,8 @@ Results must be checked by a qualified engineer against the governing local code
 22.5
 """
 
-from .caseio import load_case, loads_case
 from .errors import CaseError, LeastworkError, MechanismError
+from .io.reader import load_case, loads_case
 from .model import Structure
 from .reanalysis import reanalyse
 from .solution import Solution

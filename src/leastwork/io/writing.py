@@ -16,8 +16,8 @@ import pathlib
 import stat
 import tempfile
 
-from .errors import CaseError
-from .plaintext import ECHO_LIMIT, literal
+from ..errors import CaseError
+from ..plaintext import ECHO_LIMIT, literal
 
 __all__ = ["write_files"]
 

@@ -14,7 +14,7 @@ from __future__ import annotations
 
 import difflib
 
-from .errors import CaseError
+from ..errors import CaseError
 
 __all__ = ["STARTERS", "starter_text", "starter_kinds"]
 

@@ -1,0 +1,273 @@
+"""``[[loads]]`` (nodal loads, settlements, member loads: concentrated, distributed,
+temperature, misfit) and ``[combinations]`` (factored load cases solved like load cases)."""
+
+from __future__ import annotations
+
+import math
+from typing import Any
+
+from ..model import (
+    DEFAULT_CASE,
+    DistributedLoad,
+    Load,
+    Member,
+    Misfit,
+    NodalLoad,
+    Node,
+    PointLoad,
+    Settlement,
+    Support,
+    TemperatureLoad,
+    rotational_nodes,
+    scaled_load,
+)
+from .core import ID, CaseReader
+from .messages import echo, hint, kind_of, shown
+
+__all__ = ["read_loads", "read_combinations"]
+
+_MEMBER_LOAD_KEYS = ("at", "wx", "wy", "temperature", "misfit", "fx", "fy", "mz", "from", "to")
+
+
+def read_loads(reader: CaseReader, nodes: dict[str, Node], members: dict[str, Member],
+               supports: dict[str, Support]) -> tuple[list[Load], list[str]]:
+    """The loads in file order, and the load case names in order of first use (the default
+    case alone if there are no loads)."""
+    entries = reader.data.get("loads", [])
+    if not isinstance(entries, list):
+        raise reader.err("[[loads]]", "expected an array of tables ([[loads]] entries)")
+    loads = []
+    order: list[str] = []
+    for i, spec in enumerate(entries, start=1):
+        where = f"[[loads]] #{i}"
+        if not isinstance(spec, dict):
+            raise reader.err(where, f"expected a table, got {kind_of(spec)}")
+        case = spec.get("case", DEFAULT_CASE)
+        if not isinstance(case, str) or not case.strip():
+            raise reader.err(where + ".case", f"expected a load case name, got {shown(case)}")
+        targets = [k for k in ("node", "member", "settlement") if k in spec]
+        if len(targets) != 1:
+            raise reader.err(where, "each load needs exactly one of node, member or settlement"
+                             + (f" (found {', '.join(targets)})" if targets else ""))
+        if "node" in spec:
+            load = _nodal_load(reader, spec, where, nodes, case)
+        elif "settlement" in spec:
+            load = _settlement(reader, spec, where, supports, case)
+        else:
+            load = _member_load(reader, spec, where, members, case)
+        loads.append(load)
+        if case not in order:
+            order.append(case)
+    return loads, order or [DEFAULT_CASE]
+
+
+def _nodal_load(reader: CaseReader, spec: dict, where: str, nodes: dict[str, Node],
+                case: str) -> NodalLoad:
+    """A force (fx, fy) and moment (mz) at a node."""
+    reader.keys_known(where, spec, ("node", "fx", "fy", "mz", "case"))
+    nid = spec["node"]
+    if not isinstance(nid, str) or nid not in nodes:
+        raise reader.err(where + ".node", f'unknown node "{echo(nid)}"{hint(str(nid), nodes)}')
+    if not any(k in spec for k in ("fx", "fy", "mz")):
+        raise reader.err(where, "a nodal load needs fx, fy or mz")
+    return NodalLoad(
+        nid,
+        fx=reader.quantity(spec.get("fx", 0.0), "force", where + ".fx"),
+        fy=reader.quantity(spec.get("fy", 0.0), "force", where + ".fy"),
+        mz=reader.quantity(spec.get("mz", 0.0), "moment", where + ".mz"),
+        case=case,
+    )
+
+
+def _settlement(reader: CaseReader, spec: dict, where: str, supports: dict[str, Support],
+                case: str) -> Settlement:
+    """An imposed displacement of a support along its rigidly restrained directions."""
+    reader.keys_known(where, spec, ("settlement", "dx", "dy", "drz", "dn", "case"))
+    nid = spec["settlement"]
+    if not isinstance(nid, str) or nid not in supports:
+        raise reader.err(where + ".settlement", f'"{echo(nid)}" is not a support; settlement '
+                         f"needs a node listed in [supports]{hint(str(nid), supports)}")
+    values = []
+    rigid = {r.direction for r in supports[nid].restraints if not r.is_spring}
+    springs = {r.direction for r in supports[nid].restraints if r.is_spring}
+    for key in ("dx", "dy", "drz", "dn"):
+        if key not in spec:
+            continue
+        d = key[1:]
+        dim = "angle" if d == "rz" else "length"
+        v = reader.quantity(spec[key], dim, f"{where}.{key}")
+        if d not in rigid:
+            what = "is a spring" if d in springs else "is not restrained"
+            raise reader.err(f"{where}.{key}", f'direction "{d}" of support "{echo(nid)}" {what}; '
+                             "a settlement needs a rigidly restrained direction "
+                             f"(restrained: {', '.join(sorted(rigid)) or 'none'})")
+        if d == "rz" and nid not in rotational_nodes(reader.members.values()):
+            raise reader.err(f"{where}.{key}", f'node "{echo(nid)}" has no rotation of its own '
+                             "(only bars or hinged beam ends meet there), so a rotation "
+                             "settlement of its support would act on nothing")
+        values.append((d, v))
+    if not values:
+        raise reader.err(where, "a settlement needs dx, dy or drz")
+    return Settlement(nid, tuple(values), case)
+
+
+def _member_load(reader: CaseReader, spec: dict, where: str, members: dict[str, Member],
+                 case: str) -> Load:
+    """A load on a member: temperature, misfit, or (beams only) a concentrated or a
+    distributed span load."""
+    mid = spec["member"]
+    if not isinstance(mid, str) or mid not in members:
+        raise reader.err(where + ".member", f'unknown member "{echo(mid)}"{hint(str(mid), members)}')
+    member = members[mid]
+    L = _length_of(reader, member)
+    kinds = [k for k in ("at", "wx", "wy", "temperature", "misfit") if k in spec]
+    if "temperature" in spec:
+        reader.keys_known(where, spec, ("member", "temperature", "case"))
+        return _temperature(reader, spec["temperature"], where + ".temperature", member, case)
+    if "misfit" in spec:
+        reader.keys_known(where, spec, ("member", "misfit", "case"))
+        e = reader.quantity(spec["misfit"], "length", where + ".misfit")
+        if abs(e) >= 0.5 * L:
+            raise reader.err(where + ".misfit", f"misfit {shown(spec['misfit'])} is not small "
+                             "beside the member length; this tool assumes small displacements")
+        return Misfit(mid, e, case)
+    if member.kind == "bar":
+        raise reader.err(where, f'"{echo(mid)}" is a bar: it carries axial force only and takes no '
+                         "span loads; load its nodes, or make it a beam")
+    if "at" in spec:
+        return _point_load(reader, spec, where, mid, L, case)
+    if "wx" in spec or "wy" in spec:
+        return _distributed_load(reader, spec, where, mid, L, case)
+    raise reader.err(where, "a member load needs at (with fx/fy/mz), wx/wy, temperature or "
+                     f"misfit{' (found ' + ', '.join(kinds) + ')' if kinds else ''}; "
+                     f"keys given: {echo(', '.join(spec))}"
+                     + (_hint_keys(spec)))
+
+
+def _point_load(reader: CaseReader, spec: dict, where: str, mid: str, L: float,
+                case: str) -> PointLoad:
+    """A concentrated force and moment ``at`` a distance from the start of beam ``mid``
+    (length ``L``, m)."""
+    reader.keys_known(where, spec, ("member", "at", "fx", "fy", "mz", "case"))
+    at = reader.quantity(spec["at"], "length", where + ".at")
+    if at < -1e-12 or at > L * (1 + 1e-12):
+        raise reader.err(where + ".at", f"position {shown(spec['at'])} is off the member "
+                         f"(its length is {L / reader.units.factor('length'):g} "
+                         f"{reader.units.length}); expected 0 to the length")
+    if not any(k in spec for k in ("fx", "fy", "mz")):
+        raise reader.err(where, "a concentrated member load needs fx, fy or mz")
+    return PointLoad(
+        mid, min(max(at, 0.0), L),
+        fx=reader.quantity(spec.get("fx", 0.0), "force", where + ".fx"),
+        fy=reader.quantity(spec.get("fy", 0.0), "force", where + ".fy"),
+        mz=reader.quantity(spec.get("mz", 0.0), "moment", where + ".mz"),
+        case=case,
+    )
+
+
+def _distributed_load(reader: CaseReader, spec: dict, where: str, mid: str, L: float,
+                      case: str) -> DistributedLoad:
+    """A load per length (wx, wy; uniform or linear) ``from`` one distance ``to`` another
+    along beam ``mid`` (length ``L``, m; the whole beam by default)."""
+    reader.keys_known(where, spec, ("member", "wx", "wy", "from", "to", "case"))
+    start = reader.quantity(spec.get("from", 0.0), "length", where + ".from")
+    end = reader.quantity(spec["to"], "length", where + ".to") if "to" in spec else L
+    if start < -1e-12 or end > L * (1 + 1e-12) or end <= start:
+        raise reader.err(where, f"from/to must satisfy 0 <= from < to <= length "
+                         f"({L / reader.units.factor('length'):g} {reader.units.length})")
+    return DistributedLoad(
+        mid,
+        wx=_intensity(reader, spec.get("wx", 0.0), where + ".wx"),
+        wy=_intensity(reader, spec.get("wy", 0.0), where + ".wy"),
+        start=max(start, 0.0), end=min(end, L), case=case,
+    )
+
+
+def _intensity(reader: CaseReader, value: Any, where: str) -> tuple[float, float]:
+    """(start, end) intensity (N/m) of one value or a [start, end] pair."""
+    if isinstance(value, list):
+        if len(value) != 2:
+            raise reader.err(where, f"expected one value or a [start, end] pair, got {shown(value)}")
+        return (reader.quantity(value[0], "force/length", where + "[0]"),
+                reader.quantity(value[1], "force/length", where + "[1]"))
+    v = reader.quantity(value, "force/length", where)
+    return (v, v)
+
+
+def _temperature(reader: CaseReader, spec: Any, where: str, member: Member,
+                 case: str) -> TemperatureLoad:
+    """A uniform temperature change and a gradient (top to bottom, K) on ``member``; its
+    thermal strain must stay small."""
+    if not isinstance(spec, dict):
+        raise reader.err(where, 'expected { uniform = "25 K", gradient = "10 K" }, got '
+                         + kind_of(spec))
+    reader.keys_known(where, spec, ("uniform", "gradient"))
+    if not spec:
+        raise reader.err(where, "needs uniform and/or gradient")
+    uniform = reader.quantity(spec.get("uniform", 0.0), "temperature difference", where + ".uniform")
+    gradient = reader.quantity(spec.get("gradient", 0.0), "temperature difference", where + ".gradient")
+    if member.alpha is None and (uniform or gradient):
+        raise reader.err(where, f'member "{echo(member.id)}" has no thermal expansion coefficient: '
+                         "give alpha in its material")
+    if member.alpha is not None:
+        for key, dT in (("uniform", uniform), ("gradient", gradient)):
+            if abs(member.alpha * dT) >= 0.01:
+                raise reader.err(f"{where}.{key}", f'thermal strain alpha*dT = '
+                                 f'{member.alpha * dT:.3g} on member "{echo(member.id)}" is not '
+                                 "small (1% or more); check alpha in its material and the "
+                                 "temperature change: this tool assumes small displacements")
+    if gradient:
+        if member.kind == "bar":
+            raise reader.err(where + ".gradient", f'"{echo(member.id)}" is a bar; a temperature '
+                             "gradient bends, so it applies to beams only")
+        if member.depth is None:
+            raise reader.err(where + ".gradient", f'member "{echo(member.id)}" has no section '
+                             "depth: give depth in its section for a temperature gradient")
+    return TemperatureLoad(member.id, uniform, gradient, case)
+
+
+def _hint_keys(spec: dict) -> str:
+    """' — "KEY" (did you mean "X"?)' for the first key of a member load that looks like a
+    misspelt load key, or ""."""
+    for key in spec:
+        if key not in ("member", "case"):
+            h = hint(key, _MEMBER_LOAD_KEYS)
+            if h:
+                return f' — "{echo(key)}"{h}'
+    return ""
+
+
+def _length_of(reader: CaseReader, member: Member) -> float:
+    """The length of ``member`` (m)."""
+    a, b = reader.nodes[member.start], reader.nodes[member.end]
+    return math.hypot(b.x - a.x, b.y - a.y)
+
+
+def read_combinations(reader: CaseReader, loads: list, case_order: list) -> tuple:
+    """``[combinations]``: NAME = { CASE = factor, ... }. Each combination's factored
+    loads are appended to ``loads`` under its name (and the name to ``case_order``), so
+    that it solves like a load case."""
+    spec = reader.table("combinations")
+    out = []
+    cases = list(case_order)
+    for name, parts in spec.items():
+        where = f"[combinations] {name}"
+        if not ID.match(name):
+            raise reader.err(where, "a combination name is made of letters, digits and _")
+        if name in cases:
+            raise reader.err(where, f'"{echo(name)}" is already the name of a load case')
+        if not isinstance(parts, dict) or not parts:
+            raise reader.err(where, 'expected { CASE = factor, ... }, e.g. '
+                             '{ dead = 1.35, live = 1.5 }, got ' + kind_of(parts))
+        factors = []
+        for case, value in parts.items():
+            if case not in cases:
+                raise reader.err(f"{where}.{case}", f'no load case "{echo(case)}"'
+                                 f"{hint(case, cases)}; the cases are: "
+                                 + echo(", ".join(cases)))
+            factors.append((case, reader.quantity(value, "number", f"{where}.{case}")))
+        for case, f in factors:
+            loads.extend(scaled_load(ld, f, name) for ld in list(loads) if ld.case == case)
+        case_order.append(name)
+        out.append((name, tuple(factors)))
+    return tuple(out)

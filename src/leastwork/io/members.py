@@ -1,0 +1,136 @@
+"""``[beams]`` and ``[bars]``: ids and end nodes first (no quantity read), then each member's
+stiffnesses from its own values or from its material and section, and its hinges."""
+
+from __future__ import annotations
+
+import math
+from typing import Any
+
+from ..model import Member, Node
+from .core import CaseReader
+from .messages import echo, hint, kind_of, shown
+
+__all__ = ["member_specs", "connected_nodes", "read_members"]
+
+#: (kind, id, table, end nodes) of one member as written
+MemberSpec = tuple[str, str, dict, list[str]]
+
+_BEAM_KEYS = ("nodes", "material", "section", "EI", "EA", "hinges", "description")
+_BAR_KEYS = ("nodes", "material", "section", "EA", "description")
+
+
+def member_specs(reader: CaseReader, node_ids) -> list[MemberSpec]:
+    """(kind, id, table, end nodes) of every member, checked without reading a quantity:
+    ids, keys, and two different, known end nodes."""
+    specs: list[MemberSpec] = []
+    kinds: dict[str, str] = {}
+    for kind, keys in (("beam", _BEAM_KEYS), ("bar", _BAR_KEYS)):
+        table = reader.table(kind + "s")
+        for mid, spec in table.items():
+            where = f"[{kind}s] {mid}"
+            reader.ident(where, mid, "member")
+            if mid in kinds:
+                raise reader.err(where, f'duplicate member id "{echo(mid)}": it is also a '
+                                 f"{kinds[mid]}; ids must be unique")
+            if not isinstance(spec, dict):
+                raise reader.err(where, f'expected {{ nodes = ["A", "B"], ... }}, got {kind_of(spec)}')
+            reader.keys_known(where, spec, keys)
+            ends = spec.get("nodes")
+            if not (isinstance(ends, list) and len(ends) == 2
+                    and all(isinstance(e, str) for e in ends)):
+                raise reader.err(where + ".nodes", f'expected two node ids ["A", "B"], got {shown(ends)}')
+            for e in ends:
+                if e not in node_ids:
+                    raise reader.err(where + ".nodes", f'unknown node "{echo(e)}"{hint(e, node_ids)}')
+            if ends[0] == ends[1]:
+                raise reader.err(where + ".nodes", "a member needs two different nodes "
+                                 "(zero length)")
+            kinds[mid] = kind
+            specs.append((kind, mid, spec, ends))
+    if not specs:
+        raise reader.err("[beams]/[bars]", "no members; expected a [beams] or [bars] table")
+    return specs
+
+
+def connected_nodes(reader: CaseReader, node_ids, specs: list[MemberSpec]) -> set[str]:
+    """The nodes on a member; every node must be one."""
+    used = {e for _, _, _, ends in specs for e in ends}
+    for n in node_ids:
+        if n not in used:
+            raise reader.err(f"[nodes] {n}", f'node "{echo(n)}" is not connected to any member')
+    return used
+
+
+def read_members(reader: CaseReader, specs: list[MemberSpec], nodes: dict[str, Node],
+                 materials: dict, sections: dict, defaults: dict) -> dict[str, Member]:
+    """The members of ``specs`` (checked by :func:`member_specs`), stiffnesses in SI."""
+    members: dict[str, Member] = {}
+    for kind, mid, spec, ends in specs:
+        where = f"[{kind}s] {mid}"
+        a, b = nodes[ends[0]], nodes[ends[1]]
+        if math.hypot(b.x - a.x, b.y - a.y) <= 1e-9:
+            raise reader.err(where + ".nodes", "zero-length member")
+        mat_id = spec.get("material", defaults.get("material"))
+        sec_id = spec.get("section", defaults.get("section"))
+        mat = _pick(reader, materials, mat_id, "material", where, "material" in spec)
+        sec = _pick(reader, sections, sec_id, "section", where, "section" in spec)
+        EA, EI = _stiffnesses(reader, kind, spec, where, mat, sec, sec_id)
+        GAs = None
+        if mat and "G" in mat and sec and "shear_area" in sec:
+            GAs = mat["G"] * sec["shear_area"]
+        hinges = spec.get("hinges", [])
+        if kind == "beam":
+            if not isinstance(hinges, list) or not all(h in ("start", "end") for h in hinges):
+                raise reader.err(where + ".hinges", 'expected ["start"], ["end"] or '
+                                 f'["start", "end"], got {shown(hinges)}')
+        members[mid] = Member(
+            id=mid, kind=kind, start=ends[0], end=ends[1], EA=EA, EI=EI, GAs=GAs,
+            alpha=mat.get("alpha") if mat else None,
+            depth=sec.get("depth") if sec else None,
+            hinge_start="start" in hinges, hinge_end="end" in hinges,
+        )
+    return members
+
+
+def _stiffnesses(reader: CaseReader, kind: str, spec: dict, where: str, mat: dict | None,
+                 sec: dict | None, sec_id: Any) -> tuple[float | None, float | None]:
+    """(EA, EI) of one member in SI: its own EA / EI, else E of its material times A / I of
+    its section; a beam needs EI, a bar EA."""
+    E = mat.get("E") if mat else None
+    EA = EI = None
+    if "EA" in spec:
+        EA = reader.positive(spec["EA"], "axial stiffness", where + ".EA")
+    elif sec and "A" in sec:
+        if E is None:
+            raise reader.err(where, f'needs E: its section "{echo(sec_id)}" gives A but '
+                             "no material with E applies (give material, or EA)")
+        EA = E * sec["A"]
+    if kind == "beam":
+        if "EI" in spec:
+            EI = reader.positive(spec["EI"], "flexural stiffness", where + ".EI")
+        elif sec and "I" in sec:
+            if E is None:
+                raise reader.err(where, f'needs E: its section "{echo(sec_id)}" gives I '
+                                 "but no material with E applies (give material, or EI)")
+            EI = E * sec["I"]
+        else:
+            raise reader.err(where, "a beam needs a flexural stiffness: give EI, or a "
+                             "section with I and a material with E")
+    elif EA is None:
+        raise reader.err(where, "a bar needs an axial stiffness: give EA, or a "
+                         "section with A and a material with E")
+    return EA, EI
+
+
+def _pick(reader: CaseReader, pool: dict, ident: Any, what: str, where: str,
+          explicit: bool) -> dict | None:
+    """The material or section ``ident`` of ``pool`` (None if none applies); ``explicit``
+    when the member names it, else it came from ``[defaults]``."""
+    if ident is None:
+        return None
+    if not isinstance(ident, str):
+        raise reader.err(f"{where}.{what}", f"expected a {what} name, got {kind_of(ident)}")
+    if ident not in pool:
+        raise reader.err(f"{where}.{what}" if explicit else f"[defaults] {what}",
+                         f'no {what} "{echo(ident)}" in [{what}s]{hint(ident, pool)}')
+    return pool[ident]
