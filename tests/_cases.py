@@ -146,6 +146,18 @@ def close(actual, expected, *, scale: float, rel: float = 1e-9) -> bool:
     return abs(actual - expected) <= rel * max(abs(expected), abs(scale))
 
 
+#: Relative tolerance of :func:`check` against an exact closed form.
+REL = 1e-9
+
+
+def check(actual, expected, scale, what, rel=REL):
+    """Assert that a result of leastwork equals an outside value: ``close`` within ``rel``
+    of max(|expected|, scale); ``what`` names the quantity in the failure message."""
+    assert close(actual, expected, scale=scale, rel=rel), (
+        f"{what}: leastwork {actual!r}, expected {expected!r}"
+    )
+
+
 def flatten_numbers(obj, prefix=""):
     """Every number in a nested dict/list result, keyed by its path."""
     out = {}

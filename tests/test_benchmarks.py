@@ -7,18 +7,14 @@ from __future__ import annotations
 
 import math
 import os
-import sys
 from pathlib import Path
-
-import pytest
-
-import leastwork
-
-sys.path.insert(0, str(Path(__file__).resolve().parents[1] / "benchmarks"))
 
 import generators  # noqa: E402
 import process  # noqa: E402
+import pytest
 import scale  # noqa: E402
+
+import leastwork
 
 #: Tiny size of each family (a few to a few dozen members).
 TINY = {"braced truss": 4, "braced grid": 3, "storey frame": 3, "continuous beam": 6}

@@ -13,8 +13,8 @@ import numpy as np
 from _cases import case_text
 
 from leastwork import solve
-from leastwork.caseio import loads_case
-from leastwork.solve import CONDITION_WARN
+from leastwork.io.reader import loads_case
+from leastwork.thresholds import CONDITION_WARN
 
 # a continuous beam whose middle span is 0.1 mm: supports B and C act almost as one
 CLOSE_SUPPORTS = case_text(

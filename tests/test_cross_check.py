@@ -111,7 +111,6 @@ def test_long_slender_truss_is_no_false_alarm():
     condition grows like panels^4, about 1e10 at 400 panels), while the force method on its
     local states stays exact: the accepted difference follows the stiffness condition, so
     the cross-check agrees, and it still measures a real difference."""
-    sys.path.insert(0, str(Path(__file__).resolve().parents[1] / "benchmarks"))
     from generators import braced_truss, structure
 
     st = structure(braced_truss(400))

@@ -20,17 +20,13 @@ from __future__ import annotations
 
 import functools
 import math
-import sys
-from pathlib import Path
 
 import numpy as np
 import pytest
-
-sys.path.insert(0, str(Path(__file__).parent))
 from _cases import (
     braced_bay_geometry,
     case_text,
-    close,
+    check,
     solve,
     solve_default,
     straight_beam,
@@ -39,19 +35,11 @@ from _cases import (
 import leastwork  # noqa: E402
 from leastwork.displacements import member_shape  # noqa: E402
 
-REL = 1e-9
-
 L = 6.0
 W = 12.0  # kN/m
 P = 40.0  # kN
 EI = 25000.0  # kN*m^2
 EA = 2.0e6  # kN
-
-
-def check(actual, expected, scale, what, rel=REL):
-    assert close(actual, expected, scale=scale, rel=rel), (
-        f"{what}: leastwork {actual!r}, expected {expected!r}"
-    )
 
 
 def at(member: str, dist: float, direction: str = "y") -> str:

@@ -319,11 +319,8 @@ def test_reported_quantities_need_memory_proportional_to_their_table():
     """One row per member force, end moment and reaction: the table is quantities x
     columns; building it must not hold an identity matrix per quantity (invariant: memory
     of the result's order; a 410-bar grid once peaked at 600 MB here)."""
-    import sys
     import tracemalloc
-    from pathlib import Path
 
-    sys.path.insert(0, str(Path(__file__).resolve().parents[1] / "benchmarks"))
     from generators import braced_grid, structure
 
     from leastwork.fitup import reported_quantities

@@ -17,13 +17,9 @@ Sign conventions used in the expectations (from the interface contract):
 from __future__ import annotations
 
 import math
-import sys
-from pathlib import Path
 
 import pytest
-
-sys.path.insert(0, str(Path(__file__).parent))
-from _cases import case_text, close, ea, ei, solve, solve_default, straight_beam  # noqa: E402
+from _cases import case_text, check, ea, ei, solve, solve_default, straight_beam  # noqa: E402
 
 L = 6.0  # span, m
 W = 12.0  # uniform load, kN/m (acting downward)
@@ -33,12 +29,6 @@ EA = 5.0e6  # kN, for beams whose axial terms enter (fixed-fixed)
 
 REL = 1e-9  # exact closed forms
 POS = 1e-6  # positions of smooth extremes, as a fraction of the span
-
-
-def check(actual, expected, scale, what, rel=REL):
-    assert close(actual, expected, scale=scale, rel=rel), (
-        f"{what}: leastwork {actual!r}, expected {expected!r}"
-    )
 
 
 def check_member(c, member, expected, scale, span):

@@ -33,7 +33,8 @@ from leastwork import CaseError
 from leastwork.cli import main
 from leastwork.fitup import SMALL_CHANGE_FRACTION, adjustment
 from leastwork.model import DistributedLoad, PointLoad
-from leastwork.solution import LOCAL_STATE_ACCURACY, CaseResult
+from leastwork.solution import CaseResult
+from leastwork.thresholds import LOCAL_STATE_ACCURACY
 from leastwork.verify import solve_stiffness
 
 ROOT = Path(__file__).resolve().parents[1]
@@ -170,9 +171,9 @@ def test_local_states_meet_the_accuracy_the_check_counts():
     """The check counts the terms of local self-stress states at LOCAL_STATE_ACCURACY: at
     least the sweep's own acceptance threshold, and met by the states the global step
     finds on a long multi-span truss (measured about 2e-12)."""
-    from leastwork.selfstress import _LOCAL_TOL
+    from leastwork.thresholds import LOCAL_STATE_RESIDUAL
 
-    assert LOCAL_STATE_ACCURACY >= _LOCAL_TOL
+    assert LOCAL_STATE_ACCURACY >= LOCAL_STATE_RESIDUAL
     for every in (5, 50):
         st, _ = _multi_span(2000, every)
         sol = leastwork.solve(st, basis="local", verify=False)

@@ -186,7 +186,7 @@ def test_library_printing_takes_any_console(tmp_path):
     """The printing functions themselves make user text literal, whatever console they
     are given (markup and emoji on, colours on): no MarkupError, no restyling, no escape
     sequence but rich's own colours."""
-    from leastwork.caseio import load_case
+    from leastwork.io.reader import load_case
     from leastwork.report.terminal import print_brief, print_check, print_steps, print_summary
     from leastwork.solve import solve
     from leastwork.topology import build_topology, choose_redundants

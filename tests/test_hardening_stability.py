@@ -29,10 +29,10 @@ import pytest
 from _cases import case_text
 
 import leastwork
-from leastwork.caseio import loads_case
 from leastwork.cli import main
 from leastwork.errors import MechanismError
 from leastwork.geometry_checks import joints_on_members
+from leastwork.io.reader import loads_case
 from leastwork.sparse_solve import local_topology
 from leastwork.stability import (
     MECHANISM_INDEX,
@@ -294,13 +294,14 @@ def test_long_truss_of_thousands_of_bars_gives_no_warning(capsys):
     topo, basis = local_topology(st)
     spot = weakest_spot(st, topo, basis)
     assert spot.index > 0.1, spot
-    from leastwork.stability import scaled_equilibrium, smallest_singular_value
+    from leastwork.scaling import scaled_equilibrium
+    from leastwork.stability import smallest_singular_value
 
     lengths = [st.length(m) for m in st.members]
     S, cs = scaled_equilibrium(topo, float(np.mean(lengths)))
     sigma, _ = smallest_singular_value(S, cs, basis)
     assert sigma < 1e-2 * NEAR_MECHANISM_INDEX  # a size-blind index would warn
-    from leastwork.solve import layout_warnings
+    from leastwork.stability import layout_warnings
 
     assert layout_warnings(st, topo, basis) == []
 

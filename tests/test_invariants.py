@@ -18,12 +18,9 @@ import json
 import shutil
 import subprocess
 import sys
-from pathlib import Path
 
 import numpy as np
 import pytest
-
-sys.path.insert(0, str(Path(__file__).parent))
 from _cases import (  # noqa: E402
     braced_bay_geometry,
     case_text,

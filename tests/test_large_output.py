@@ -6,7 +6,6 @@ from __future__ import annotations
 import io
 import math
 import re
-import sys
 import time
 from pathlib import Path
 
@@ -14,11 +13,11 @@ import pytest
 from rich.console import Console
 
 from leastwork import load_case, solve
-from leastwork.cli import PhaseDisplay, main
+from leastwork.cli import main
+from leastwork.cli.progress import PhaseDisplay
 from leastwork.report.terminal import SUMMARY_MAX_MEMBERS, SUMMARY_MAX_REDUNDANTS, is_large
 
 ROOT = Path(__file__).resolve().parents[1]
-sys.path.insert(0, str(ROOT / "benchmarks"))
 
 import generators  # noqa: E402
 
@@ -231,7 +230,7 @@ def test_solve_reports_its_phases_to_the_display(tmp_path):
 
 
 def test_help_states_the_automatic_threshold(capsys):
-    from leastwork.solve import LOCAL_BASIS_MIN_COLUMNS
+    from leastwork.thresholds import LOCAL_BASIS_MIN_COLUMNS
 
     assert main(["solve", "--help"]) == 0
     assert f"local above {LOCAL_BASIS_MIN_COLUMNS} basic forces" in _flat(capsys.readouterr().out)

@@ -19,21 +19,17 @@ from __future__ import annotations
 
 import dataclasses
 import random
-import sys
-from pathlib import Path
 
 import numpy as np
 import pytest
+from _random_structures import beams, frames, trusses  # noqa: E402
 from hypothesis import HealthCheck, assume, given, settings
 from hypothesis import strategies as st
 
-sys.path.insert(0, str(Path(__file__).parent))
-from _random_structures import beams, frames, trusses  # noqa: E402
-
 import leastwork  # noqa: E402
 from leastwork.errors import MechanismError  # noqa: E402
-from leastwork.stiffness import solve_stiffness  # noqa: E402
 from leastwork.topology import build_topology  # noqa: E402
+from leastwork.verify import solve_stiffness  # noqa: E402
 
 REL = 1e-8
 

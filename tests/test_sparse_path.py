@@ -7,7 +7,7 @@ Checks are invariants and agreement of independent methods:
   reactions and displacements on every bundled case;
 * on generated mid-size structures (a few thousand members: braced grid, storey frame,
   beam with king-post ties) the local basis agrees with the direct stiffness method
-  (leastwork.stiffness, an independent sparse solver) to 1e-8 of the largest force;
+  (leastwork.verify, an independent sparse solver) to 1e-8 of the largest force;
 * every state is a self-stress (A N = 0 to round-off), the states are independent (their
   closing rows form a non-singular matrix), the flexibility N'FN is symmetric
   (Maxwell-Betti) and positive definite;
@@ -28,10 +28,9 @@ from scipy.sparse.linalg import splu
 
 import leastwork
 from leastwork import CaseError, MechanismError, reanalyse
-from leastwork.stiffness import solve_stiffness
+from leastwork.verify import solve_stiffness
 
 ROOT = Path(__file__).resolve().parents[1]
-sys.path.insert(0, str(ROOT / "benchmarks"))
 
 from generators import braced_grid, braced_truss, storey_frame, structure  # noqa: E402
 
@@ -241,7 +240,7 @@ def test_json_compatibility_equations_hold_with_amplitudes():
 def test_audit_trail_names_what_each_state_closes():
     st = structure(storey_frame(1, 2))
     sol = leastwork.solve(st, basis="local")
-    from leastwork.audit import audit_sheet
+    from leastwork.output.audit import audit_sheet
 
     text = str([b for step in audit_sheet(sol).steps for b in step.blocks])
     for name in sol.redundant_names:
@@ -308,7 +307,7 @@ def test_condition_estimate_is_close_and_repeatable():
 def test_audit_trail_of_many_local_states_is_refused_clearly(tmp_path):
     """Above AUDIT_MAX_LOCAL_STATES states --steps and report stop with one clear line
     (exit 2) pointing to --json, the summary and plot; nothing is written."""
-    from leastwork.audit import AUDIT_MAX_LOCAL_STATES, audit_sheet
+    from leastwork.output.audit import AUDIT_MAX_LOCAL_STATES, audit_sheet
 
     text = storey_frame(6, 5)  # three per closed ring (common practice): 3 * 6 * 5 = 90
     sol = leastwork.solve(structure(text), basis="local", verify=False)

@@ -67,7 +67,7 @@ def test_a_plain_solve_loads_only_the_dependencies_it_needs():
     assert case["checks"]["stiffness_ok"] is True  # the cross-check did run
     loaded = sorted(h for h in heavy if _imported(probe["modules"], h))
     assert not loaded, f"a plain solve imported {loaded}"
-    assert _imported(probe["modules"], "leastwork.stiffness")
+    assert _imported(probe["modules"], "leastwork.verify")
     assert not _imported(probe["modules"], "leastwork.symbolic")
 
 
@@ -75,7 +75,7 @@ def test_no_verify_does_not_load_the_stiffness_solver():
     probe = _solve_in_fresh_interpreter("--no-verify")
     assert probe["status"] == 0
     assert "stiffness_difference" not in probe["result"]["cases"]["default"]["checks"]
-    assert not _imported(probe["modules"], "leastwork.stiffness")
+    assert not _imported(probe["modules"], "leastwork.verify")
 
 
 # ---------------------------------------------------------------- member graph counts

@@ -17,7 +17,6 @@ from __future__ import annotations
 
 import dataclasses
 import functools
-import sys
 import threading
 import time
 from pathlib import Path
@@ -26,12 +25,11 @@ import pytest
 
 sympy = pytest.importorskip("sympy")
 
+from _cases import flatten_numbers, toml_value  # noqa: E402
+
 import leastwork  # noqa: E402
 from leastwork.errors import CaseError  # noqa: E402
 from leastwork.symbolic import solve_symbolic  # noqa: E402
-
-sys.path.insert(0, str(Path(__file__).parent))
-from _cases import flatten_numbers, toml_value  # noqa: E402
 
 CASES = sorted((Path(__file__).parent.parent / "cases").glob("*.toml"))
 REL = 1e-9

@@ -20,19 +20,15 @@ sympy's sign conventions (sympy 1.14; checked by test_oracle_conventions below):
 from __future__ import annotations
 
 import functools
-import sys
 from fractions import Fraction
-from pathlib import Path
 
 import numpy as np
 import pytest
 
 sympy = pytest.importorskip("sympy")
+from _cases import case_text, ea, ei, solve  # noqa: E402
 from sympy import Rational, symbols  # noqa: E402
 from sympy.physics.continuum_mechanics.beam import Beam  # noqa: E402
-
-sys.path.insert(0, str(Path(__file__).parent))
-from _cases import case_text, ea, ei, solve  # noqa: E402
 
 N_BEAMS = 10
 SEED = 20240611

@@ -18,6 +18,8 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.polynomial import polynomial as P
 
+from .thresholds import EXTREME_TIE, EXTREME_TIE_FLOOR
+
 __all__ = ["Piecewise", "ParticularFields", "particular_fields", "gauss_integral"]
 
 _DEG = 5  # storage degree: cubic moments from linearly varying loads, with room to spare
@@ -78,9 +80,9 @@ class Piecewise:
             xs += cand
             vals += [_horner(full, x) for x in cand]
         v, x = np.array(vals), np.array(xs)
-        # ties within round-off (and values below 1e-9, SI: a flat zero field) keep the
-        # first position, so that round-off never decides where an extreme is
-        tol = max(1e-12 * float(np.max(np.abs(v))), 1e-9)
+        # ties within round-off (and values below EXTREME_TIE_FLOOR, SI: a flat zero field)
+        # keep the first position, so that round-off never decides where an extreme is
+        tol = max(EXTREME_TIE * float(np.max(np.abs(v))), EXTREME_TIE_FLOOR)
         top = np.flatnonzero(v >= v.max() - tol)
         bottom = np.flatnonzero(v <= v.min() + tol)
         i, j = top[np.argmin(x[top])], bottom[np.argmin(x[bottom])]

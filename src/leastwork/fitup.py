@@ -251,7 +251,7 @@ def sensitivity_round_off(sol, target: str, member: str, X: np.ndarray) -> float
     self-stress state), and the solve with delta to EPS times its condition number:
     tau (|X_t|·nu + |X_m|·nu) + EPS cond |b_t|·|X_m|.
     """
-    from .solution import EPS, LOCAL_STATE_ACCURACY
+    from .solution import EPS
 
     st, topo = sol.structure, sol.topology
     B = sol.B
@@ -262,7 +262,7 @@ def sensitivity_round_off(sol, target: str, member: str, X: np.ndarray) -> float
     else:
         nu = np.max(np.abs(B), axis=0, initial=0.0)
         b_t = np.asarray(B[axial_column(st, topo, target)]).ravel()
-    tau = LOCAL_STATE_ACCURACY if sol.basis == "local" else EPS
+    tau = sol.released.state_accuracy
     x_m, x_t = np.abs(X[:, 0]), np.abs(X[:, 1])
     cond = max(float(sol.condition), 1.0) if math.isfinite(sol.condition) else 1.0 / EPS
     return float(tau * (x_t @ nu + x_m @ nu) + EPS * cond * (np.abs(b_t) @ x_m))

@@ -307,10 +307,8 @@ def point_loading(st: Structure, topo, points: Sequence[LoadPoint], load: float)
 def _flexibility_solver(sol):
     if sol.flexibility_solver is not None:
         return sol.flexibility_solver
-    from .solve import FlexibilitySolver
-
     names = [sol.topology.columns[j].name for j in sol.redundant_columns]
-    return FlexibilitySolver(sol.flexibility, names, sol.structure.source)
+    return sol.released.compatibility_solver(sol.flexibility, names, sol.structure.source)
 
 
 def influence_line(sol, quantity: str | QuantitySpec, along: str | Sequence[str],

@@ -11,17 +11,13 @@ load cases.
 
 from __future__ import annotations
 
+from .compatibility import flexibility_matrix
 from .errors import CaseError
 from .model import Structure
 from .solution import Solution
-from .solve import (
-    FlexibilitySolver,
-    _check_targets,
-    cross_check,
-    flexibility_matrix,
-    layout_warnings,
-    solve_cases,
-)
+from .solve import _check_targets
+from .stability import layout_warnings, soft_spring_warnings
+from .superposition import cross_check, solve_cases
 
 __all__ = ["reanalyse", "layout_differences"]
 
@@ -76,22 +72,12 @@ def reanalyse(previous: Solution, structure: Structure, *, verify: bool | None =
     red = list(previous.redundant_columns)
     B = previous.B
     names = [topo.columns[j].name for j in red]
-    local = previous.basis == "local"
-    if local:
-        from .sparse_solve import SparseFlexibilitySolver, sparse_flexibility
-
-        F = sparse_flexibility(st, topo)
-    else:
-        from .energy import flexibility_blocks
-
-        F = flexibility_blocks(st, topo)
+    released = previous.released
+    F = released.flexibility(st, topo)
     delta = flexibility_matrix(B, F)
-    solver = (SparseFlexibilitySolver if local else FlexibilitySolver)(delta, names, st.source)
-    results = solve_cases(st, topo, red, B, F, previous.released, solver, local=local)
-    from .sparse_solve import basis_view
-    from .stability import soft_spring_warnings
-
-    layout = layout_warnings(st, topo, basis_view(previous) if local else None)
+    solver = released.compatibility_solver(delta, names, st.source)
+    results = solve_cases(st, topo, red, B, F, released, solver)
+    layout = layout_warnings(st, topo, released.stability_basis(B))
     notes = [*layout, *soft_spring_warnings(st, topo, B),
              *cross_check(st, results, solver.cond, verify)]
     return Solution(st, topo, red, previous.chosen_by_user, B, F, delta, results,

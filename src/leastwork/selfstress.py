@@ -48,23 +48,16 @@ import numpy as np
 import scipy.sparse as sp
 from scipy.linalg.lapack import dgelsy
 
+from .thresholds import GOOD_PIVOT as _GOOD_PIVOT
+from .thresholds import LOCAL_LEAST_SQUARES_RCOND, LONG_RANGE_PIVOT, MOVING_FRACTION
+from .thresholds import LOCAL_STATE_BOUND as _STATE_BOUND
+from .thresholds import LOCAL_STATE_RESIDUAL as _LOCAL_TOL
+from .thresholds import RELEASED_PIVOT_SINGULAR as _RANK_TOL
+from .thresholds import STATE_ENTRY_DROP as _DROP
+
 __all__ = ["SelfStressBasis", "local_self_stress", "equilibrium_scaling", "members_per_state"]
 
-_RANK_TOL = 1e-9
-#: A column is reproduced by a local set of columns (a state) when the residual, the column
-#: having unit norm, is at round-off level: an exact self-stress leaves about 1e-15. A
-#: nearly straight chain between two pins is nearly dependent locally (residuals of 1e-9
-#: were seen) while its exact self-stress runs further: such a column is not closed
-#: locally (the long-range step finds its state exactly).
-_LOCAL_TOL = 1e-11
-_GOOD_PIVOT = 1e-3
-#: A local state whose coefficients (on unit-norm columns, the closing one at 1) exceed
-#: this comes from a nearly singular set of joints; larger sets are tried for a better one.
-_STATE_BOUND = 1e2
 _MAX_RADIUS = 3
-#: Entries of a state below this fraction of its largest are round-off of the local
-#: least-squares and dropped.
-_DROP = 1e-14
 
 
 @dataclass(frozen=True)
@@ -432,8 +425,8 @@ def _kept_null_space(SK: sp.csc_matrix, g: int) -> np.ndarray | None:
 
 def _unit_on_pivots(X: np.ndarray, candidates: np.ndarray) -> tuple[np.ndarray, list[int]]:
     """Step 5: the null basis ``X`` (k, g) recombined to be the identity on g pivot rows,
-    picked by threshold pivoting (at least 0.1 of the column's largest) in the order of
-    ``candidates``: (W, pivots)."""
+    picked by threshold pivoting (at least ``LONG_RANGE_PIVOT`` of the column's largest) in
+    the order of ``candidates``: (W, pivots)."""
     g = X.shape[1]
     W = X.copy()
     pivots: list[int] = []
@@ -441,7 +434,7 @@ def _unit_on_pivots(X: np.ndarray, candidates: np.ndarray) -> tuple[np.ndarray, 
         col = W[:, i]
         big = np.max(np.abs(col))
         pick = next(c for c in candidates
-                    if c not in pivots and abs(col[c]) >= 0.1 * big)
+                    if c not in pivots and abs(col[c]) >= LONG_RANGE_PIVOT * big)
         pivots.append(int(pick))
         W[:, i] = col / col[pick]
         for q in range(i + 1, g):
@@ -490,19 +483,21 @@ def _free_motion(SK: sp.csc_matrix, iterations: int = 8) -> tuple[int, ...]:
         v = lu.solve(v)
         v /= np.linalg.norm(v)
     size = np.abs(v)
-    return tuple(int(r) for r in np.flatnonzero(size > 0.3 * size.max()))
+    return tuple(int(r) for r in np.flatnonzero(size > MOVING_FRACTION * size.max()))
 
 
 def _least_norm(M: np.ndarray, b: np.ndarray) -> np.ndarray:
     """Least-squares solution of least norm of M x = b (LAPACK dgelsy: complete orthogonal
-    factorisation with column pivoting, rank by ``rcond`` 1e-10), called directly: at the
-    sizes of a local state (tens of rows) the wrappers cost more than the algebra."""
+    factorisation with column pivoting, rank by ``rcond`` = ``LOCAL_LEAST_SQUARES_RCOND``),
+    called directly: at the sizes of a local state (tens of rows) the wrappers cost more
+    than the algebra."""
     m, n = M.shape
     rhs = np.zeros((max(m, n), 1))
     rhs[:m, 0] = b
-    _, x, _, _, info = dgelsy(M, rhs, np.zeros(n, dtype=np.int32), 1e-10, 64 * (m + n) + 1)
+    _, x, _, _, info = dgelsy(M, rhs, np.zeros(n, dtype=np.int32), LOCAL_LEAST_SQUARES_RCOND,
+                              64 * (m + n) + 1)
     if info != 0:  # never seen; fall back to the SVD solver
-        return np.linalg.lstsq(M, b, rcond=1e-10)[0]
+        return np.linalg.lstsq(M, b, rcond=LOCAL_LEAST_SQUARES_RCOND)[0]
     return x[:n, 0]
 
 

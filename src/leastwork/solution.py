@@ -11,27 +11,18 @@ import numpy as np
 
 from .fields import Piecewise, gauss_integral
 from .model import DistributedLoad, NodalLoad, PointLoad, Structure, reaction_components
+from .thresholds import (
+    EQUILIBRIUM_ROUND_OFF,
+    EXTREME_TIE,
+    EXTREME_TIE_FLOOR,
+    FORCE_FLOOR,
+    LOCAL_STATE_ACCURACY,
+)
 
-__all__ = ["MemberResult", "CaseResult", "Solution", "EquilibriumCheck", "EQUILIBRIUM_ROUND_OFF",
-           "LOCAL_STATE_ACCURACY", "member_result"]
+__all__ = ["MemberResult", "CaseResult", "Solution", "EquilibriumCheck", "member_result"]
 
 #: Machine epsilon of double precision (the unit round-off is half of it).
 EPS = float(np.finfo(float).eps)
-#: The equilibrium check accepts the sum of each equation (x, y or moment of a joint, or of
-#: the whole structure) while it is at most ``EQUILIBRIUM_ROUND_OFF * EPS`` times the sum of
-#: the absolute values of the terms that form it: the round-off of such a sum, and of the
-#: solve that made its terms, grows with that total, not with any one term or with the
-#: distance from the origin (docs/verification.md, "Equilibrium check tolerance").
-EQUILIBRIUM_ROUND_OFF = 1024.0
-#: Accuracy of a local self-stress state (selfstress.py accepts a state when the residual of
-#: its unit-norm columns is below 1e-11; states found by the global step measure about
-#: 2e-12): on the local basis the terms of the states count this much, not EPS.
-LOCAL_STATE_ACCURACY = 1e-11
-#: Smallest force scale of a case (N), ``CaseResult.equilibrium_scale``: other outputs treat
-#: forces far below the scale as round-off, and a case whose forces are all zero (a
-#: determinate structure that is only heated, say) is measured against 1 N.
-FORCE_FLOOR = 1.0
-
 
 @dataclass(frozen=True)
 class MemberResult:
@@ -87,7 +78,7 @@ def _unloaded_member_result(mid: str, L: float, N: float, ms: float, me: float) 
     n, v, mm = (Piecewise(breaks, coef[i]) for i in range(3))
     m_end = ms + slope * L  # as the polynomial evaluates it
     start, end = (N, slope, ms), (N, slope, m_end)
-    tol = max(1e-12 * max(abs(ms), abs(m_end)), 1e-9)
+    tol = max(EXTREME_TIE * max(abs(ms), abs(m_end)), EXTREME_TIE_FLOOR)
     top, bottom = max(ms, m_end), min(ms, m_end)
     m_max = (ms, 0.0) if ms >= top - tol else (m_end, L)
     m_min = (ms, 0.0) if ms <= bottom + tol else (m_end, L)

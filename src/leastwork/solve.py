@@ -16,21 +16,18 @@ from __future__ import annotations
 
 import numpy as np
 
-from .energy import flexibility_blocks, initial_deformations
+from .compatibility import FlexibilitySolver, flexibility_matrix
+from .energy import flexibility_blocks
 from .errors import CaseError
 from .model import Structure
-from .solution import CaseResult, Solution
-from .stability import soft_spring_warnings
-from .statics import ReleasedStructure, case_loading
+from .solution import Solution
+from .stability import layout_warnings, soft_spring_warnings
+from .statics import ReleasedStructure
+from .superposition import cross_check, solve_cases
+from .thresholds import BETTER_CONDITION_FACTOR, CONDITION_WARN, LOCAL_BASIS_MIN_COLUMNS
 from .topology import build_topology, check_stable, choose_redundants
 
-__all__ = ["solve", "resolve_basis", "column_count", "solve_cases", "flexibility_matrix", "cross_check", "FlexibilitySolver", "CONDITION_WARN", "LOCAL_BASIS_MIN_COLUMNS", "BASES",
-           "layout_warnings"]
-
-
-#: Above this many basic forces and reactions the automatic choice is the local
-#: self-stress basis (sparse path, :mod:`leastwork.sparse_solve`).
-LOCAL_BASIS_MIN_COLUMNS = 1500
+__all__ = ["solve", "resolve_basis", "column_count", "BASES"]
 
 BASES = ("auto", "released", "local")
 
@@ -127,18 +124,6 @@ def solve(structure: Structure, redundants=None, *, where: str | None = None,
                     condition=solver.cond, flexibility_solver=solver)
 
 
-def layout_warnings(st: Structure, topo, basis=None) -> list[str]:
-    """Warnings that depend only on the layout, the same on every path: a near-mechanism
-    (:func:`leastwork.stability.assess_stability`, which raises MechanismError for a
-    mechanism to working precision; ``basis``: the local self-stress basis on the local
-    path) and members that overlap or pass through a joint
-    (:func:`leastwork.geometry_checks.overlap_warnings`)."""
-    from .geometry_checks import overlap_warnings
-    from .stability import assess_stability
-
-    return [*assess_stability(st, topo, basis), *overlap_warnings(st)]
-
-
 def resolve_basis(st: Structure, names, basis: str, where: str) -> str:
     """"released" or "local" for ``basis`` ("auto": local above ``LOCAL_BASIS_MIN_COLUMNS``
     basic forces when no redundants are named). Redundants named with the local basis are
@@ -163,59 +148,6 @@ def column_count(st: Structure) -> int:
     return n + sum(len(s.restraints) for s in st.supports.values())
 
 
-def solve_cases(st: Structure, topo, red: list[int], B, F, released, solver,
-                local: bool = False) -> dict[str, CaseResult]:
-    """Every load case of ``st`` on the states ``B`` (unit redundant states, or local
-    self-stress states when ``local``), with flexibility ``F``, the factorised released
-    structure and flexibility solver. Dense or sparse ``B`` and ``F`` alike."""
-    results = {}
-    size_B = abs(B)  # |B| |X|: the size of the terms of B X, for the equilibrium check
-    for case in st.case_names:
-        loading = case_loading(st, topo, case)
-        s0 = released.forces(loading.p)[:, 0]
-        e = initial_deformations(st, topo, loading.particulars, loading.imposed)
-        c = loading.settlement
-        Delta = c[red]
-        load_terms = B.T @ (F @ s0 + e - c) + Delta
-        X = solver.solve(Delta - load_terms)
-        s = s0 + B @ X
-        d = F @ s + e
-        nodal_disp = released.displacements(d - c)
-        res = CaseResult.build(st, topo, loading, s[red] if local else X, load_terms, Delta,
-                               s, s0, nodal_disp, d, released,
-                               formed=CaseResult.term_sizes(s0, size_B, X, local))
-        if local:
-            res.amplitudes = X
-        results[case] = res
-    return results
-
-
-def cross_check(st: Structure, results: dict, condition: float, verify: bool | None,
-                progress=None) -> list[str]:
-    """Cross-check every load case with the direct stiffness method when ``verify`` (None:
-    when small enough); the warnings of any disagreement."""
-    if verify is None:
-        from .checks import should_verify
-
-        verify = should_verify(st)
-    notes: list[str] = []
-    if verify:
-        from .checks import stiffness_check
-
-        if progress is not None:
-            progress("cross-check")
-        for res in results.values():
-            res.stiffness = stiffness_check(st, res, condition)
-            if not res.stiffness.ok:
-                notes.append(_disagreement(res))
-    return notes
-
-
-#: Jacobi-scaled condition number of the flexibility matrix above which the choice of
-#: redundants is questioned (about half of double precision's 16 digits would be lost).
-CONDITION_WARN = 1e8
-
-
 def _flexibility(st: Structure, topo, red: list[int], F: np.ndarray):
     """Released structure, unit states B, flexibility delta and its solver for ``red``."""
     released = ReleasedStructure(topo, red)
@@ -225,100 +157,21 @@ def _flexibility(st: Structure, topo, red: list[int], F: np.ndarray):
     return released, B, delta, solver
 
 
-def flexibility_matrix(B, F):
-    """delta = B' F B (Maxwell-Betti: symmetric; the round-off of the product is averaged
-    out), dense or scipy.sparse CSR as ``B`` and ``F`` are."""
-    delta = B.T @ F @ B
-    if hasattr(delta, "tocsr"):
-        delta = delta.tocsr()
-        return ((delta + delta.T) * 0.5).tocsr()
-    return 0.5 * (delta + delta.T)
-
-
 def _better_choice(st: Structure, topo, F: np.ndarray, red: list[int], cond: float):
     """An alternative set of redundants (member forces rather than reactions) if its
-    flexibility matrix is at least ten times better conditioned, else None."""
+    flexibility matrix is better conditioned by more than ``BETTER_CONDITION_FACTOR``,
+    else None."""
     alt = choose_redundants(st, topo, None, prefer="members")
     if sorted(alt) == sorted(red):
         return None
     parts = _flexibility(st, topo, alt, F)
-    if parts[-1].cond * 10 < cond:
+    if parts[-1].cond * BETTER_CONDITION_FACTOR < cond:
         return (alt, *parts)
     return None
 
 
-def _disagreement(res) -> str:
-    c = res.stiffness
-    if c.difference is None:
-        return (f"load case {res.name}: the direct-stiffness cross-check gave no answer "
-                f"({c.failure}); the force-method result is unconfirmed")
-    return (f"LOAD CASE {res.name}: THE FORCE METHOD AND THE DIRECT-STIFFNESS CROSS-CHECK "
-            f"DISAGREE (largest difference {c.difference:.2e} of the largest force, at "
-            f"{c.where}); do not use these results before the cause is found")
-
-
 def _names(topo, red: list[int]) -> str:
     return ", ".join(topo.columns[j].name for j in red)
-
-
-def jacobi_scaling(diag: np.ndarray, names: list[str],
-                   what: str) -> tuple[np.ndarray, np.ndarray, list[str]]:
-    """For the diagonal of a flexibility matrix: which unknowns have no flexibility (at or
-    below 1e-12 of the largest), the scale factors D = 1/sqrt(diag) (1 for those), and a
-    warning for each (``what`` names the unknowns: "redundant", "the self-stress state
-    closing"): such an unknown is not determined by compatibility and is taken as zero."""
-    diag = np.asarray(diag, dtype=float).copy()
-    scale_ref = max(float(np.max(np.abs(diag))), 1e-300)
-    zero = diag <= 1e-12 * scale_ref
-    notes = [f"{what} {names[i]} has no flexibility (it strains only axially rigid members "
-             "or rigid parts); its value is not determined by compatibility and is taken as "
-             "zero" for i in np.flatnonzero(zero)]
-    return zero, 1.0 / np.sqrt(np.where(zero, 1.0, diag)), notes
-
-
-class FlexibilitySolver:
-    """Solve delta X = rhs, Jacobi-scaled; a redundant (or a combination) with no
-    flexibility is explained and taken as zero (minimum-norm solution)."""
-
-    def __init__(self, delta: np.ndarray, names: list[str], source: str):
-        self.warnings: list[str] = []
-        self.source = source
-        n = delta.shape[0]
-        self.n = n
-        self.cond = 1.0
-        if n == 0:
-            return
-        zero, self.D, notes = jacobi_scaling(np.diag(delta), names, "redundant")
-        self.warnings.extend(notes)
-        S = delta * self.D[:, None] * self.D[None, :]
-        w, V = np.linalg.eigh(S)
-        keep = w > 1e-11 * max(float(w.max()), 1e-300)
-        if (~keep).sum() > zero.sum():
-            self.warnings.append(
-                "the flexibility matrix is singular: some combination of redundants strains "
-                "no flexible part; the minimum-norm solution is used")
-        self.w, self.V, self.keep = w, V, keep
-        self.cond = float(w[keep].max() / w[keep].min()) if keep.any() else float("inf")
-
-    def solve(self, rhs: np.ndarray) -> np.ndarray:
-        """X for one right-hand side (nred,) or several (nred, k)."""
-        rhs = np.asarray(rhs, dtype=float)
-        if self.n == 0:
-            return np.zeros(rhs.shape)
-        D = self.D if rhs.ndim == 1 else self.D[:, None]
-        b = D * rhs
-        coef = self.V.T @ b
-        y = np.zeros_like(coef)
-        y[self.keep] = coef[self.keep] / (self.w[self.keep] if rhs.ndim == 1
-                                          else self.w[self.keep][:, None])
-        resid = coef[~self.keep]
-        size = np.max(np.abs(b), axis=0, initial=0.0)  # per right-hand side
-        if resid.size and np.any(np.max(np.abs(resid), axis=0) > 1e-9 * np.maximum(size, 1e-300)):
-            raise CaseError(
-                "the compatibility equations have no solution: an imposed deformation "
-                "(temperature, misfit or settlement) acts on a part with no flexibility "
-                "(an axially rigid member or a rigid support chain)", source=self.source)
-        return D * (self.V @ y)
 
 
 def _check_targets(st: Structure, topo) -> None:

@@ -22,23 +22,21 @@ import numpy as np
 import scipy.sparse as sp
 from scipy.sparse.linalg import splu
 
+from .basis import Basis, CompatibilitySolver
+from .compatibility import flexibility_matrix, jacobi_scaling
 from .energy import flexibility_terms
 from .errors import CaseError, MechanismError
 from .model import Structure
 from .selfstress import SelfStressBasis, local_self_stress
 from .solution import Solution
-from .solve import cross_check, flexibility_matrix, jacobi_scaling, layout_warnings, solve_cases
-from .stability import soft_spring_warnings
+from .stability import layout_warnings, soft_spring_warnings
+from .superposition import cross_check, solve_cases
+from .thresholds import CONDITION_WARN, DENSE_CHECK_MAX_DOFS, LOCAL_STATE_ACCURACY
 from .topology import Topology, _keep_order, check_stable, sparse_topology
 
 __all__ = ["solve_local", "SparseReleased", "SparseFlexibilitySolver", "sparse_flexibility",
            "find_basis", "condition_estimate", "raise_unstable", "local_topology",
-           "SweepSingular", "DENSE_CHECK_MAX_DOFS", "basis_view"]
-
-#: Up to this many nodal directions, a structure whose local sweep found no non-singular
-#: released structure is decided by the dense rank (and, if stable, solved on the
-#: released basis instead): one verdict for the two paths.
-DENSE_CHECK_MAX_DOFS = 3000
+           "SweepSingular"]
 
 
 class SweepSingular(MechanismError):
@@ -125,18 +123,57 @@ def condition_estimate(S: sp.spmatrix, solve, iterations: int = 25) -> float:
     return max(top * inv, 1.0)
 
 
-class SparseReleased:
-    """The released structure (square, statically determinate): the sparse LU the sweep
-    made of it when it checked its stability, row- and column-scaled as for the rank
-    decisions."""
+class SparseReleased(Basis):
+    """The local basis (:class:`leastwork.basis.Basis`): the released structure (square,
+    statically determinate) with the sparse LU the sweep made of it when it checked its
+    stability, row- and column-scaled as for the rank decisions, and the local self-stress
+    states, each closing one column (their amplitudes are the unknowns)."""
+
+    kind = "local"
 
     def __init__(self, topo: Topology, basis: SelfStressBasis):
         self.topo = topo
         self.keep = np.asarray(basis.released)
+        self.redundants = [int(j) for j in basis.closing]
         self.ncol = len(topo.columns)
         # the factor the stability test of the sweep made: scaled A0 = diag(rs) A0 diag(cs)
         self._lu, self.rs, self.cs = basis.factor, basis.row_scale, basis.column_scale
         self.nonzeros = int(self._lu.L.nnz + self._lu.U.nnz)
+        self._states = basis.states.tocsc()
+
+    @property
+    def redundant_names(self) -> list[str]:
+        """Names of the columns the states close."""
+        return [self.topo.columns[j].name for j in self.redundants]
+
+    @property
+    def amplitudes(self) -> bool:
+        """The unknowns are the amplitudes of the local states."""
+        return True
+
+    @property
+    def state_accuracy(self) -> float:
+        """Local states are self-stresses to ``LOCAL_STATE_ACCURACY``."""
+        return LOCAL_STATE_ACCURACY
+
+    def states(self) -> sp.csc_matrix:
+        """N (ncol, nstates), sparse: the local self-stress states, closing column at 1."""
+        return self._states
+
+    def flexibility(self, st: Structure, topo: Topology) -> sp.csr_matrix:
+        """F, sparse (:func:`sparse_flexibility`)."""
+        return sparse_flexibility(st, topo)
+
+    def compatibility_solver(self, delta, names: list[str], source: str):
+        """:class:`SparseFlexibilitySolver` of ``delta``."""
+        return SparseFlexibilitySolver(delta, names, source)
+
+    def stability_basis(self, states):
+        """The released columns, their sparse LU and ``states``: what the stability index
+        needs for the whole-structure test on the local path."""
+        import types
+
+        return types.SimpleNamespace(released=self.keep, factor=self._lu, states=states)
 
     def forces(self, rhs: np.ndarray) -> np.ndarray:
         """Basic forces and reactions (ncol, k) in equilibrium with nodal loads ``rhs``
@@ -156,7 +193,7 @@ class SparseReleased:
         return -self.rs * y
 
 
-class SparseFlexibilitySolver:
+class SparseFlexibilitySolver(CompatibilitySolver):
     """Solve delta X = rhs with the sparse flexibility matrix, Jacobi-scaled and factorised
     once (sparse LU, symmetric ordering); a state with no flexibility is explained and taken
     as zero."""
@@ -201,15 +238,6 @@ class SparseFlexibilitySolver:
         if self.zero.any():
             b[self.zero] = 0.0
         return D * self._lu.solve(b)
-
-
-def basis_view(sol: Solution):
-    """What the stability index needs of the local basis of a solution on that basis (the
-    released columns and their sparse LU, the states): for a reanalysis."""
-    import types
-
-    rel = sol.released
-    return types.SimpleNamespace(released=rel.keep, factor=rel._lu, states=sol.B)
 
 
 def raise_unstable(st: Structure, topo: Topology, basis: SelfStressBasis):
@@ -273,18 +301,18 @@ def solve_local(st: Structure, *, verify: bool | None = None, progress=None,
     released = SparseReleased(topo, basis)
     say("flexibility")
     F = sparse_flexibility(st, topo)
-    N = basis.states.tocsc()
+    N = released.states()
     delta = flexibility_matrix(N, F)
     names = [topo.columns[j].name for j in basis.closing]
     solver = SparseFlexibilitySolver(delta, names, st.source)
     notes: list[str] = [*layout, *soft_spring_warnings(st, topo, N)]
-    if solver.cond > 1e8:
+    if solver.cond > CONDITION_WARN:
         notes.append(f"the flexibility matrix is ill-conditioned (condition number estimate "
                      f"{solver.cond:.2g}): digits of the redundants may be lost; check the "
                      "model for near-mechanisms or members of wildly different stiffness")
     say("load cases")
     red = [int(j) for j in basis.closing]
-    results = solve_cases(st, topo, red, N, F, released, solver, local=True)
+    results = solve_cases(st, topo, red, N, F, released, solver)
     notes.extend(cross_check(st, results, solver.cond, verify, progress))
     return Solution(st, topo, red, False, N, F, delta, results,
                     warnings=tuple(solver.warnings + notes), released=released,

@@ -40,36 +40,21 @@ import numpy as np
 import scipy.sparse as sp
 
 from .errors import MechanismError
+from .scaling import scaled_dense, scaled_equilibrium
+from .thresholds import INDEX_RECHECK as _RECHECK
+from .thresholds import MECHANISM_INDEX, NEAR_MECHANISM_INDEX, SLIDING_TURN, SOFT_SPRING_RATIO
+from .thresholds import MOVING_FRACTION as _MOVING
+from .thresholds import ZERO_STATE_ENTRY as _ZERO_STATE
 
 __all__ = ["MECHANISM_INDEX", "NEAR_MECHANISM_INDEX", "WeakSpot", "weakest_spot",
-           "assess_stability", "scaled_equilibrium", "size_factor", "smallest_singular_value",
+           "assess_stability", "layout_warnings", "size_factor", "smallest_singular_value",
            "soft_spring_warnings"]
 
-#: At or below this stability index the structure is taken as a mechanism: some load needs
-#: forces of at least 1/index = 1e8 times itself, and the stiffness of the weak motion is
-#: of the order of index^2 = 1e-16 of the members' (the round-off of double precision), so
-#: no linear analysis can resolve it.
-MECHANISM_INDEX = 1e-8
-#: Below this stability index a stable structure is solved with a near-mechanism warning:
-#: some load at the weak place needs forces of over a thousand times itself, from geometry
-#: alone. Ordinary structures lie far above it (bundled cases 0.19 and up; generated
-#: trusses, grids and frames of 10^5 members 0.3 and up; docs/verification.md).
-NEAR_MECHANISM_INDEX = 1e-3
-#: Member blocks whose index from the Gram matrix (S S' of the block) is below this are
-#: recomputed from the block itself by singular values: the Gram matrix squares the index
-#: and loses its digits below about 1e-7.
-_RECHECK = 3e-3
 #: Stiffness of the dummy rows that pad every member block to six rows (the scaled blocks
 #: have singular values of a few units at most, so a dummy is never the smallest).
 _DUMMY = 1e3
 #: Member blocks per batch of the eigenvalue computation (memory: 288 bytes each).
 _BATCH = 50_000
-#: A spring is in no self-stress state when its entry in every state (each with its closing
-#: force at 1) is at most this.
-_ZERO_STATE = 1e-9
-#: A nodal direction takes part in a weak motion when it moves at least this fraction of
-#: the largest.
-_MOVING = 0.3
 
 
 @dataclass(frozen=True)
@@ -131,18 +116,6 @@ def size_factor(st) -> float:
     if not len(a):
         return 1.0
     return _size_factor(xy, float(np.mean(_lengths(xy, a, b))))
-
-
-def scaled_equilibrium(topo, lref: float) -> tuple[sp.csr_matrix, np.ndarray]:
-    """The scaled equilibrium matrix S = diag(rs) A diag(cs): moment rows divided by
-    ``lref`` (the mean member length), columns to unit norm (the scaling of every rank
-    decision); and the column scales cs."""
-    A = sp.csr_matrix(topo.A_sparse)
-    rs = np.array([1.0 / lref if d.endswith(".rz") else 1.0 for d in topo.dofs])
-    S = sp.diags(rs) @ A
-    norms = np.sqrt(np.asarray(S.multiply(S).sum(axis=0)).ravel())
-    norms[norms == 0] = 1.0
-    return (S @ sp.diags(1.0 / norms)).tocsr(), 1.0 / norms
 
 
 def _joint_rows(ids: list[str], topo) -> np.ndarray:
@@ -263,7 +236,7 @@ def _rigid_motion(mode: np.ndarray, c: np.ndarray, spread: float, ids: list[str]
     from .plaintext import literal
 
     tx, ty, turn = mode
-    if abs(turn) < 1e-3 * max(abs(tx), abs(ty)):
+    if abs(turn) < SLIDING_TURN * max(abs(tx), abs(ty)):
         ang = float(np.degrees(np.arctan2(ty, tx)) % 180.0)
         return f"sliding at {ang:.3g} deg to the x axis"
     theta = turn / spread
@@ -279,9 +252,7 @@ def _global_spot_dense(st, topo, factor: float) -> WeakSpot:
     value = topo.sigma_min * factor
     motion: tuple[str, ...] = ()
     if value < NEAR_MECHANISM_INDEX and topo.A is not None:
-        from .topology import _scaled
-
-        u = np.linalg.svd(_scaled(topo.A, topo.dofs, st), full_matrices=False)[0][:, -1]
+        u = np.linalg.svd(scaled_dense(topo.A, topo.dofs, st), full_matrices=False)[0][:, -1]
         motion = _moving(u, topo.dofs)
     return WeakSpot(value, "whole", "", motion)
 
@@ -391,7 +362,17 @@ def assess_stability(st, topo, basis=None) -> list[str]:
             "results (a near-mechanism)"]
 
 
-def soft_spring_warnings(st, topo, states, ratio: float = 1e-6) -> list[str]:
+def layout_warnings(st, topo, basis=None) -> list[str]:
+    """Warnings that depend only on the layout, the same on every path: a near-mechanism
+    (:func:`assess_stability`, which raises MechanismError for a mechanism to working
+    precision; ``basis``: the local self-stress basis on the local path) and members that
+    overlap or pass through a joint (:func:`leastwork.geometry_checks.overlap_warnings`)."""
+    from .geometry_checks import overlap_warnings
+
+    return [*assess_stability(st, topo, basis), *overlap_warnings(st)]
+
+
+def soft_spring_warnings(st, topo, states, ratio: float = SOFT_SPRING_RATIO) -> list[str]:
     """Springs without which the structure is a mechanism (no self-stress state, of the
     released or the local basis alike, passes through them: their row of ``states`` is
     zero) and whose stiffness is below ``ratio`` times the members' (median EA/L, EI/L^3):

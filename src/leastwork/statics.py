@@ -13,6 +13,7 @@ from dataclasses import dataclass
 import numpy as np
 from scipy.linalg import lu_factor, lu_solve
 
+from .basis import Basis
 from .errors import MechanismError
 from .fields import ParticularFields, particular_fields
 from .model import DistributedLoad, NodalLoad, PointLoad, Settlement, Structure
@@ -94,8 +95,9 @@ def case_loading(st: Structure, topo: Topology, case: str) -> CaseLoading:
                        tuple(nodal), loads)
 
 
-class ReleasedStructure:
-    """The statically determinate released structure, factorised once.
+class ReleasedStructure(Basis):
+    """The statically determinate released structure, factorised once: the released basis
+    (:class:`leastwork.basis.Basis`), whose states are the unit redundant states.
 
     Parameters
     ----------
@@ -103,6 +105,8 @@ class ReleasedStructure:
     redundants : list of int
         Column indices of the redundants.
     """
+
+    kind = "released"
 
     def __init__(self, topo: Topology, redundants: list[int]):
         self.topo = topo
@@ -139,3 +143,36 @@ class ReleasedStructure:
         for i, j in enumerate(self.redundants):
             B[j, i] = 1.0
         return B
+
+    states = unit_redundant_states
+
+    @property
+    def redundant_names(self) -> list[str]:
+        """Names of the redundants."""
+        return [self.topo.columns[j].name for j in self.redundants]
+
+    @property
+    def amplitudes(self) -> bool:
+        """The unknowns are the redundants themselves."""
+        return False
+
+    @property
+    def state_accuracy(self) -> float:
+        """States by back-substitution: exact to round-off (machine epsilon)."""
+        return float(np.finfo(float).eps)
+
+    def flexibility(self, st: Structure, topo: Topology) -> np.ndarray:
+        """F, dense (:func:`leastwork.energy.flexibility_blocks`)."""
+        from .energy import flexibility_blocks
+
+        return flexibility_blocks(st, topo)
+
+    def compatibility_solver(self, delta, names: list[str], source: str):
+        """:class:`leastwork.compatibility.FlexibilitySolver` of ``delta``."""
+        from .compatibility import FlexibilitySolver
+
+        return FlexibilitySolver(delta, names, source)
+
+    def stability_basis(self, states) -> None:
+        """None: the dense topology carries the singular values the stability index needs."""
+        return None

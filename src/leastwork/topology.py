@@ -24,17 +24,16 @@ import numpy as np
 
 from .errors import CaseError, MechanismError
 from .model import Structure, rotational_nodes
+from .scaling import scaled_dense as _scaled
+from .thresholds import GOOD_PIVOT as _GOOD_PIVOT
+from .thresholds import MECHANISM_INDEX, MECHANISM_MOTION
+from .thresholds import RANK_ROUND_OFF as _ROUND_OFF
 
 if TYPE_CHECKING:
     import networkx as nx
 
 __all__ = ["Column", "Topology", "build_topology", "sparse_topology", "assemble_equilibrium", "choose_redundants", "structure_graph",
            "member_graph_counts", "rank_tolerance", "check_stable"]
-
-_GOOD_PIVOT = 1e-3
-#: Round-off floor of the rank tolerance: a singular value of the scaled matrix (columns of
-#: unit norm) at or below this is zero whatever the structure's size.
-_ROUND_OFF = 1e-13
 
 
 @dataclass(frozen=True)
@@ -246,20 +245,9 @@ def rank_tolerance(st: Structure) -> float:
     length, columns of unit norm) at or below ``MECHANISM_INDEX / size_factor`` count as
     zero (never below the round-off floor 1e-13): the structure is stable exactly when its
     global stability index, sigma_min times the size factor, is above MECHANISM_INDEX."""
-    from .stability import MECHANISM_INDEX, size_factor
+    from .stability import size_factor
 
     return max(MECHANISM_INDEX / size_factor(st), _ROUND_OFF)
-
-
-def _scaled(A: np.ndarray, dofs, st: Structure) -> np.ndarray:
-    """Rows of moments divided by a characteristic length; columns to unit norm."""
-    lengths = [st.length(m) for m in st.members]
-    lref = float(np.mean(lengths)) if lengths else 1.0
-    row_scale = np.array([1.0 / lref if d.endswith(".rz") else 1.0 for d in dofs])
-    S = A * row_scale[:, None]
-    norms = np.linalg.norm(S, axis=0)
-    norms[norms == 0] = 1.0
-    return S / norms
 
 
 def _singular_values(M: np.ndarray) -> np.ndarray:
@@ -283,7 +271,7 @@ def _motion(M: np.ndarray, dofs, tol: float) -> tuple[str, ...]:
         return ()
     moving = np.max(np.abs(null), axis=1)
     top = moving.max()
-    return tuple(d for d, v in zip(dofs, moving, strict=True) if v > 1e-6 * top)
+    return tuple(d for d, v in zip(dofs, moving, strict=True) if v > MECHANISM_MOTION * top)
 
 
 def _describe(motion: tuple[str, ...]) -> str:

@@ -293,8 +293,8 @@ def solve_symbolic(
 
 def _solve(text: str, source: str, redundants, extra: tuple[str, ...], expand_derived: bool,
            tick, numeric_redundants=None) -> SymbolicSolution:
-    from ..caseio import read_case_record
     from ..displacements import parse_target
+    from ..io.record import read_case_record
     from ..topology import build_topology, choose_redundants
     from .exact import read_exact
     from .finish import Finisher, unit_text

@@ -1,7 +1,7 @@
 """Exact reading of a case: every quantity as a sympy expression in the case units.
 
 Each quantity is read from the text as written in the case file (see
-:class:`leastwork.caseio.CaseRecord`), with the same expression grammar and unit names as
+:class:`leastwork.io.record.CaseRecord`), with the same expression grammar and unit names as
 the numeric reader (pint's tokenizer), but evaluated in exact arithmetic: a decimal number
 such as ``1.2e-5`` becomes the rational 3/250000, a unit becomes its exact conversion factor
 to SI (``mm`` is 1/1000 m, ``deg`` is pi/180 rad), and a ``[parameters]`` name becomes a
@@ -328,7 +328,7 @@ class _Evaluator:
 
 
 def read_exact(st: Structure, record, *, expand_derived: bool = False) -> ExactModel:
-    """The exact model of a case read with :func:`leastwork.caseio.read_case_record`.
+    """The exact model of a case read with :func:`leastwork.io.record.read_case_record`.
 
     Raises CaseError where a value cannot be represented exactly, and RuntimeError if an
     exact value disagrees with the numeric reader (a bug).

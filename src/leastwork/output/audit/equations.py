@@ -3,7 +3,7 @@ numbers of each load case."""
 
 from __future__ import annotations
 
-from ...solve import CONDITION_WARN
+from ...thresholds import CONDITION_WARN
 from ..sheet import Formula, Para, Step, fmt
 from .context import Context
 
