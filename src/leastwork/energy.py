@@ -22,6 +22,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from .elements import kind_of
+from .elements.base import integrate
 from .fields import ParticularFields, gauss_integral
 from .model import Misfit, Structure, TemperatureLoad
 from .topology import Topology
@@ -51,27 +53,21 @@ class FlexibilityTerm:
     block: np.ndarray
 
 
-def flexibility_terms(st: Structure, topo: Topology) -> list[FlexibilityTerm]:
-    """The energy terms of every member and spring, in member order then springs."""
-    out: list[FlexibilityTerm] = []
+def member_columns(topo: Topology, m) -> list[int]:
+    """Column indices of member ``m``'s basic forces, in the kind's order."""
     ci = topo.column_index
+    return [ci[bf.name] for bf in kind_of(m).basic_forces(m)]
+
+
+def flexibility_terms(st: Structure, topo: Topology) -> list[FlexibilityTerm]:
+    """The energy terms of every member (as its kind gives them) and spring, in member
+    order then springs."""
+    out: list[FlexibilityTerm] = []
     for m in st.members.values():
-        L = st.length(m.id)
-        axial = ci[m.id] if m.kind == "bar" else ci[f"{m.id}.n"]
-        if m.EA is not None:
-            out.append(FlexibilityTerm(m.id, "axial", (axial,), np.array([[L / m.EA]])))
-        if not m.is_beam:
-            continue
-        ends = [(k, ci.get(f"{m.id}.{k}.m")) for k in ("start", "end")]
-        keep = [i for i, (_, j) in enumerate(ends) if j is not None]
-        if not keep:
-            continue
-        cols = tuple(ends[i][1] for i in keep)
-        bend = np.array([[L / (3 * m.EI), L / (6 * m.EI)], [L / (6 * m.EI), L / (3 * m.EI)]])
-        out.append(FlexibilityTerm(m.id, "bending", cols, bend[np.ix_(keep, keep)]))
-        if st.shear and m.GAs:
-            shear = np.array([[1.0, -1.0], [-1.0, 1.0]]) / (L * m.GAs)
-            out.append(FlexibilityTerm(m.id, "shear", cols, shear[np.ix_(keep, keep)]))
+        cols = member_columns(topo, m)
+        for t in kind_of(m).flexibility(m, m, st.length(m.id), st.shear, 1.0):
+            out.append(FlexibilityTerm(m.id, t.term, tuple(cols[i] for i in t.forces),
+                                       np.array(t.block, dtype=float)))
     for j, c in enumerate(topo.columns):
         if c.kind == "reaction":
             r = topo.restraints[c.restraint_index]
@@ -131,37 +127,42 @@ def initial_deformation_terms(
 ) -> list[DeformationTerm]:
     """The initial deformations of one load case, member by member and effect by effect."""
     out: list[DeformationTerm] = []
-    ci = topo.column_index
-
-    def add(owner: str, effect: str, col: int | None, value: float) -> None:
-        if col is not None and value != 0.0:
-            out.append(DeformationTerm(owner, effect, col, float(value)))
-
     for m in st.members.values():
+        cols = member_columns(topo, m)
         L = st.length(m.id)
-        axial = ci[m.id] if m.kind == "bar" else ci[f"{m.id}.n"]
-        i_s, i_e = ci.get(f"{m.id}.start.m"), ci.get(f"{m.id}.end.m")
         pf = particulars.get(m.id)
-        if pf is not None:
-            br = pf.m.breaks
-            if m.EA is not None:
-                add(m.id, "span loads (axial)", axial, gauss_integral(br, pf.n) / m.EA)
-            if m.is_beam:
-                add(m.id, "span loads (bending)", i_s, gauss_integral(
-                    br, lambda x, L=L, pf=pf: (1 - x / L) * pf.m(x)) / m.EI)
-                add(m.id, "span loads (bending)", i_e, gauss_integral(
-                    br, lambda x, L=L, pf=pf: (x / L) * pf.m(x)) / m.EI)
-            if st.shear and m.GAs:
-                vint = gauss_integral(br, pf.v) / (L * m.GAs)
-                add(m.id, "span loads (shear)", i_s, -vint)
-                add(m.id, "span loads (shear)", i_e, vint)
-        if m.id in imposed:
-            eps, kappa, misfit = imposed[m.id]
-            add(m.id, "temperature (uniform)", axial, eps * L)
-            add(m.id, "misfit", axial, misfit)
-            add(m.id, "temperature (gradient)", i_s, kappa * L / 2)
-            add(m.id, "temperature (gradient)", i_e, kappa * L / 2)
+        integral = None if pf is None else _span_integral(pf, L)
+        for effect, i, value in kind_of(m).initial_deformations(
+                m, m, L, st.shear, integral, imposed.get(m.id), 1.0):
+            if value != 0.0:
+                out.append(DeformationTerm(m.id, effect, cols[i], float(value)))
     return out
+
+
+def _span_integral(pf: ParticularFields, L: float):
+    """``integral(f, weight)``: int_0^L weight(x) f0(x) dx of the span-load field ``f``
+    ("n", "v", "m"), ``weight`` a polynomial in x/L (evaluated as written, so that 1 - x/L
+    and x/L round as they always did) or a function of x; Gauss–Legendre on each piece,
+    exact for the polynomial fields of span loads."""
+    br = pf.m.breaks
+
+    def integral(f: str, weight) -> float:
+        field = getattr(pf, f)
+        if callable(weight):
+            return sum(integrate(lambda x: weight(x) * float(field(x)), float(a), float(b))
+                       for a, b in zip(br[:-1], br[1:], strict=True) if b > a)
+        if len(weight) == 1 and weight[0] == 1.0:
+            return gauss_integral(br, field)
+
+        def w(x):
+            acc = weight[-1]
+            for c in reversed(weight[:-1]):
+                acc = c + acc * x / L
+            return acc
+
+        return gauss_integral(br, lambda x: w(x) * field(x))
+
+    return integral
 
 
 def initial_deformations(

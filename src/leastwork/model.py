@@ -91,13 +91,11 @@ def rotational_nodes(members) -> set[str]:
     ``members`` is an iterable of :class:`Member`. At any other node (only bars or hinged
     beam ends) no moment can be resisted and no rotation is defined.
     """
+    from .elements import kind_of
+
     nodes: set[str] = set()
     for m in members:
-        if m.is_beam:
-            if not m.hinge_start:
-                nodes.add(m.start)
-            if not m.hinge_end:
-                nodes.add(m.end)
+        nodes.update(kind_of(m).rotation_nodes(m))
     return nodes
 
 
