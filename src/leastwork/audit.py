@@ -14,6 +14,7 @@ import math
 
 import numpy as np
 
+from .elements import column_of, kind_of
 from .energy import flexibility_terms, initial_deformation_terms
 from .errors import CaseError
 from .fields import gauss_integral
@@ -43,6 +44,11 @@ CAUTION = (
 )
 
 _SUP = str.maketrans("0123456789-", "⁰¹²³⁴⁵⁶⁷⁸⁹⁻")
+
+
+def _bends(m) -> bool:
+    """Whether member ``m``'s kind has a bending field (flexibility over EI)."""
+    return "m" in kind_of(m).section(m, m, False)
 
 
 def energy_terms(st: Structure) -> str:
@@ -366,11 +372,13 @@ class _Context:
             heads += [f"n{i + 1}·n{j + 1}·L/EA [{self.delta_label(i, j)}]"
                       for i, j in pairs]
             rows, tot = [], np.zeros(len(pairs))
+            axial_terms = {t.owner: t for t in self.terms if t.term == "axial"}
             for m in axial:
-                k = ci[m.id] if m.kind == "bar" else ci[f"{m.id}.n"]
+                k = ci[column_of(m, "axial")]
                 L = st.length(m.id)
                 n = [self.unit_state(k, i) for i in range(nr)]
-                prods = [self.delta_case(self.B[k, i] * self.B[k, j] * L / m.EA, i, j)
+                flex = float(axial_terms[m.id].block[0, 0])  # the kind's L/EA
+                prods = [self.delta_case(self.B[k, i] * self.B[k, j] * flex, i, j)
                          for i, j in pairs]
                 tot += prods
                 rows.append((m.id, u.conv(L, 0, 1), u.conv(m.EA, 1, 0), *n, *prods))
@@ -378,16 +386,15 @@ class _Context:
             blocks.append(Grid(f"Axial forces of the released structure {per} "
                                "(bars, and beams with an area)", tuple(heads), tuple(rows),
                                total=("total", "", "", *[""] * nr, *tot)))
-        beams = [m for m in st.members.values() if m.is_beam]
+        beams = [m for m in st.members.values() if _bends(m)]
         if nr and beams:
             rows = []
             for m in beams:
                 L = st.length(m.id)
                 polys = []
                 for i in range(nr):
-                    ms = self.B[ci[f"{m.id}.start.m"], i] if f"{m.id}.start.m" in ci else 0.0
-                    me = self.B[ci[f"{m.id}.end.m"], i] if f"{m.id}.end.m" in ci else 0.0
-                    coef = _scaled_poly([ms, (me - ms) / L], u.L, u.F ** (
+                    moment = self._unit_fields(m, i)["m"]
+                    coef = _scaled_poly([*moment, 0.0][:2], u.L, u.F ** (
                         1 - self.xdim[i][0]) * u.L ** (1 - self.xdim[i][1]))
                     polys.append(_poly_text(coef))
                 rows.append((m.id, u.conv(L, 0, 1), u.conv(m.EI, 1, 2), *polys))
@@ -408,6 +415,13 @@ class _Context:
         return Step(3, "Released structure under the loads; the unit self-stress states"
                     if self.local else "Released structure under the loads and unit redundants",
                     tuple(blocks))
+
+    def _unit_fields(self, m, i: int) -> dict:
+        """Section-force fields (coefficients in x) of member ``m`` in unit state ``i``, as
+        its kind gives them."""
+        kind, ci = kind_of(m), self.topo.column_index
+        values = [self.B[ci[bf.name], i] for bf in kind.basic_forces(m)]
+        return kind.force_fields(m, self.st.length(m.id), values, 0.0)
 
     def _pair_table(self, term: str, pattern: str, pairs) -> Grid:
         B = self.B
@@ -439,7 +453,7 @@ class _Context:
             heads += [f"∫ N0·n{i + 1} dx/EA [{self.load_label(i)}]" for i in range(nr)]
             rows, tot = [], np.zeros(nr)
             for m in axial:
-                k = ci[m.id] if m.kind == "bar" else ci[f"{m.id}.n"]
+                k = ci[column_of(m, "axial")]
                 vec = self._load_sources(res).get((m.id, "loads, axial"), np.zeros(nr))
                 vals = [self.load_term_case(float(vec[i]), i) for i in range(nr)]
                 tot += vals
@@ -447,25 +461,22 @@ class _Context:
             out.append(Grid(f"Load case {case}: axial forces of the released structure under "
                             "the loads", tuple(heads), tuple(rows),
                             total=("total", "", *tot) if nr else None))
-        beams = [m for m in st.members.values() if m.is_beam]
+        beams = [m for m in st.members.values() if _bends(m)]
         if beams:
             heads = ["beam", f"from [{u.lu}]", f"to [{u.lu}]", f"M0(x) [{u.label(1, 1)}]"]
             heads += [f"∫ M0·m{i + 1} dx/EI [{self.load_label(i)}]" for i in range(nr)]
             rows, tot = [], np.zeros(nr)
             for m in beams:
                 mr0 = member_result(st, topo, m.id, self.s0[case], res.loading.particulars.get(m.id))
-                L = st.length(m.id)
-                unit = []
-                for i in range(nr):
-                    ms = self.B[ci[f"{m.id}.start.m"], i] if f"{m.id}.start.m" in ci else 0.0
-                    me = self.B[ci[f"{m.id}.end.m"], i] if f"{m.id}.end.m" in ci else 0.0
-                    unit.append((ms, me))
+                unit = [self._unit_fields(m, i)["m"] for i in range(nr)]
+                EI = kind_of(m).section(m, m, st.shear)["m"]
                 for a, b, coef in mr0.m.pieces():
                     vals = []
-                    for i, (ms, me) in enumerate(unit):
-                        f = gauss_integral(np.array([a, b]), lambda x, c=coef, ms=ms, me=me, L=L: (
-                            np.polynomial.polynomial.polyval(x, c) * (ms + (me - ms) * x / L)))
-                        vals.append(self.load_term_case(f / m.EI, i))
+                    for i, mi in enumerate(unit):
+                        f = gauss_integral(np.array([a, b]), lambda x, c=coef, mi=mi: (
+                            np.polynomial.polynomial.polyval(x, c)
+                            * np.polynomial.polynomial.polyval(x, mi)))
+                        vals.append(self.load_term_case(f / EI, i))
                     tot += vals
                     rows.append((m.id, u.conv(a, 0, 1), u.conv(b, 0, 1),
                                  _poly_text(_scaled_poly(coef, u.L, u.F * u.L)), *vals))

@@ -8,6 +8,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from .elements import kind_of
 from .fields import Piecewise, gauss_integral
 from .model import DistributedLoad, NodalLoad, PointLoad, Structure, reaction_components
 
@@ -43,18 +44,15 @@ def member_result(st: Structure, topo, mid: str, s: np.ndarray, pf) -> MemberRes
     m = st.members[mid]
     L = st.length(mid)
     ci = topo.column_index
-    N = s[ci[mid] if m.kind == "bar" else ci[f"{mid}.n"]]
-    ms = s[ci[f"{mid}.start.m"]] if f"{mid}.start.m" in ci else 0.0
-    me = s[ci[f"{mid}.end.m"]] if f"{mid}.end.m" in ci else 0.0
+    kind = kind_of(m)
+    fields = kind.force_fields(m, L, [s[ci[bf.name]] for bf in kind.basic_forces(m)], 0.0)
     if pf is None:
-        return _unloaded_member_result(mid, L, float(N), float(ms), float(me))
-    else:
-        breaks = pf.m.breaks
-        cn, cv, cm = pf.n.coef.copy(), pf.v.coef.copy(), pf.m.coef.copy()
-    cn[:, 0] += N
-    cm[:, 0] += ms
-    cm[:, 1] += (me - ms) / L
-    cv[:, 0] += (me - ms) / L
+        return _unloaded_member_result(mid, L, fields)
+    cn, cv, cm = pf.n.coef.copy(), pf.v.coef.copy(), pf.m.coef.copy()
+    for coef, f in ((cn, "n"), (cm, "m"), (cv, "v")):
+        for k, value in enumerate(fields.get(f, ())):
+            coef[:, k] += value
+    breaks = pf.m.breaks
     n, v, mm = Piecewise(breaks, cn), Piecewise(breaks, cv), Piecewise(breaks, cm)
     start = (float(n(0.0)), float(v(0.0)), float(mm(0.0)))
     end = (float(n(L, "left")), float(v(L, "left")), float(mm(L, "left")))
@@ -62,19 +60,22 @@ def member_result(st: Structure, topo, mid: str, s: np.ndarray, pf) -> MemberRes
     return MemberResult(mid, L, n, v, mm, start, end, m_max, m_min)
 
 
-def _unloaded_member_result(mid: str, L: float, N: float, ms: float, me: float) -> MemberResult:
+def _unloaded_member_result(mid: str, L: float, fields: dict) -> MemberResult:
     """:func:`member_result` of a member without span loads (constant n and v, linear m),
     without evaluating piecewise polynomials: the same numbers, faster (large structures)."""
-    slope = (me - ms) / L
+    N = float(fields["n"][0])
+    m = [*fields.get("m", ()), 0.0, 0.0]
+    ms, slope = float(m[0]), float(m[1])
+    shear = float(fields.get("v", [0.0])[0])
     coef = np.zeros((3, 1, 6))
     coef[0, 0, 0] = N
-    coef[1, 0, 0] = slope
+    coef[1, 0, 0] = shear
     coef[2, 0, 0] = ms
     coef[2, 0, 1] = slope
     breaks = np.array([0.0, L])
     n, v, mm = (Piecewise(breaks, coef[i]) for i in range(3))
     m_end = ms + slope * L  # as the polynomial evaluates it
-    start, end = (N, slope, ms), (N, slope, m_end)
+    start, end = (N, shear, ms), (N, shear, m_end)
     tol = max(1e-12 * max(abs(ms), abs(m_end)), 1e-9)
     top, bottom = max(ms, m_end), min(ms, m_end)
     m_max = (ms, 0.0) if ms >= top - tol else (m_end, L)

@@ -14,13 +14,16 @@ from .base import (
     EnergyTerm,
     KindBase,
     MemberKind,
+    carries_span_loads,
     column_of,
     generic_flexibility,
     generic_initial,
     integrate,
     kind_of,
+    poly_eval,
     register,
 )
 
-__all__ = ["MEMBER_KINDS", "BasicForce", "EnergyTerm", "KindBase", "MemberKind", "column_of",
-           "generic_flexibility", "generic_initial", "integrate", "kind_of", "register"]
+__all__ = ["MEMBER_KINDS", "BasicForce", "EnergyTerm", "KindBase", "MemberKind",
+           "carries_span_loads", "column_of", "generic_flexibility", "generic_initial",
+           "integrate", "kind_of", "poly_eval", "register"]

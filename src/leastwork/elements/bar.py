@@ -56,15 +56,9 @@ class Bar(KindBase):
             out.append(("misfit", 0, misfit))
         return out
 
-    def strains(self, m, sec, L, shear: bool, imposed) -> dict:
+    def free_strains(self, m, sec, L, imposed) -> dict[str, list]:
         eps, _, misfit = imposed
-
-        def axial(coef: list) -> list:
-            out = [c / sec.EA for c in coef] if sec.EA is not None else [0.0]
-            out[0] = out[0] + (eps + misfit / L)
-            return out
-
-        return {"n": axial}
+        return {"n": [eps, misfit / L]}
 
 
 BAR = register(Bar())

@@ -11,8 +11,9 @@ A *member kind* (a bar, a beam, ...) owns every formula about its members:
 * the **section flexibility** along the axis per field (:meth:`MemberKind.section`:
   EA for n, EI for m, GAs for v; room for GJ of a torsion field);
 * the **initial deformations** conjugate to its basic forces under span loads, temperature
-  and misfit (:meth:`MemberKind.initial_deformations`), and its **strains** for the
-  deflected shape (:meth:`MemberKind.strains`).
+  and misfit (:meth:`MemberKind.initial_deformations`), and its **free strains** for the
+  deflected shape (:meth:`MemberKind.free_strains`; the elastic strains are the fields
+  over the section).
 
 The formulas use only ``+ - * /`` on the numbers given (floats, or the exact field elements
 of :mod:`leastwork.symbolic.algebra`) and on polynomial coefficient lists (ascending powers
@@ -48,6 +49,8 @@ __all__ = [
     "register",
     "kind_of",
     "column_of",
+    "carries_span_loads",
+    "poly_eval",
     "TERM_OF_FIELD",
     "QUAD_RTOL",
     "generic_flexibility",
@@ -99,6 +102,8 @@ class MemberKind(Protocol):
     """
 
     name: str
+    #: loads may act inside the span (the kind has particular fields for them)
+    takes_span_loads: bool
 
     def basic_forces(self, m) -> tuple[BasicForce, ...]: ...
 
@@ -118,7 +123,7 @@ class MemberKind(Protocol):
     def initial_deformations(self, m, sec, L, shear: bool, integral, imposed,
                              one) -> list[tuple[str, int, Any]]: ...
 
-    def strains(self, m, sec, L, shear: bool, imposed) -> dict[str, Callable]: ...
+    def free_strains(self, m, sec, L, imposed) -> dict[str, list]: ...
 
 
 class KindBase:
@@ -126,6 +131,7 @@ class KindBase:
     :meth:`basic_forces`, :meth:`unit_fields` and :meth:`section`."""
 
     name = "?"
+    takes_span_loads = False
 
     def basic_forces(self, m) -> tuple[BasicForce, ...]:
         raise NotImplementedError
@@ -164,15 +170,12 @@ class KindBase:
                              one) -> list[tuple[str, int, Any]]:
         return generic_initial(self, m, sec, L, shear, integral, imposed, one)
 
-    def strains(self, m, sec, L, shear: bool, imposed) -> dict[str, Callable]:
-        """Strain per field as a function of that field's coefficient list: ``n`` axial
-        strain, ``m`` curvature (sagging positive), ``v`` shear strain; fields absent
-        have no strain."""
-        out = {}
-        for f, K in self.section(m, sec, shear).items():
-            if K is not None and not callable(K):
-                out[f] = lambda coef, K=K: [c / K for c in coef]
-        return out
+    def free_strains(self, m, sec, L, imposed) -> dict[str, list]:
+        """Strains free of stress per field, as terms to add (in this order): ``n`` the
+        axial strain, ``m`` the curvature (sagging positive), from ``imposed`` =
+        (alpha dT, alpha dTgrad/h, misfit); uniform along the member."""
+        eps, kappa, misfit = imposed
+        return {"n": [eps, misfit / L], "m": [kappa]}
 
 
 MEMBER_KINDS: dict[str, MemberKind] = {}
@@ -187,6 +190,11 @@ def register(kind: MemberKind) -> MemberKind:
 def kind_of(m) -> MemberKind:
     """The kind of member ``m``."""
     return MEMBER_KINDS[m.kind]
+
+
+def carries_span_loads(m) -> bool:
+    """Whether loads may act inside the span of member ``m``."""
+    return kind_of(m).takes_span_loads
 
 
 def column_of(m, role: str) -> str | None:

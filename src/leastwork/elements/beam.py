@@ -25,6 +25,7 @@ class Beam(KindBase):
     """Bending member with axial force (EA may be None: axially rigid) and shear (GAs)."""
 
     name = "beam"
+    takes_span_loads = True
 
     def basic_forces(self, m) -> tuple[BasicForce, ...]:
         out = [BasicForce(f"{m.id}.n", "axial")]
@@ -117,23 +118,9 @@ class Beam(KindBase):
                 out.append(("temperature (gradient)", index[k], kappa * L / 2))
         return out
 
-    def strains(self, m, sec, L, shear: bool, imposed) -> dict:
+    def free_strains(self, m, sec, L, imposed) -> dict[str, list]:
         eps, kappa, misfit = imposed
-
-        def axial(coef: list) -> list:
-            out = [c / sec.EA for c in coef] if sec.EA is not None else [0.0]
-            out[0] = out[0] + (eps + misfit / L)
-            return out
-
-        def curvature(coef: list) -> list:
-            out = [c / sec.EI for c in coef]
-            out[0] = out[0] + kappa
-            return out
-
-        out = {"n": axial, "m": curvature}
-        if shear and sec.GAs:
-            out["v"] = lambda coef: [c / sec.GAs for c in coef]
-        return out
+        return {"n": [eps, misfit / L], "m": [kappa]}
 
 
 BEAM = register(Beam())
