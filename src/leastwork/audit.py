@@ -18,15 +18,8 @@ from .elements import column_of, kind_of
 from .energy import flexibility_terms, initial_deformation_terms
 from .errors import CaseError
 from .fields import gauss_integral
-from .model import (
-    DistributedLoad,
-    Misfit,
-    NodalLoad,
-    PointLoad,
-    Settlement,
-    Structure,
-    TemperatureLoad,
-)
+from .loadkinds import load_kind
+from .model import Structure
 from .sheet import Formula, Grid, Para, Sheet, Step, fmt
 from .solution import member_result
 from .solve import CONDITION_WARN
@@ -803,39 +796,6 @@ def _virtual_state(st, topo, res, target: str):
 
 
 def _load_row(st: Structure, u: _Units, ld) -> tuple[str, str, str, str]:
-    """(case, kind, on, values) of one load, in case units."""
-    fu, lu, mu = u.fu, u.lu, u.label(1, 1)
-
-    def forces(fx, fy, mz):
-        parts = [f"{k} = {fmt(u.conv(v, *d))} {lab}" for k, v, d, lab in
-                 (("fx", fx, (1, 0), fu), ("fy", fy, (1, 0), fu), ("mz", mz, (1, 1), mu)) if v]
-        return ", ".join(parts) or "0"
-
-    if isinstance(ld, NodalLoad):
-        return ld.case, "nodal load", ld.node, forces(ld.fx, ld.fy, ld.mz)
-    if isinstance(ld, PointLoad):
-        return (ld.case, "point load", f"{ld.member} at {fmt(u.conv(ld.at, 0, 1))} {lu}",
-                forces(ld.fx, ld.fy, ld.mz))
-    if isinstance(ld, DistributedLoad):
-        L = st.length(ld.member)
-        b = L if math.isnan(ld.end) else ld.end
-        parts = []
-        for k, pair in (("wx", ld.wx), ("wy", ld.wy)):
-            if any(pair):
-                a0, a1 = (fmt(u.conv(v, 1, -1)) for v in pair)
-                parts.append(f"{k} = {a0}" + ("" if pair[0] == pair[1] else f" to {a1}")
-                             + f" {u.label(1, -1)}")
-        return (ld.case, "distributed load",
-                f"{ld.member} from {fmt(u.conv(ld.start, 0, 1))} to {fmt(u.conv(b, 0, 1))} {lu}",
-                ", ".join(parts) or "0")
-    if isinstance(ld, TemperatureLoad):
-        return (ld.case, "temperature", ld.member,
-                f"uniform {fmt(ld.uniform)} K, gradient {fmt(ld.gradient)} K")
-    if isinstance(ld, Misfit):
-        return ld.case, "misfit", ld.member, f"{fmt(u.conv(ld.elongation, 0, 1))} {lu}"
-    if isinstance(ld, Settlement):
-        vals = ", ".join(f"d{d} = " + (f"{fmt(v)} rad" if d == "rz" else
-                                                    f"{fmt(u.conv(v, 0, 1))} {lu}")
-                         for d, v in ld.values)
-        return ld.case, "settlement", ld.node, vals
-    return ld.case, type(ld).__name__, "", ""  # pragma: no cover
+    """(case, kind, on, values) of one load, in case units, as its kind describes it."""
+    kind = load_kind(ld)
+    return (ld.case, kind.words, *kind.describe(st, u, ld))

@@ -25,7 +25,7 @@ import numpy as np
 from .elements import kind_of
 from .elements.base import integrate
 from .fields import ParticularFields, gauss_integral
-from .model import Misfit, Structure, TemperatureLoad
+from .model import Structure
 from .topology import Topology
 
 __all__ = [
@@ -35,7 +35,6 @@ __all__ = [
     "flexibility_blocks",
     "initial_deformation_terms",
     "initial_deformations",
-    "thermal_strains",
 ]
 
 
@@ -84,25 +83,6 @@ def flexibility_blocks(st: Structure, topo: Topology) -> np.ndarray:
     for t in flexibility_terms(st, topo):
         F[np.ix_(t.columns, t.columns)] += t.block
     return F
-
-
-def thermal_strains(st: Structure, loads) -> dict[str, tuple[float, float, float]]:
-    """Per member: (free axial strain alpha*dT, free curvature alpha*dTgrad/h, misfit e).
-
-    The curvature is positive in the sense of a sagging moment (local -y face longer).
-    """
-    out: dict[str, list[float]] = {}
-    for load in loads:
-        if isinstance(load, TemperatureLoad):
-            m = st.members[load.member]
-            acc = out.setdefault(m.id, [0.0, 0.0, 0.0])
-            acc[0] += (m.alpha or 0.0) * load.uniform
-            if load.gradient:
-                acc[1] += (m.alpha or 0.0) * load.gradient / m.depth
-        elif isinstance(load, Misfit):
-            acc = out.setdefault(load.member, [0.0, 0.0, 0.0])
-            acc[2] += load.elongation
-    return {k: (v[0], v[1], v[2]) for k, v in out.items()}
 
 
 @dataclass(frozen=True)

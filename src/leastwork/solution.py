@@ -9,8 +9,9 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from .elements import kind_of
-from .fields import Piecewise, gauss_integral
-from .model import DistributedLoad, NodalLoad, PointLoad, Structure, reaction_components
+from .fields import Piecewise
+from .loadkinds import load_kind
+from .model import Structure, reaction_components
 
 __all__ = ["MemberResult", "CaseResult", "Solution", "EQUILIBRIUM_RTOL", "member_result"]
 
@@ -164,40 +165,16 @@ def _equilibrium(st: Structure, topo, loading, members, reactions) -> tuple[floa
     # overall equilibrium of the whole structure from the loads as given
     total = np.zeros(3)
     for ld in loading.loads:
-        if isinstance(ld, NodalLoad):
-            nd = st.nodes[ld.node]
-            total += [ld.fx, ld.fy, ld.mz + nd.x * ld.fy - nd.y * ld.fx]
-        elif isinstance(ld, PointLoad):
-            x, y = _point_on(st, ld.member, ld.at)
-            total += [ld.fx, ld.fy, ld.mz + x * ld.fy - y * ld.fx]
-        elif isinstance(ld, DistributedLoad):
-            L = st.length(ld.member)
-            a, b = ld.start, (L if np.isnan(ld.end) else ld.end)
-            c, s = st.direction(ld.member)
-            o = st.nodes[st.members[ld.member].start]
-
-            def w(xi, pair, a=a, b=b):
-                return pair[0] + (pair[1] - pair[0]) * (xi - a) / (b - a)
-
-            brk = np.array([a, b])
-            fx = gauss_integral(brk, lambda xi, ld=ld, w=w: w(xi, ld.wx))
-            fy = gauss_integral(brk, lambda xi, ld=ld, w=w: w(xi, ld.wy))
-            mz = gauss_integral(brk, lambda xi, ld=ld, w=w, o=o, c=c, s=s: (o.x + xi * c)
-                                * w(xi, ld.wy) - (o.y + xi * s) * w(xi, ld.wx))
-            total += [fx, fy, mz]
-            scale = max(scale, abs(fx), abs(fy))
+        r = load_kind(ld).resultant(st, ld)
+        if r is not None:
+            total += r[:3]
+            scale = max(scale, r[3])
     for nid, rs in reactions.items():
         nd = st.nodes[nid]
         rx, ry = rs.get("x", 0.0), rs.get("y", 0.0)
         total += [rx, ry, rs.get("rz", 0.0) + nd.x * ry - nd.y * rx]
     worst = max(worst, abs(total[0]), abs(total[1]), abs(total[2]) / lref)
     return worst, scale
-
-
-def _point_on(st: Structure, mid: str, at: float) -> tuple[float, float]:
-    a = st.nodes[st.members[mid].start]
-    c, s = st.direction(mid)
-    return a.x + at * c, a.y + at * s
 
 
 @dataclass

@@ -24,15 +24,8 @@ import sympy
 from sympy import Rational
 
 from ..errors import CaseError
-from ..model import (
-    DistributedLoad,
-    Misfit,
-    NodalLoad,
-    PointLoad,
-    Settlement,
-    Structure,
-    TemperatureLoad,
-)
+from ..loadkinds import load_kind
+from ..model import Structure
 from ..units import DIMENSIONS, UnitSystem, ureg
 
 __all__ = ["ExactModel", "read_exact", "exact_number", "exact_factor", "case_factor"]
@@ -388,34 +381,8 @@ def read_exact(st: Structure, record, *, expand_derived: bool = False) -> ExactM
 
 
 def _exact_load(ld, w: str, get, fields) -> dict[str, Any]:
-    if isinstance(ld, NodalLoad):
-        return {"fx": get(f"{w}.fx", ld.fx, "force"), "fy": get(f"{w}.fy", ld.fy, "force"),
-                "mz": get(f"{w}.mz", ld.mz, "moment")}
-    if isinstance(ld, PointLoad):
-        return {"at": get(f"{w}.at", None, "length"), "fx": get(f"{w}.fx", ld.fx, "force"),
-                "fy": get(f"{w}.fy", ld.fy, "force"), "mz": get(f"{w}.mz", ld.mz, "moment")}
-    if isinstance(ld, DistributedLoad):
-        out: dict[str, Any] = {"start": get(f"{w}.from", None, "length"),
-                               "end": get(f"{w}.to", None, "length")
-                               if f"{w}.to" in fields else None}
-        for key, pair in (("wx", ld.wx), ("wy", ld.wy)):
-            if f"{w}.{key}" in fields:
-                v = get(f"{w}.{key}", pair[0], "force/length")
-                out[key] = (v, v)
-            else:
-                out[key] = (get(f"{w}.{key}[0]", pair[0], "force/length"),
-                            get(f"{w}.{key}[1]", pair[1], "force/length"))
-        return out
-    if isinstance(ld, TemperatureLoad):
-        return {"uniform": get(f"{w}.temperature.uniform", ld.uniform, "temperature difference"),
-                "gradient": get(f"{w}.temperature.gradient", ld.gradient,
-                                "temperature difference")}
-    if isinstance(ld, Misfit):
-        return {"elongation": get(f"{w}.misfit", ld.elongation, "length")}
-    if isinstance(ld, Settlement):
-        return {"values": [(d, get(f"{w}.d{d}", v, "angle" if d == "rz" else "length"))
-                           for d, v in ld.values]}
-    raise RuntimeError(f"unknown load {ld!r}")
+    """The exact values of one load (case units), as its kind reads them."""
+    return load_kind(ld).exact(ld, w, get, fields)
 
 
 def _agree(expr: sympy.Expr, si: float, dimension: str, where: str, values, units) -> None:

@@ -35,15 +35,8 @@ import sympy
 
 from ..elements import kind_of
 from ..errors import CaseError
-from ..model import (
-    DistributedLoad,
-    Misfit,
-    NodalLoad,
-    PointLoad,
-    Settlement,
-    Structure,
-    TemperatureLoad,
-)
+from ..loadkinds import load_kind
+from ..model import Structure
 from .algebra import (
     Algebra,
     Atomizer,
@@ -388,67 +381,13 @@ class _Pipeline:
                        start, end)
 
     def _loading(self, case: str) -> dict[str, Any]:
-        st, topo, alg = self.st, self.topo, self.alg
-        di = topo.dof_index
-        p = [self.zero] * self.ndof
-        nodal: list[tuple[str, Any, Any, Any]] = []
-        point: dict[str, list] = {}
-        dist: dict[str, list] = {}
-        imposed: dict[str, list] = {}
-        c = [self.zero] * self.ncol
-
-        def add_nodal(node, fx, fy, mz):
-            p[di[f"{node}.x"]] += fx
-            p[di[f"{node}.y"]] += fy
-            if mz:
-                key = f"{node}.rz"
-                if key not in di:
-                    raise CaseError(f"a moment is applied at node {node}, where every member "
-                                    "end is hinged: nothing resists it (a mechanism)",
-                                    source=st.source)
-                p[di[key]] += mz
-
+        st = self.st
+        sink = _Sink(self)
         for ld, x in zip(st.loads, self.model.loads):
-            if ld.case != case:
-                continue
-            if isinstance(ld, NodalLoad):
-                f = (alg.el(x["fx"]), alg.el(x["fy"]), alg.el(x["mz"]))
-                add_nodal(ld.node, *f)
-                nodal.append((ld.node, *f))
-            elif isinstance(ld, PointLoad):
-                m = st.members[ld.member]
-                L = self.mem[m.id].L
-                at = alg.el(x["at"])
-                f = (alg.el(x["fx"]), alg.el(x["fy"]), alg.el(x["mz"]))
-                if at == self.zero or at == L:
-                    node = m.start if at == self.zero else m.end
-                    add_nodal(node, *f)
-                    nodal.append((node, *f))
-                else:
-                    point.setdefault(m.id, []).append((at, *f))
-            elif isinstance(ld, DistributedLoad):
-                L = self.mem[ld.member].L
-                a = alg.el(x["start"])
-                b = alg.el(x["end"]) if x["end"] is not None else L
-                dist.setdefault(ld.member, []).append(
-                    (a, b, (alg.el(x["wx"][0]), alg.el(x["wx"][1])),
-                     (alg.el(x["wy"][0]), alg.el(x["wy"][1]))))
-            elif isinstance(ld, TemperatureLoad):
-                g = self.mem[ld.member]
-                acc = imposed.setdefault(ld.member, [self.zero] * 3)
-                alpha = g.alpha if g.alpha is not None else self.zero
-                acc[0] += alpha * alg.el(x["uniform"])
-                grad = alg.el(x["gradient"])
-                if grad:
-                    acc[1] += alpha * grad / g.depth
-            elif isinstance(ld, Misfit):
-                acc = imposed.setdefault(ld.member, [self.zero] * 3)
-                acc[2] += alg.el(x["elongation"])
-            elif isinstance(ld, Settlement):
-                for d, v in x["values"]:
-                    name = f"{ld.node}.{d}"
-                    if name in topo.column_index:
-                        c[topo.column_index[name]] += alg.el(v)
+            if ld.case == case:
+                load_kind(ld).apply(_exact_values(self.alg, x), ld, sink)
+        p, nodal, point, dist = sink.p, sink.nodal, sink.point, sink.dist
+        imposed, c, add_nodal = sink.imposed, sink.c, sink.add_nodal
         parts: dict[str, _Fields] = {}
         for mid in dict.fromkeys([*point, *dist]):
             self.tick()
@@ -838,6 +777,75 @@ class _Pipeline:
                     inner = padd(inner, (e,))
                 value += pintegral(pmul(pu, inner), x0, x1)
         return value
+
+
+class _Sink:
+    """The effects of one load case's loads in exact numbers (a
+    :class:`leastwork.loadkinds.LoadSink`)."""
+
+    def __init__(self, pipe: _Pipeline):
+        self.pipe = pipe
+        self.zero = pipe.zero
+        self.p = [pipe.zero] * pipe.ndof
+        self.c = [pipe.zero] * pipe.ncol
+        self.nodal: list[tuple[str, Any, Any, Any]] = []
+        self.point: dict[str, list] = {}
+        self.dist: dict[str, list] = {}
+        self.imposed: dict[str, list] = {}
+
+    def section(self, member: str) -> _Member:
+        return self.pipe.mem[member]
+
+    def add_nodal(self, node, fx, fy, mz) -> None:
+        di = self.pipe.topo.dof_index
+        self.p[di[f"{node}.x"]] += fx
+        self.p[di[f"{node}.y"]] += fy
+        if mz:
+            key = f"{node}.rz"
+            if key not in di:
+                raise CaseError(f"a moment is applied at node {node}, where every member "
+                                "end is hinged: nothing resists it (a mechanism)",
+                                source=self.pipe.st.source)
+            self.p[di[key]] += mz
+
+    def node_force(self, node: str, fx, fy, mz) -> None:
+        self.add_nodal(node, fx, fy, mz)
+        self.nodal.append((node, fx, fy, mz))
+
+    def member_point(self, member: str, at, fx, fy, mz) -> None:
+        m = self.pipe.st.members[member]
+        L = self.pipe.mem[member].L
+        if at == self.zero or at == L:
+            self.node_force(m.start if at == self.zero else m.end, fx, fy, mz)
+        else:
+            self.point.setdefault(member, []).append((at, fx, fy, mz))
+
+    def member_distributed(self, member: str, start, end, wx, wy) -> None:
+        end = self.pipe.mem[member].L if end is None else end
+        self.dist.setdefault(member, []).append((start, end, tuple(wx), tuple(wy)))
+
+    def member_strain(self, member: str, eps, kappa, misfit) -> None:
+        acc = self.imposed.setdefault(member, [self.zero] * 3)
+        for i, v in enumerate((eps, kappa, misfit)):
+            if v:
+                acc[i] += v
+
+    def settlement(self, node: str, direction: str, value) -> None:
+        ci = self.pipe.topo.column_index
+        name = f"{node}.{direction}"
+        if name in ci:
+            self.c[ci[name]] += value
+
+
+def _exact_values(alg: Algebra, v):
+    """A load's exact values (sympy) as elements of K; names and None kept."""
+    if v is None or isinstance(v, str):
+        return v
+    if isinstance(v, dict):
+        return {k: _exact_values(alg, x) for k, x in v.items()}
+    if isinstance(v, (list, tuple)):
+        return type(v)(_exact_values(alg, x) for x in v)
+    return alg.el(v)
 
 
 def _line(a, b, f0, f1) -> tuple:
