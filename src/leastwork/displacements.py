@@ -22,7 +22,7 @@ from numpy.polynomial import polynomial as P
 
 from .elements import kind_of
 from .errors import CaseError
-from .fields import gauss_integral, particular_fields
+from .fields import gauss_integral
 from .model import Structure
 
 __all__ = ["Target", "parse_target", "evaluate_target", "member_shape", "deflection_extreme"]
@@ -121,7 +121,7 @@ def member_point_displacement(st: Structure, topo, res, mid: str, at: float,
         p[di[f"{node}.x"]] += fx
         p[di[f"{node}.y"]] += fy
     else:
-        pf = particular_fields(L, st.direction(mid), [(at, fx, fy, 0.0)], [])
+        pf = kind_of(mem).particular(mem, L, st.direction(mid), [(at, fx, fy, 0.0)], [])
         p[di[f"{mem.start}.x"]] += pf.start_force[0]
         p[di[f"{mem.start}.y"]] += pf.start_force[1]
         p[di[f"{mem.end}.x"]] += pf.end_force[0]

@@ -3,14 +3,14 @@
 For basic forces s (see :mod:`leastwork.topology`) the complementary energy is
 ``U = 1/2 s.F.s + s.e + (terms without s)``, with
 
-* F, the block-diagonal flexibility of the unassembled members and springs:
-  bar or beam axial force ``L/EA``; beam end moments ``L/(3EI)`` on the diagonal and
-  ``L/(6EI)`` off it (from integrating the linear moment diagram against itself), plus
-  ``1/(L GAs)`` times [[1, -1], [-1, 1]] for shear energy when asked; a spring ``1/k``;
-* e, the *initial deformations* conjugate to each basic force: the span-load fields of the
-  simply supported member (``int n0/EA``, ``int (1-x/L) m0/EI``, ``int (x/L) m0/EI``),
-  free thermal strain ``alpha dT L`` and curvature ``alpha dTgrad/h`` (giving ``kappa L/2`` at
-  each end moment), and misfit ``e`` on the axial force.
+* F, the block-diagonal flexibility of the unassembled members and springs: each member's
+  blocks as its kind gives them (:meth:`leastwork.elements.MemberKind.flexibility`; for a
+  bar or beam ``L/EA``, ``L/(3EI)`` and ``L/(6EI)``, ``1/(L GAs)`` [[1, -1], [-1, 1]] for
+  shear when asked); a spring ``1/k``;
+* e, the *initial deformations* conjugate to each basic force, from the member's kind
+  (:meth:`leastwork.elements.MemberKind.initial_deformations`): the span-load fields of its
+  determinate analogue integrated against its unit fields, free thermal strain and
+  curvature, and misfit.
 
 Castigliano's second theorem (Menabrea's least-work theorem) on these terms gives the
 compatibility equations; see :mod:`leastwork.solve`.

@@ -34,7 +34,7 @@ import numpy as np
 from .elements import carries_span_loads, column_of, kind_of, poly_eval
 from .energy import initial_deformation_terms
 from .errors import CaseError
-from .fields import ParticularFields, particular_fields
+from .fields import ParticularFields
 from .model import Structure
 
 __all__ = [
@@ -284,7 +284,8 @@ def point_loading(st: Structure, topo, points: Sequence[LoadPoint], load: float)
             P[di[f"{mem.start}.y"], i] -= load * (1.0 - pt.at / L)
             P[di[f"{mem.end}.y"], i] -= load * pt.at / L
         else:
-            pf = particular_fields(L, st.direction(pt.member), [(pt.at, 0.0, -load, 0.0)], [])
+            pf = kind_of(mem).particular(mem, L, st.direction(pt.member),
+                                         [(pt.at, 0.0, -load, 0.0)], [])
             for node, f in ((mem.start, pf.start_force), (mem.end, pf.end_force)):
                 P[di[f"{node}.x"], i] += f[0]
                 P[di[f"{node}.y"], i] += f[1]

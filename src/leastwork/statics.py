@@ -13,8 +13,9 @@ from dataclasses import dataclass
 import numpy as np
 from scipy.linalg import lu_factor, lu_solve
 
+from .elements import kind_of
 from .errors import MechanismError
-from .fields import ParticularFields, particular_fields
+from .fields import ParticularFields
 from .loadkinds import load_kind
 from .model import NodalLoad, Structure
 from .topology import Topology
@@ -47,8 +48,8 @@ def case_loading(st: Structure, topo: Topology, case: str) -> CaseLoading:
     particulars: dict[str, ParticularFields] = {}
     for mid in dict.fromkeys([*sink.point, *sink.dist]):
         m = st.members[mid]
-        pf = particular_fields(st.length(mid), st.direction(mid), sink.point.get(mid, []),
-                               sink.dist.get(mid, []))
+        pf = kind_of(m).particular(m, st.length(mid), st.direction(mid),
+                                   sink.point.get(mid, []), sink.dist.get(mid, []))
         particulars[mid] = pf
         sink.add_nodal(m.start, *pf.start_force, 0.0)
         sink.add_nodal(m.end, *pf.end_force, 0.0)

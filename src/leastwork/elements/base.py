@@ -8,6 +8,8 @@ A *member kind* (a bar, a beam, ...) owns every formula about its members:
   (:meth:`MemberKind.equilibrium`), ``A s + p = 0``;
 * the **section-force fields** n, v, m along the axis for a unit value of each basic force
   (:meth:`MemberKind.unit_fields`) and for given values (:meth:`MemberKind.force_fields`);
+* the **particular fields** of span loads on its determinate analogue
+  (:meth:`MemberKind.particular`);
 * the **section flexibility** along the axis per field (:meth:`MemberKind.section`:
   EA for n, EI for m, GAs for v; room for GJ of a torsion field);
 * the **initial deformations** conjugate to its basic forces under span loads, temperature
@@ -116,6 +118,8 @@ class MemberKind(Protocol):
 
     def force_fields(self, m, L, values: Sequence, zero) -> dict[str, Poly]: ...
 
+    def particular(self, m, L, direction, point_loads, dist_loads): ...
+
     def section(self, m, sec, shear: bool) -> dict[str, Any]: ...
 
     def flexibility(self, m, sec, L, shear: bool, one) -> list[EnergyTerm]: ...
@@ -159,6 +163,15 @@ class KindBase:
                     power = power * L
                 out[f] = poly_add(out.get(f, [zero]), scaled)
         return out
+
+    def particular(self, m, L, direction, point_loads, dist_loads):
+        """Fields of span loads on the member's statically determinate analogue and the
+        forces it passes to its nodes (:class:`leastwork.fields.ParticularFields`): by
+        default the straight member pinned at the start and on a roller along its axis at
+        the end (:func:`leastwork.fields.particular_fields`, floats)."""
+        from ..fields import particular_fields
+
+        return particular_fields(L, direction, point_loads, dist_loads)
 
     def section(self, m, sec, shear: bool) -> dict[str, Any]:
         raise NotImplementedError
