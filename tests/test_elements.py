@@ -184,3 +184,55 @@ def test_soft_bar_kind_shares_a_load_by_its_flexibility(kinds):
     f_ab, f_bc = 2 * math.log(2) * L / EA, L / EA
     n_ab = sol.cases["default"].members["AB"].start[0]
     assert abs(n_ab) == pytest.approx(P * f_bc / (f_ab + f_bc), rel=1e-11)
+
+
+# ------------------------------------------------------------------ a load kind defined here
+def test_every_load_dataclass_has_a_kind():
+    """The registry covers every member of the Load union (invariant of the design)."""
+    import typing
+
+    from leastwork.loadkinds import LOAD_KINDS
+    from leastwork.model import Load
+
+    assert set(typing.get_args(Load)) <= set(LOAD_KINDS)
+
+
+def test_a_load_kind_defined_here_acts_through_the_registry():
+    """A free shortening d of a bar held between two fixed supports (a load kind defined
+    only in this test) makes the tension N = EA d / L (derived by least work: the bar's
+    elongation N L/EA - d must vanish); the same as a misfit of -d."""
+    from dataclasses import dataclass, replace
+
+    from leastwork.loadkinds import LOAD_KINDS, LoadKind, register_load
+
+    @dataclass(frozen=True)
+    class Shortening:
+        member: str
+        value: float
+        case: str = "default"
+
+        def scaled(self, f, case):
+            return replace(self, value=f * self.value, case=case)
+
+    register_load(LoadKind(
+        "shortening", Shortening,
+        values=lambda ld: {"value": ld.value},
+        exact=lambda ld, w, get, fields: {"value": get(f"{w}.value", ld.value, "length")},
+        apply=lambda v, ld, sink: sink.member_strain(ld.member, sink.zero, sink.zero,
+                                                     -v["value"]),
+        resultant=lambda st, ld: None,
+        describe=lambda st, u, ld: (ld.member, f"{ld.value:g} m"),
+    ))
+    try:
+        d = 2.0e-3
+        nodes = {"A": Node("A", 0.0, 0.0), "B": Node("B", L, 0.0)}
+        members = {"AB": Member("AB", "bar", "A", "B", EA=EA)}
+        supports = {n: Support(n, (Restraint(n, "x", (1.0, 0.0, 0.0)),
+                                   Restraint(n, "y", (0.0, 1.0, 0.0)))) for n in nodes}
+        st = Structure("held", nodes, members, supports, (Shortening("AB", d),))
+        sol = solve(st, verify=False)
+        assert sol.cases["default"].members["AB"].start[0] == pytest.approx(EA * d / L,
+                                                                           rel=1e-12)
+        assert sol.equilibrium_ok
+    finally:
+        LOAD_KINDS.pop(Shortening)
