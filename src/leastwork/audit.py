@@ -14,7 +14,7 @@ import math
 
 import numpy as np
 
-from .elements import column_of, kind_of
+from .elements import column_of, has_bending, kind_of
 from .energy import flexibility_terms, initial_deformation_terms
 from .errors import CaseError
 from .fields import gauss_integral
@@ -37,11 +37,6 @@ CAUTION = (
 )
 
 _SUP = str.maketrans("0123456789-", "⁰¹²³⁴⁵⁶⁷⁸⁹⁻")
-
-
-def _bends(m) -> bool:
-    """Whether member ``m``'s kind has a bending field (flexibility over EI)."""
-    return "m" in kind_of(m).section(m, m, False)
 
 
 def energy_terms(st: Structure) -> str:
@@ -379,7 +374,7 @@ class _Context:
             blocks.append(Grid(f"Axial forces of the released structure {per} "
                                "(bars, and beams with an area)", tuple(heads), tuple(rows),
                                total=("total", "", "", *[""] * nr, *tot)))
-        beams = [m for m in st.members.values() if _bends(m)]
+        beams = [m for m in st.members.values() if has_bending(m)]
         if nr and beams:
             rows = []
             for m in beams:
@@ -454,7 +449,7 @@ class _Context:
             out.append(Grid(f"Load case {case}: axial forces of the released structure under "
                             "the loads", tuple(heads), tuple(rows),
                             total=("total", "", *tot) if nr else None))
-        beams = [m for m in st.members.values() if _bends(m)]
+        beams = [m for m in st.members.values() if has_bending(m)]
         if beams:
             heads = ["beam", f"from [{u.lu}]", f"to [{u.lu}]", f"M0(x) [{u.label(1, 1)}]"]
             heads += [f"∫ M0·m{i + 1} dx/EI [{self.load_label(i)}]" for i in range(nr)]

@@ -19,7 +19,7 @@ from typing import TYPE_CHECKING
 
 import numpy as np
 
-from .elements import kind_of
+from .elements import has_bending, kind_of
 from .errors import CaseError, MechanismError
 from .model import Structure, rotational_nodes
 
@@ -284,10 +284,11 @@ def soft_spring_warnings(st: Structure, topo: Topology, ratio: float = 1e-6) -> 
     member_k = []
     for m in st.members.values():
         L = st.length(m.id)
-        if m.EA is not None:
-            member_k.append(m.EA / L)
-        if m.is_beam and m.EI:
-            member_k.append(m.EI / L ** 3)
+        section = kind_of(m).section(m, m, False)
+        if section.get("n") is not None and not callable(section["n"]):
+            member_k.append(section["n"] / L)
+        if section.get("m") and not callable(section["m"]):
+            member_k.append(section["m"] / L ** 3)
     if not member_k:
         return out
     k_ref = float(np.median(member_k))
@@ -413,7 +414,7 @@ def _keep_order(st: Structure, topo: Topology) -> list[int]:
         if c.kind == "reaction":
             (springs if topo.restraints[c.restraint_index].is_spring else rigid).append(j)
         elif c.kind == "axial":
-            (bars if st.members[c.owner].kind == "bar" else axial_beam).append(j)
+            (axial_beam if has_bending(st.members[c.owner]) else bars).append(j)
         else:
             moments.append(j)
     # axially rigid beams first among axial forces: their axial force has no flexibility

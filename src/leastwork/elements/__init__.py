@@ -18,6 +18,7 @@ from .base import (
     column_of,
     generic_flexibility,
     generic_initial,
+    has_bending,
     integrate,
     kind_of,
     poly_eval,
@@ -26,4 +27,4 @@ from .base import (
 
 __all__ = ["MEMBER_KINDS", "BasicForce", "EnergyTerm", "KindBase", "MemberKind",
            "carries_span_loads", "column_of", "generic_flexibility", "generic_initial",
-           "integrate", "kind_of", "poly_eval", "register"]
+           "has_bending", "integrate", "kind_of", "poly_eval", "register"]

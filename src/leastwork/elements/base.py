@@ -52,6 +52,7 @@ __all__ = [
     "kind_of",
     "column_of",
     "carries_span_loads",
+    "has_bending",
     "poly_eval",
     "TERM_OF_FIELD",
     "QUAD_RTOL",
@@ -208,6 +209,11 @@ def kind_of(m) -> MemberKind:
 def carries_span_loads(m) -> bool:
     """Whether loads may act inside the span of member ``m``."""
     return kind_of(m).takes_span_loads
+
+
+def has_bending(m) -> bool:
+    """Whether member ``m``'s kind has a bending field (a moment along its axis)."""
+    return "m" in kind_of(m).section(m, m, False)
 
 
 def column_of(m, role: str) -> str | None:
