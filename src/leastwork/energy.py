@@ -108,12 +108,14 @@ def initial_deformation_terms(
     """The initial deformations of one load case, member by member and effect by effect."""
     out: list[DeformationTerm] = []
     for m in st.members.values():
+        pf, strains = particulars.get(m.id), imposed.get(m.id)
+        if pf is None and strains is None:
+            continue
         cols = member_columns(topo, m)
         L = st.length(m.id)
-        pf = particulars.get(m.id)
         integral = None if pf is None else _span_integral(pf, L)
         for effect, i, value in kind_of(m).initial_deformations(
-                m, m, L, st.shear, integral, imposed.get(m.id), 1.0):
+                m, m, L, st.shear, integral, strains, 1.0):
             if value != 0.0:
                 out.append(DeformationTerm(m.id, effect, cols[i], float(value)))
     return out

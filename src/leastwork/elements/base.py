@@ -39,8 +39,7 @@ the solver always used.
 from __future__ import annotations
 
 from collections.abc import Callable, Sequence
-from dataclasses import dataclass
-from typing import Any, Protocol
+from typing import Any, NamedTuple, Protocol
 
 __all__ = [
     "BasicForce",
@@ -76,8 +75,7 @@ QUAD_RTOL = 1e-13
 Poly = list  #: ascending coefficients in x (m from the start node), any number type
 
 
-@dataclass(frozen=True)
-class BasicForce:
+class BasicForce(NamedTuple):
     """One basic force of a member: its column name and role (``Column.kind``: "axial",
     "start_m", "end_m", or a kind's own role)."""
 
@@ -85,8 +83,7 @@ class BasicForce:
     role: str
 
 
-@dataclass(frozen=True)
-class EnergyTerm:
+class EnergyTerm(NamedTuple):
     """One energy block of a member: ``forces`` index the member's basic forces;
     ``block`` (nested lists) couples them; ``term`` is "axial", "bending", "shear"..."""
 
