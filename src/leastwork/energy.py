@@ -52,21 +52,26 @@ class FlexibilityTerm:
     block: np.ndarray
 
 
-def member_columns(topo: Topology, m) -> list[int]:
-    """Column indices of member ``m``'s basic forces, in the kind's order."""
-    ci = topo.column_index
-    return [ci[bf.name] for bf in kind_of(m).basic_forces(m)]
+def member_columns(topo: Topology) -> dict[str, list[int]]:
+    """Column indices of each member's basic forces, in its kind's order (the order
+    topology assembled them in)."""
+    out: dict[str, list[int]] = {}
+    for j, c in enumerate(topo.columns):
+        if c.kind != "reaction":
+            out.setdefault(c.owner, []).append(j)
+    return out
 
 
 def flexibility_terms(st: Structure, topo: Topology) -> list[FlexibilityTerm]:
     """The energy terms of every member (as its kind gives them) and spring, in member
     order then springs."""
     out: list[FlexibilityTerm] = []
+    columns = member_columns(topo)
     for m in st.members.values():
-        cols = member_columns(topo, m)
+        cols = columns[m.id]
         for t in kind_of(m).flexibility(m, m, st.length(m.id), st.shear, 1.0):
-            out.append(FlexibilityTerm(m.id, t.term, tuple(cols[i] for i in t.forces),
-                                       np.array(t.block, dtype=float)))
+            out.append(FlexibilityTerm(m.id, t.term, tuple([cols[i] for i in t.forces]),
+                                       np.array(t.block)))
     for j, c in enumerate(topo.columns):
         if c.kind == "reaction":
             r = topo.restraints[c.restraint_index]
@@ -107,11 +112,12 @@ def initial_deformation_terms(
 ) -> list[DeformationTerm]:
     """The initial deformations of one load case, member by member and effect by effect."""
     out: list[DeformationTerm] = []
+    columns = member_columns(topo)
     for m in st.members.values():
         pf, strains = particulars.get(m.id), imposed.get(m.id)
         if pf is None and strains is None:
             continue
-        cols = member_columns(topo, m)
+        cols = columns[m.id]
         L = st.length(m.id)
         integral = None if pf is None else _span_integral(pf, L)
         for effect, i, value in kind_of(m).initial_deformations(
