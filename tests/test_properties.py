@@ -29,10 +29,10 @@ from hypothesis import strategies as st
 
 sys.path.insert(0, str(Path(__file__).parent))
 from _random_structures import beams, frames, trusses  # noqa: E402
+from leastwork.verify import solve_stiffness  # noqa: E402
 
 import leastwork  # noqa: E402
 from leastwork.errors import MechanismError  # noqa: E402
-from leastwork.stiffness import solve_stiffness  # noqa: E402
 from leastwork.topology import build_topology  # noqa: E402
 
 REL = 1e-8

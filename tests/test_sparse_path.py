@@ -24,11 +24,11 @@ from pathlib import Path
 
 import numpy as np
 import pytest
+from leastwork.verify import solve_stiffness
 from scipy.sparse.linalg import splu
 
 import leastwork
 from leastwork import CaseError, MechanismError, reanalyse
-from leastwork.stiffness import solve_stiffness
 
 ROOT = Path(__file__).resolve().parents[1]
 sys.path.insert(0, str(ROOT / "benchmarks"))
@@ -241,7 +241,7 @@ def test_json_compatibility_equations_hold_with_amplitudes():
 def test_audit_trail_names_what_each_state_closes():
     st = structure(storey_frame(1, 2))
     sol = leastwork.solve(st, basis="local")
-    from leastwork.audit import audit_sheet
+    from leastwork.output.audit import audit_sheet
 
     text = str([b for step in audit_sheet(sol).steps for b in step.blocks])
     for name in sol.redundant_names:
@@ -308,7 +308,7 @@ def test_condition_estimate_is_close_and_repeatable():
 def test_audit_trail_of_many_local_states_is_refused_clearly(tmp_path):
     """Above AUDIT_MAX_LOCAL_STATES states --steps and report stop with one clear line
     (exit 2) pointing to --json, the summary and plot; nothing is written."""
-    from leastwork.audit import AUDIT_MAX_LOCAL_STATES, audit_sheet
+    from leastwork.output.audit import AUDIT_MAX_LOCAL_STATES, audit_sheet
 
     text = storey_frame(6, 5)  # three per closed ring (common practice): 3 * 6 * 5 = 90
     sol = leastwork.solve(structure(text), basis="local", verify=False)
