@@ -20,8 +20,9 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.polynomial import polynomial as P
 
+from .elements import kind_of
 from .errors import CaseError
-from .fields import gauss_integral, particular_fields
+from .fields import gauss_integral
 from .model import Structure
 
 __all__ = ["Target", "parse_target", "evaluate_target", "member_shape", "deflection_extreme"]
@@ -120,7 +121,7 @@ def member_point_displacement(st: Structure, topo, res, mid: str, at: float,
         p[di[f"{node}.x"]] += fx
         p[di[f"{node}.y"]] += fy
     else:
-        pf = particular_fields(L, st.direction(mid), [(at, fx, fy, 0.0)], [])
+        pf = kind_of(mem).particular(mem, L, st.direction(mid), [(at, fx, fy, 0.0)], [])
         p[di[f"{mem.start}.x"]] += pf.start_force[0]
         p[di[f"{mem.start}.y"]] += pf.start_force[1]
         p[di[f"{mem.end}.x"]] += pf.end_force[0]
@@ -130,16 +131,35 @@ def member_point_displacement(st: Structure, topo, res, mid: str, at: float,
     value = float(s_u @ (d - res.loading.settlement))
     if pf is not None:
         mr = res.members[mid]
-        eps, kappa, misfit = res.loading.imposed.get(mid, (0.0, 0.0, 0.0))
+        sec, free = _section(st, res, mid)
         brk = np.union1d(pf.m.breaks, mr.m.breaks)
-        if mem.EA is not None or eps or misfit:
-            value += gauss_integral(brk, lambda x: pf.n(x) * (
-                (mr.n(x) / mem.EA if mem.EA is not None else 0.0) + eps + misfit / L))
-        if mem.is_beam:
-            value += gauss_integral(brk, lambda x: pf.m(x) * (mr.m(x) / mem.EI + kappa))
-            if st.shear and mem.GAs:
-                value += gauss_integral(brk, lambda x: pf.v(x) * mr.v(x) / mem.GAs)
+        for f in ("n", "m", "v"):  # virtual work of the unit load's fields on the strains
+            K, extra = sec.get(f), free.get(f, [])
+            if K is None and not any(extra):
+                continue
+            unit, real = getattr(pf, f), getattr(mr, f)
+            if f == "v":
+                value += gauss_integral(brk, lambda x, u=unit, r=real, K=K: u(x) * r(x) / K)
+                continue
+
+            def strain(x, r=real, K=K, extra=extra):
+                acc = r(x) / K if K is not None else 0.0
+                for e in extra:
+                    acc = acc + e
+                return acc
+
+            value += gauss_integral(brk, lambda x, u=unit, strain=strain: u(x) * strain(x))
     return value
+
+
+def _section(st: Structure, res, mid: str) -> tuple[dict, dict]:
+    """The section stiffness per field and the free strains per field of member ``mid``
+    in case ``res``, as its kind gives them."""
+    mem = st.members[mid]
+    kind = kind_of(mem)
+    imposed = res.loading.imposed.get(mid, (0.0, 0.0, 0.0))
+    return (kind.section(mem, mem, st.shear),
+            kind.free_strains(mem, mem, st.length(mid), imposed))
 
 
 def member_shape(st: Structure, topo, res, mid: str, samples: int = 41,
@@ -158,21 +178,21 @@ def member_shape(st: Structure, topo, res, mid: str, samples: int = 41,
     us = np.array([u[di[f"{mem.start}.x"]], u[di[f"{mem.start}.y"]]])
     ue = np.array([u[di[f"{mem.end}.x"]], u[di[f"{mem.end}.y"]]])
     ex, ey = np.array([c, s]), np.array([-s, c])
-    eps, kappa_t, misfit = res.loading.imposed.get(mid, (0.0, 0.0, 0.0))
+    sec, free = _section(st, res, mid)
     breaks = mr.m.breaks
     xs = np.union1d(np.linspace(0.0, L, samples), breaks)
     w_pieces = []  # (a, b, poly of w_rel)
     w_rel = np.zeros_like(xs)  # K(x) - Gamma(x): deflection from curvature/shear with w(0)=w'(0)=0
     ua_rel = np.zeros_like(xs)
-    if mem.is_beam:
+    if sec.get("m") is not None:
         slope0 = 0.0
         w0 = 0.0
         for k, (a, b, coef) in enumerate(mr.m.pieces()):
-            kap = coef / mem.EI
-            kap = P.polyadd(kap, [kappa_t])
+            kap = coef / sec["m"]
+            kap = P.polyadd(kap, [sum(free.get("m", []), 0.0)])
             slope = P.polyadd(P.polyint(kap, lbnd=a), [slope0])
-            if st.shear and mem.GAs:
-                gam = mr.v.coef[k] / mem.GAs
+            if sec.get("v") is not None:
+                gam = mr.v.coef[k] / sec["v"]
                 wpoly = P.polyadd(P.polyint(P.polysub(slope, gam), lbnd=a), [w0])
             else:
                 wpoly = P.polyadd(P.polyint(slope, lbnd=a), [w0])
@@ -182,9 +202,11 @@ def member_shape(st: Structure, topo, res, mid: str, samples: int = 41,
             slope0 = P.polyval(b, slope)
             w0 = P.polyval(b, wpoly)
     strain_n = 0.0
+    free_n = free.get("n", [0.0])
+    free_n = free_n[0] + free_n[1] if len(free_n) == 2 else sum(free_n, 0.0)
     for a, b, coef in mr.n.pieces():
-        npoly = coef / mem.EA if mem.EA is not None else np.zeros(1)
-        npoly = P.polyadd(npoly, [eps + misfit / L])
+        npoly = coef / sec["n"] if sec.get("n") is not None else np.zeros(1)
+        npoly = P.polyadd(npoly, [free_n])
         upoly = P.polyint(npoly, lbnd=a)
         sel = (xs >= a) & (xs <= b)
         ua_rel[sel] = strain_n + P.polyval(xs[sel], upoly)
@@ -231,16 +253,17 @@ def deflection_extreme(st: Structure, topo, res, mid: str) -> tuple[float, float
     di = topo.dof_index
     ws = -s * u[di[f"{mem.start}.x"]] + c * u[di[f"{mem.start}.y"]]
     we = -s * u[di[f"{mem.end}.x"]] + c * u[di[f"{mem.end}.y"]]
-    kappa_t = res.loading.imposed.get(mid, (0.0, 0.0, 0.0))[1]
-    shear = bool(st.shear and mem.GAs)
+    sec, free = _section(st, res, mid)
+    kappa_t = sum(free.get("m", []), 0.0)
+    EI, GAs = sec["m"], sec.get("v")
     pieces = []
     slope0 = w0 = 0.0
     for k, (a, b, coef) in enumerate(mr.m.pieces()):
-        kap = [cc / mem.EI for cc in coef.tolist()]
+        kap = [cc / EI for cc in coef.tolist()]
         kap[0] += kappa_t
         slope = _plus(slope0, _integral(kap, a))
-        if shear:
-            gam = [cc / mem.GAs for cc in mr.v.coef[k].tolist()]
+        if GAs is not None:
+            gam = [cc / GAs for cc in mr.v.coef[k].tolist()]
             rot = [sl - (gam[i] if i < len(gam) else 0.0) for i, sl in enumerate(slope)]
             wpoly = _plus(w0, _integral(rot, a))
         else:

@@ -3,14 +3,14 @@
 For basic forces s (see :mod:`leastwork.topology`) the complementary energy is
 ``U = 1/2 s.F.s + s.e + (terms without s)``, with
 
-* F, the block-diagonal flexibility of the unassembled members and springs:
-  bar or beam axial force ``L/EA``; beam end moments ``L/(3EI)`` on the diagonal and
-  ``L/(6EI)`` off it (from integrating the linear moment diagram against itself), plus
-  ``1/(L GAs)`` times [[1, -1], [-1, 1]] for shear energy when asked; a spring ``1/k``;
-* e, the *initial deformations* conjugate to each basic force: the span-load fields of the
-  simply supported member (``int n0/EA``, ``int (1-x/L) m0/EI``, ``int (x/L) m0/EI``),
-  free thermal strain ``alpha dT L`` and curvature ``alpha dTgrad/h`` (giving ``kappa L/2`` at
-  each end moment), and misfit ``e`` on the axial force.
+* F, the block-diagonal flexibility of the unassembled members and springs: each member's
+  blocks as its kind gives them (:meth:`leastwork.elements.MemberKind.flexibility`; for a
+  bar or beam ``L/EA``, ``L/(3EI)`` and ``L/(6EI)``, ``1/(L GAs)`` [[1, -1], [-1, 1]] for
+  shear when asked); a spring ``1/k``;
+* e, the *initial deformations* conjugate to each basic force, from the member's kind
+  (:meth:`leastwork.elements.MemberKind.initial_deformations`): the span-load fields of its
+  determinate analogue integrated against its unit fields, free thermal strain and
+  curvature, and misfit.
 
 Castigliano's second theorem (Menabrea's least-work theorem) on these terms gives the
 compatibility equations; see :mod:`leastwork.solve`.
@@ -22,8 +22,10 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from .elements import kind_of
+from .elements.base import integrate
 from .fields import ParticularFields, gauss_integral
-from .model import Misfit, Structure, TemperatureLoad
+from .model import Structure
 from .topology import Topology
 
 __all__ = [
@@ -33,7 +35,6 @@ __all__ = [
     "flexibility_blocks",
     "initial_deformation_terms",
     "initial_deformations",
-    "thermal_strains",
 ]
 
 
@@ -51,27 +52,26 @@ class FlexibilityTerm:
     block: np.ndarray
 
 
+def member_columns(topo: Topology) -> dict[str, list[int]]:
+    """Column indices of each member's basic forces, in its kind's order (the order
+    topology assembled them in)."""
+    out: dict[str, list[int]] = {}
+    for j, c in enumerate(topo.columns):
+        if c.kind != "reaction":
+            out.setdefault(c.owner, []).append(j)
+    return out
+
+
 def flexibility_terms(st: Structure, topo: Topology) -> list[FlexibilityTerm]:
-    """The energy terms of every member and spring, in member order then springs."""
+    """The energy terms of every member (as its kind gives them) and spring, in member
+    order then springs."""
     out: list[FlexibilityTerm] = []
-    ci = topo.column_index
+    columns = member_columns(topo)
     for m in st.members.values():
-        L = st.length(m.id)
-        axial = ci[m.id] if m.kind == "bar" else ci[f"{m.id}.n"]
-        if m.EA is not None:
-            out.append(FlexibilityTerm(m.id, "axial", (axial,), np.array([[L / m.EA]])))
-        if not m.is_beam:
-            continue
-        ends = [(k, ci.get(f"{m.id}.{k}.m")) for k in ("start", "end")]
-        keep = [i for i, (_, j) in enumerate(ends) if j is not None]
-        if not keep:
-            continue
-        cols = tuple(ends[i][1] for i in keep)
-        bend = np.array([[L / (3 * m.EI), L / (6 * m.EI)], [L / (6 * m.EI), L / (3 * m.EI)]])
-        out.append(FlexibilityTerm(m.id, "bending", cols, bend[np.ix_(keep, keep)]))
-        if st.shear and m.GAs:
-            shear = np.array([[1.0, -1.0], [-1.0, 1.0]]) / (L * m.GAs)
-            out.append(FlexibilityTerm(m.id, "shear", cols, shear[np.ix_(keep, keep)]))
+        cols = columns[m.id]
+        for t in kind_of(m).flexibility(m, m, st.length(m.id), st.shear, 1.0):
+            out.append(FlexibilityTerm(m.id, t.term, tuple([cols[i] for i in t.forces]),
+                                       np.array(t.block)))
     for j, c in enumerate(topo.columns):
         if c.kind == "reaction":
             r = topo.restraints[c.restraint_index]
@@ -88,25 +88,6 @@ def flexibility_blocks(st: Structure, topo: Topology) -> np.ndarray:
     for t in flexibility_terms(st, topo):
         F[np.ix_(t.columns, t.columns)] += t.block
     return F
-
-
-def thermal_strains(st: Structure, loads) -> dict[str, tuple[float, float, float]]:
-    """Per member: (free axial strain alpha*dT, free curvature alpha*dTgrad/h, misfit e).
-
-    The curvature is positive in the sense of a sagging moment (local -y face longer).
-    """
-    out: dict[str, list[float]] = {}
-    for load in loads:
-        if isinstance(load, TemperatureLoad):
-            m = st.members[load.member]
-            acc = out.setdefault(m.id, [0.0, 0.0, 0.0])
-            acc[0] += (m.alpha or 0.0) * load.uniform
-            if load.gradient:
-                acc[1] += (m.alpha or 0.0) * load.gradient / m.depth
-        elif isinstance(load, Misfit):
-            acc = out.setdefault(load.member, [0.0, 0.0, 0.0])
-            acc[2] += load.elongation
-    return {k: (v[0], v[1], v[2]) for k, v in out.items()}
 
 
 @dataclass(frozen=True)
@@ -131,37 +112,45 @@ def initial_deformation_terms(
 ) -> list[DeformationTerm]:
     """The initial deformations of one load case, member by member and effect by effect."""
     out: list[DeformationTerm] = []
-    ci = topo.column_index
-
-    def add(owner: str, effect: str, col: int | None, value: float) -> None:
-        if col is not None and value != 0.0:
-            out.append(DeformationTerm(owner, effect, col, float(value)))
-
+    columns = member_columns(topo)
     for m in st.members.values():
+        pf, strains = particulars.get(m.id), imposed.get(m.id)
+        if pf is None and strains is None:
+            continue
+        cols = columns[m.id]
         L = st.length(m.id)
-        axial = ci[m.id] if m.kind == "bar" else ci[f"{m.id}.n"]
-        i_s, i_e = ci.get(f"{m.id}.start.m"), ci.get(f"{m.id}.end.m")
-        pf = particulars.get(m.id)
-        if pf is not None:
-            br = pf.m.breaks
-            if m.EA is not None:
-                add(m.id, "span loads (axial)", axial, gauss_integral(br, pf.n) / m.EA)
-            if m.is_beam:
-                add(m.id, "span loads (bending)", i_s, gauss_integral(
-                    br, lambda x, L=L, pf=pf: (1 - x / L) * pf.m(x)) / m.EI)
-                add(m.id, "span loads (bending)", i_e, gauss_integral(
-                    br, lambda x, L=L, pf=pf: (x / L) * pf.m(x)) / m.EI)
-            if st.shear and m.GAs:
-                vint = gauss_integral(br, pf.v) / (L * m.GAs)
-                add(m.id, "span loads (shear)", i_s, -vint)
-                add(m.id, "span loads (shear)", i_e, vint)
-        if m.id in imposed:
-            eps, kappa, misfit = imposed[m.id]
-            add(m.id, "temperature (uniform)", axial, eps * L)
-            add(m.id, "misfit", axial, misfit)
-            add(m.id, "temperature (gradient)", i_s, kappa * L / 2)
-            add(m.id, "temperature (gradient)", i_e, kappa * L / 2)
+        integral = None if pf is None else _span_integral(pf, L)
+        for effect, i, value in kind_of(m).initial_deformations(
+                m, m, L, st.shear, integral, strains, 1.0):
+            if value != 0.0:
+                out.append(DeformationTerm(m.id, effect, cols[i], float(value)))
     return out
+
+
+def _span_integral(pf: ParticularFields, L: float):
+    """``integral(f, weight)``: int_0^L weight(x) f0(x) dx of the span-load field ``f``
+    ("n", "v", "m"), ``weight`` a polynomial in x/L (evaluated as written, so that 1 - x/L
+    and x/L round as they always did) or a function of x; Gauss–Legendre on each piece,
+    exact for the polynomial fields of span loads."""
+    br = pf.m.breaks
+
+    def integral(f: str, weight) -> float:
+        field = getattr(pf, f)
+        if callable(weight):
+            return sum(integrate(lambda x: weight(x) * float(field(x)), float(a), float(b))
+                       for a, b in zip(br[:-1], br[1:], strict=True) if b > a)
+        if len(weight) == 1 and weight[0] == 1.0:
+            return gauss_integral(br, field)
+
+        def w(x):
+            acc = weight[-1]
+            for c in reversed(weight[:-1]):
+                acc = c + acc * x / L
+            return acc
+
+        return gauss_integral(br, lambda x: w(x) * field(x))
+
+    return integral
 
 
 def initial_deformations(

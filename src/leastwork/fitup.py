@@ -27,6 +27,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from .elements import column_of
 from .errors import CaseError
 from .influence import reaction_rows
 from .model import Structure
@@ -189,7 +190,7 @@ class Reported:
 
 def axial_column(st: Structure, topo, mid: str) -> int:
     """Column of the axial basic force of member ``mid``."""
-    return topo.column_index[mid if st.members[mid].kind == "bar" else f"{mid}.n"]
+    return topo.column_index[column_of(st.members[mid], "axial")]
 
 
 def reported_quantities(st: Structure, topo) -> Reported:

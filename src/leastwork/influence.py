@@ -31,9 +31,10 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from .elements import carries_span_loads, column_of, kind_of, poly_eval
 from .energy import initial_deformation_terms
 from .errors import CaseError
-from .fields import ParticularFields, particular_fields
+from .fields import ParticularFields
 from .model import Structure
 
 __all__ = [
@@ -148,8 +149,7 @@ def parse_quantity(st: Structure, topo, text: str, where: str = "--quantity") ->
         return QuantitySpec(text, dim, row)
     col = None
     if text in st.members:
-        m = st.members[text]
-        col = ci[text] if m.kind == "bar" else ci[f"{text}.n"]
+        col = ci[column_of(st.members[text], "axial")]
     elif text in ci and topo.columns[ci[text]].kind != "reaction":
         col = ci[text]
     if col is not None:
@@ -171,10 +171,9 @@ def parse_quantity(st: Structure, topo, text: str, where: str = "--quantity") ->
     name = text.split(".")[0]
     if "." in text and name in st.members:
         m = st.members[name]
+        forces = ", ".join(bf.name for bf in kind_of(m).basic_forces(m))
         raise _err(f'"{text}": no such force of member {name} (a hinged end has no moment; '
-                   + (f"a bar has its id alone, {name}" if m.kind == "bar" else
-                      f"a beam has {name}.n and its end moments {name}.start.m, {name}.end.m")
-                   + ")", where)
+                   f"this {m.kind} has {forces})", where)
     known = [*reactions, *st.members, *[c.name for c in topo.columns]]
     raise _err(f'"{text}" is not a quantity of this structure{_hint(text, known)}; '
                "expected a reaction NODE.x|y|rz|n, a member id (its axial force), "
@@ -196,26 +195,17 @@ def _section(st: Structure, topo, text: str, mid: str, dist: str, comp: str,
         raise _err(f'"{text}": distance is off the member (length '
                    f"{L / st.units.factor('length'):g} {st.units.length})", where)
     at = min(at, L)
-    if not mem.is_beam and comp != "n":
-        raise _err(f'"{text}": {mid} is a bar and carries axial force only; ask for '
+    kind = kind_of(mem)
+    units = kind.unit_fields(mem, L, 1.0, 0.0)
+    if not any(comp in u for u in units):
+        raise _err(f'"{text}": {mid} is a {mem.kind} and carries axial force only; ask for '
                    f"{mid}@{dist}.n or {mid}", where)
+    # the section force at x for a unit value of each basic force (solution.member_result)
     ci = topo.column_index
     row = np.zeros(len(topo.columns))
-    if comp == "n":
-        row[ci[mid] if mem.kind == "bar" else ci[f"{mid}.n"]] = 1.0
-    else:
-        # m(x) = ms (1 - x/L) + me x/L ;  v = dm/dx = (me - ms)/L   (solution.member_result)
-        js, je = ci.get(f"{mid}.start.m"), ci.get(f"{mid}.end.m")
-        if comp == "m":
-            if js is not None:
-                row[js] = 1.0 - at / L
-            if je is not None:
-                row[je] = at / L
-        else:
-            if js is not None:
-                row[js] = -1.0 / L
-            if je is not None:
-                row[je] = 1.0 / L
+    for bf, u in zip(kind.basic_forces(mem), units, strict=True):
+        if comp in u:
+            row[ci[bf.name]] = poly_eval(u[comp], at / L)
     return QuantitySpec(text, "force" if comp in ("v", "n") else "moment", row, mid, at, comp)
 
 
@@ -290,11 +280,12 @@ def point_loading(st: Structure, topo, points: Sequence[LoadPoint], load: float)
         pf = None
         if pt.at <= tol or pt.at >= L - tol:
             P[di[f"{mem.start if pt.at <= tol else mem.end}.y"], i] -= load
-        elif not mem.is_beam:
+        elif not carries_span_loads(mem):
             P[di[f"{mem.start}.y"], i] -= load * (1.0 - pt.at / L)
             P[di[f"{mem.end}.y"], i] -= load * pt.at / L
         else:
-            pf = particular_fields(L, st.direction(pt.member), [(pt.at, 0.0, -load, 0.0)], [])
+            pf = kind_of(mem).particular(mem, L, st.direction(pt.member),
+                                         [(pt.at, 0.0, -load, 0.0)], [])
             for node, f in ((mem.start, pf.start_force), (mem.end, pf.end_force)):
                 P[di[f"{node}.x"], i] += f[0]
                 P[di[f"{node}.y"], i] += f[1]

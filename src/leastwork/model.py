@@ -11,7 +11,7 @@ counter-clockwise.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from typing import Literal
 
 from .units import UnitSystem
@@ -91,13 +91,11 @@ def rotational_nodes(members) -> set[str]:
     ``members`` is an iterable of :class:`Member`. At any other node (only bars or hinged
     beam ends) no moment can be resisted and no rotation is defined.
     """
+    from .elements import kind_of
+
     nodes: set[str] = set()
     for m in members:
-        if m.is_beam:
-            if not m.hinge_start:
-                nodes.add(m.start)
-            if not m.hinge_end:
-                nodes.add(m.end)
+        nodes.update(kind_of(m).rotation_nodes(m))
     return nodes
 
 
@@ -159,6 +157,9 @@ class NodalLoad:
     mz: float = 0.0
     case: str = DEFAULT_CASE
 
+    def scaled(self, f: float, case: str) -> NodalLoad:
+        return replace(self, fx=f * self.fx, fy=f * self.fy, mz=f * self.mz, case=case)
+
 
 @dataclass(frozen=True)
 class PointLoad:
@@ -170,6 +171,9 @@ class PointLoad:
     fy: float = 0.0
     mz: float = 0.0
     case: str = DEFAULT_CASE
+
+    def scaled(self, f: float, case: str) -> PointLoad:
+        return replace(self, fx=f * self.fx, fy=f * self.fy, mz=f * self.mz, case=case)
 
 
 @dataclass(frozen=True)
@@ -185,6 +189,10 @@ class DistributedLoad:
     end: float = math.nan  #: nan means the member's end
     case: str = DEFAULT_CASE
 
+    def scaled(self, f: float, case: str) -> DistributedLoad:
+        return replace(self, wx=(f * self.wx[0], f * self.wx[1]),
+                       wy=(f * self.wy[0], f * self.wy[1]), case=case)
+
 
 @dataclass(frozen=True)
 class TemperatureLoad:
@@ -196,6 +204,9 @@ class TemperatureLoad:
     gradient: float = 0.0
     case: str = DEFAULT_CASE
 
+    def scaled(self, f: float, case: str) -> TemperatureLoad:
+        return replace(self, uniform=f * self.uniform, gradient=f * self.gradient, case=case)
+
 
 @dataclass(frozen=True)
 class Misfit:
@@ -204,6 +215,9 @@ class Misfit:
     member: str
     elongation: float
     case: str = DEFAULT_CASE
+
+    def scaled(self, f: float, case: str) -> Misfit:
+        return replace(self, elongation=f * self.elongation, case=case)
 
 
 @dataclass(frozen=True)
@@ -215,26 +229,18 @@ class Settlement:
     values: tuple[tuple[str, float], ...]  #: (direction, value) pairs
     case: str = DEFAULT_CASE
 
+    def scaled(self, f: float, case: str) -> Settlement:
+        return replace(self, values=tuple((d, f * v) for d, v in self.values), case=case)
+
 
 Load = NodalLoad | PointLoad | DistributedLoad | TemperatureLoad | Misfit | Settlement
 
 
 def scaled_load(load: Load, factor: float, case: str) -> Load:
     """``load`` times ``factor``, put in load case ``case`` (for load combinations; every
-    effect is linear, so a factored load gives factored results)."""
-    from dataclasses import replace
-
-    f = factor
-    if isinstance(load, NodalLoad | PointLoad):
-        return replace(load, fx=f * load.fx, fy=f * load.fy, mz=f * load.mz, case=case)
-    if isinstance(load, DistributedLoad):
-        return replace(load, wx=(f * load.wx[0], f * load.wx[1]),
-                       wy=(f * load.wy[0], f * load.wy[1]), case=case)
-    if isinstance(load, TemperatureLoad):
-        return replace(load, uniform=f * load.uniform, gradient=f * load.gradient, case=case)
-    if isinstance(load, Misfit):
-        return replace(load, elongation=f * load.elongation, case=case)
-    return replace(load, values=tuple((d, f * v) for d, v in load.values), case=case)
+    effect is linear, so a factored load gives factored results). Each load kind scales
+    its own values (its ``scaled`` method)."""
+    return load.scaled(factor, case)
 
 
 @dataclass(frozen=True)

@@ -9,8 +9,10 @@ from functools import cached_property
 
 import numpy as np
 
-from .fields import Piecewise, gauss_integral
-from .model import DistributedLoad, NodalLoad, PointLoad, Structure, reaction_components
+from .elements import column_of, kind_of
+from .fields import Piecewise
+from .loadkinds import load_kind
+from .model import Structure, reaction_components
 from .thresholds import (
     EQUILIBRIUM_ROUND_OFF,
     EXTREME_TIE,
@@ -46,18 +48,15 @@ def member_result(st: Structure, topo, mid: str, s: np.ndarray, pf) -> MemberRes
     m = st.members[mid]
     L = st.length(mid)
     ci = topo.column_index
-    N = s[ci[mid] if m.kind == "bar" else ci[f"{mid}.n"]]
-    ms = s[ci[f"{mid}.start.m"]] if f"{mid}.start.m" in ci else 0.0
-    me = s[ci[f"{mid}.end.m"]] if f"{mid}.end.m" in ci else 0.0
+    kind = kind_of(m)
+    fields = kind.force_fields(m, L, [s[ci[bf.name]] for bf in kind.basic_forces(m)], 0.0)
     if pf is None:
-        return _unloaded_member_result(mid, L, float(N), float(ms), float(me))
-    else:
-        breaks = pf.m.breaks
-        cn, cv, cm = pf.n.coef.copy(), pf.v.coef.copy(), pf.m.coef.copy()
-    cn[:, 0] += N
-    cm[:, 0] += ms
-    cm[:, 1] += (me - ms) / L
-    cv[:, 0] += (me - ms) / L
+        return _unloaded_member_result(mid, L, fields)
+    cn, cv, cm = pf.n.coef.copy(), pf.v.coef.copy(), pf.m.coef.copy()
+    for coef, f in ((cn, "n"), (cm, "m"), (cv, "v")):
+        for k, value in enumerate(fields.get(f, ())):
+            coef[:, k] += value
+    breaks = pf.m.breaks
     n, v, mm = Piecewise(breaks, cn), Piecewise(breaks, cv), Piecewise(breaks, cm)
     start = (float(n(0.0)), float(v(0.0)), float(mm(0.0)))
     end = (float(n(L, "left")), float(v(L, "left")), float(mm(L, "left")))
@@ -65,19 +64,22 @@ def member_result(st: Structure, topo, mid: str, s: np.ndarray, pf) -> MemberRes
     return MemberResult(mid, L, n, v, mm, start, end, m_max, m_min)
 
 
-def _unloaded_member_result(mid: str, L: float, N: float, ms: float, me: float) -> MemberResult:
+def _unloaded_member_result(mid: str, L: float, fields: dict) -> MemberResult:
     """:func:`member_result` of a member without span loads (constant n and v, linear m),
     without evaluating piecewise polynomials: the same numbers, faster (large structures)."""
-    slope = (me - ms) / L
+    N = float(fields["n"][0])
+    m = [*fields.get("m", ()), 0.0, 0.0]
+    ms, slope = float(m[0]), float(m[1])
+    shear = float(fields.get("v", [0.0])[0])
     coef = np.zeros((3, 1, 6))
     coef[0, 0, 0] = N
-    coef[1, 0, 0] = slope
+    coef[1, 0, 0] = shear
     coef[2, 0, 0] = ms
     coef[2, 0, 1] = slope
     breaks = np.array([0.0, L])
     n, v, mm = (Piecewise(breaks, coef[i]) for i in range(3))
     m_end = ms + slope * L  # as the polynomial evaluates it
-    start, end = (N, slope, ms), (N, slope, m_end)
+    start, end = (N, shear, ms), (N, shear, m_end)
     tol = max(EXTREME_TIE * max(abs(ms), abs(m_end)), EXTREME_TIE_FLOOR)
     top, bottom = max(ms, m_end), min(ms, m_end)
     m_max = (ms, 0.0) if ms >= top - tol else (m_end, L)
@@ -227,8 +229,8 @@ def _end_sizes(st: Structure, topo, members,
     first = np.empty((nm, 3))
     last: list[np.ndarray] = []
     for k, (mid, mr) in enumerate(members.items()):
-        cols[k] = (ci.get(mid if st.members[mid].kind == "bar" else f"{mid}.n", -1),
-                   ci.get(f"{mid}.start.m", -1), ci.get(f"{mid}.end.m", -1))
+        m = st.members[mid]
+        cols[k] = tuple(ci.get(column_of(m, role), -1) for role in ("axial", "start_m", "end_m"))
         length[k] = mr.length
         first[k] = mr.n.coef[0, 0], mr.v.coef[0, 0], mr.m.coef[0, 0]
         last.extend((mr.n.coef[-1], mr.v.coef[-1], mr.m.coef[-1]))
@@ -364,39 +366,11 @@ def _whole_structure(st: Structure, loading, reactions, centre: np.ndarray,
     size = np.zeros(3)
     cx, cy = centre
     for ld in loading.loads:
-        if isinstance(ld, NodalLoad):
-            nd = st.nodes[ld.node]
-            total += [ld.fx, ld.fy, ld.mz + (nd.x - cx) * ld.fy - (nd.y - cy) * ld.fx]
-        elif isinstance(ld, PointLoad):
-            o = st.nodes[st.members[ld.member].start]
-            c, s = st.direction(ld.member)
-            dx, dy = (o.x - cx) + ld.at * c, (o.y - cy) + ld.at * s
-            total += [ld.fx, ld.fy, ld.mz + dx * ld.fy - dy * ld.fx]
-            size += [abs(ld.fx), abs(ld.fy), abs(ld.mz) + abs(dx * ld.fy) + abs(dy * ld.fx)]
-        elif isinstance(ld, DistributedLoad):
-            L = st.length(ld.member)
-            a, b = ld.start, (L if np.isnan(ld.end) else ld.end)
-            c, s = st.direction(ld.member)
-            o = st.nodes[st.members[ld.member].start]
-            ox, oy = o.x - cx, o.y - cy
-
-            def w(xi, pair, a=a, b=b):
-                return pair[0] + (pair[1] - pair[0]) * (xi - a) / (b - a)
-
-            brk = np.array([a, b])
-            fx = gauss_integral(brk, lambda xi, ld=ld, w=w: w(xi, ld.wx))
-            fy = gauss_integral(brk, lambda xi, ld=ld, w=w: w(xi, ld.wy))
-            mz = gauss_integral(brk, lambda xi, ld=ld, w=w, c=c, s=s, ox=ox, oy=oy:
-                                (ox + xi * c) * w(xi, ld.wy) - (oy + xi * s) * w(xi, ld.wx))
-            total += [fx, fy, mz]
-            # sizes: the integral of |w| is at most the mean of the end values' sizes
-            # times the loaded length; the lever arm at most the farther end's
-            span = b - a
-            wx = 0.5 * (abs(ld.wx[0]) + abs(ld.wx[1])) * span
-            wy = 0.5 * (abs(ld.wy[0]) + abs(ld.wy[1])) * span
-            far = max(np.hypot(ox + a * c, oy + a * s), np.hypot(ox + b * c, oy + b * s))
-            size += [wx, wy, far * (wx + wy)]
-            scale = max(scale, abs(fx), abs(fy))
+        r = load_kind(ld).resultant(st, ld, centre)
+        if r is not None:
+            total += r[0]
+            size += r[1]
+            scale = max(scale, r[2])
     for nid, rs in reactions.items():
         nd = st.nodes[nid]
         rx, ry = rs.get("x", 0.0), rs.get("y", 0.0)

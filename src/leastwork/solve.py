@@ -17,6 +17,7 @@ from __future__ import annotations
 import numpy as np
 
 from .compatibility import FlexibilitySolver, flexibility_matrix
+from .elements import kind_of
 from .energy import flexibility_blocks
 from .errors import CaseError
 from .model import Structure
@@ -142,9 +143,7 @@ def resolve_basis(st: Structure, names, basis: str, where: str) -> str:
 
 def column_count(st: Structure) -> int:
     """Basic forces and reactions of the structure, counted without building anything."""
-    n = 0
-    for m in st.members.values():
-        n += 1 if not m.is_beam else 1 + (not m.hinge_start) + (not m.hinge_end)
+    n = sum(len(kind_of(m).basic_forces(m)) for m in st.members.values())
     return n + sum(len(s.restraints) for s in st.supports.values())
 
 

@@ -39,6 +39,7 @@ from dataclasses import dataclass
 import numpy as np
 import scipy.sparse as sp
 
+from .elements import kind_of
 from .errors import MechanismError
 from .scaling import scaled_dense, scaled_equilibrium
 from .thresholds import INDEX_RECHECK as _RECHECK
@@ -384,10 +385,11 @@ def soft_spring_warnings(st, topo, states, ratio: float = SOFT_SPRING_RATIO) -> 
     member_k = []
     for m in st.members.values():
         L = st.length(m.id)
-        if m.EA is not None:
-            member_k.append(m.EA / L)
-        if m.is_beam and m.EI:
-            member_k.append(m.EI / L ** 3)
+        section = kind_of(m).section(m, m, False)
+        if section.get("n") is not None and not callable(section["n"]):
+            member_k.append(section["n"] / L)
+        if section.get("m") and not callable(section["m"]):
+            member_k.append(section["m"] / L ** 3)
     if not member_k:
         return []
     k_ref = float(np.median(member_k))

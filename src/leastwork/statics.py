@@ -14,9 +14,11 @@ import numpy as np
 from scipy.linalg import lu_factor, lu_solve
 
 from .basis import Basis
+from .elements import kind_of
 from .errors import MechanismError
-from .fields import ParticularFields, particular_fields
-from .model import DistributedLoad, NodalLoad, PointLoad, Settlement, Structure
+from .fields import ParticularFields
+from .loadkinds import load_kind
+from .model import NodalLoad, Structure
 from .topology import Topology
 
 __all__ = ["CaseLoading", "ReleasedStructure", "case_loading"]
@@ -37,62 +39,82 @@ class CaseLoading:
 
 def case_loading(st: Structure, topo: Topology, case: str) -> CaseLoading:
     """Assemble the nodal load vector, span-load fields, imposed deformations and
-    settlements of load case ``case``."""
-    from .energy import thermal_strains
-
+    settlements of load case ``case``: each load puts its effects on a :class:`_Sink`
+    through its kind (:mod:`leastwork.loadkinds`)."""
     loads = tuple(ld for ld in st.loads if ld.case == case)
-    p = np.zeros(len(topo.dofs))
-    di = topo.dof_index
-    point: dict[str, list] = {}
-    dist: dict[str, list] = {}
-    nodal = []
+    sink = _Sink(st, topo, case)
+    for ld in loads:
+        kind = load_kind(ld)
+        kind.apply(kind.values(ld), ld, sink)
+    particulars: dict[str, ParticularFields] = {}
+    for mid in dict.fromkeys([*sink.point, *sink.dist]):
+        m = st.members[mid]
+        pf = kind_of(m).particular(m, st.length(mid), st.direction(mid),
+                                   sink.point.get(mid, []), sink.dist.get(mid, []))
+        particulars[mid] = pf
+        sink.add_nodal(m.start, *pf.start_force, 0.0)
+        sink.add_nodal(m.end, *pf.end_force, 0.0)
+    imposed = {k: (v[0], v[1], v[2]) for k, v in sink.strains.items()}
+    return CaseLoading(case, sink.p, particulars, imposed, sink.c, tuple(sink.nodal), loads)
 
-    def add_nodal(node: str, fx: float, fy: float, mz: float) -> None:
+
+class _Sink:
+    """The effects of one load case's loads in SI floats (a :class:`leastwork.loadkinds.
+    LoadSink`)."""
+
+    zero = 0.0
+
+    def __init__(self, st: Structure, topo: Topology, case: str):
+        self.st, self.topo, self.case = st, topo, case
+        self.p = np.zeros(len(topo.dofs))
+        self.c = np.zeros(len(topo.columns))
+        self.point: dict[str, list] = {}
+        self.dist: dict[str, list] = {}
+        self.nodal: list = []
+        self.strains: dict[str, list[float]] = {}
+
+    def section(self, member: str):
+        return self.st.members[member]
+
+    def add_nodal(self, node: str, fx: float, fy: float, mz: float) -> None:
+        di, p = self.topo.dof_index, self.p
         p[di[f"{node}.x"]] += fx
         p[di[f"{node}.y"]] += fy
         if mz:
             key = f"{node}.rz"
             if key not in di:
                 raise MechanismError(
-                    f"{st.source}: a moment is applied at node {node}, where every member end "
-                    "is hinged: nothing resists it (a mechanism).", [key])
+                    f"{self.st.source}: a moment is applied at node {node}, where every "
+                    "member end is hinged: nothing resists it (a mechanism).", [key])
             p[di[key]] += mz
 
-    for ld in loads:
-        if isinstance(ld, NodalLoad):
-            add_nodal(ld.node, ld.fx, ld.fy, ld.mz)
-            nodal.append(ld)
-        elif isinstance(ld, PointLoad):
-            m = st.members[ld.member]
-            L = st.length(m.id)
-            tol = 1e-12 * max(L, 1.0)
-            if ld.at <= tol or ld.at >= L - tol:
-                node = m.start if ld.at <= tol else m.end
-                add_nodal(node, ld.fx, ld.fy, ld.mz)
-                nodal.append(NodalLoad(node, ld.fx, ld.fy, ld.mz, ld.case))
-            else:
-                point.setdefault(m.id, []).append((ld.at, ld.fx, ld.fy, ld.mz))
-        elif isinstance(ld, DistributedLoad):
-            L = st.length(ld.member)
-            end = L if np.isnan(ld.end) else ld.end
-            dist.setdefault(ld.member, []).append((ld.start, end, ld.wx, ld.wy))
-    particulars: dict[str, ParticularFields] = {}
-    for mid in dict.fromkeys([*point, *dist]):
-        m = st.members[mid]
-        pf = particular_fields(st.length(mid), st.direction(mid), point.get(mid, []),
-                               dist.get(mid, []))
-        particulars[mid] = pf
-        add_nodal(m.start, *pf.start_force, 0.0)
-        add_nodal(m.end, *pf.end_force, 0.0)
-    settlement = np.zeros(len(topo.columns))
-    for ld in loads:
-        if isinstance(ld, Settlement):
-            for direction, value in ld.values:
-                name = f"{ld.node}.{direction}"
-                if name in topo.column_index:
-                    settlement[topo.column_index[name]] += value
-    return CaseLoading(case, p, particulars, thermal_strains(st, loads), settlement,
-                       tuple(nodal), loads)
+    def node_force(self, node: str, fx, fy, mz) -> None:
+        self.add_nodal(node, fx, fy, mz)
+        self.nodal.append(NodalLoad(node, fx, fy, mz, self.case))
+
+    def member_point(self, member: str, at, fx, fy, mz) -> None:
+        m = self.st.members[member]
+        L = self.st.length(member)
+        tol = 1e-12 * max(L, 1.0)
+        if at <= tol or at >= L - tol:
+            self.node_force(m.start if at <= tol else m.end, fx, fy, mz)
+        else:
+            self.point.setdefault(member, []).append((at, fx, fy, mz))
+
+    def member_distributed(self, member: str, start, end, wx, wy) -> None:
+        end = self.st.length(member) if end is None else end
+        self.dist.setdefault(member, []).append((start, end, wx, wy))
+
+    def member_strain(self, member: str, eps, kappa, misfit) -> None:
+        acc = self.strains.setdefault(member, [0.0, 0.0, 0.0])
+        for i, v in enumerate((eps, kappa, misfit)):
+            if v:
+                acc[i] += v
+
+    def settlement(self, node: str, direction: str, value) -> None:
+        name = f"{node}.{direction}"
+        if name in self.topo.column_index:
+            self.c[self.topo.column_index[name]] += value
 
 
 class ReleasedStructure(Basis):

@@ -22,6 +22,7 @@ from typing import TYPE_CHECKING
 
 import numpy as np
 
+from .elements import has_bending, kind_of
 from .errors import CaseError, MechanismError
 from .model import Structure, rotational_nodes
 from .scaling import scaled_dense as _scaled
@@ -132,26 +133,12 @@ def assemble_equilibrium(st: Structure):
     columns: list[Column] = []
     entries: list[list[tuple[str, float]]] = []
     for m in st.members.values():
-        L = st.length(m.id)
-        c, s = st.direction(m.id)
-        ey = (-s, c)
-        axial_name = m.id if m.kind == "bar" else f"{m.id}.n"
-        columns.append(Column(axial_name, "axial", m.id))
-        entries.append([(f"{m.start}.x", c), (f"{m.start}.y", s),
-                        (f"{m.end}.x", -c), (f"{m.end}.y", -s)])
-        if not m.is_beam:
-            continue
-        # member on node: start  -(me - ms)/L * ey, moment +ms ; end +(me - ms)/L * ey, -me
-        if not m.hinge_start:
-            columns.append(Column(f"{m.id}.start.m", "start_m", m.id))
-            entries.append([(f"{m.start}.x", ey[0] / L), (f"{m.start}.y", ey[1] / L),
-                            (f"{m.start}.rz", 1.0),
-                            (f"{m.end}.x", -ey[0] / L), (f"{m.end}.y", -ey[1] / L)])
-        if not m.hinge_end:
-            columns.append(Column(f"{m.id}.end.m", "end_m", m.id))
-            entries.append([(f"{m.start}.x", -ey[0] / L), (f"{m.start}.y", -ey[1] / L),
-                            (f"{m.end}.x", ey[0] / L), (f"{m.end}.y", ey[1] / L),
-                            (f"{m.end}.rz", -1.0)])
+        kind = kind_of(m)
+        forces = kind.basic_forces(m)
+        for bf, col in zip(forces, kind.equilibrium(m, st.length(m.id), *st.direction(m.id),
+                                                    1.0), strict=True):
+            columns.append(Column(bf.name, bf.role, m.id))
+            entries.append(col)
     restraints = []
     dropped = []
     for sup in st.supports.values():
@@ -382,7 +369,7 @@ def _keep_order(st: Structure, topo: Topology) -> list[int]:
         if c.kind == "reaction":
             (springs if topo.restraints[c.restraint_index].is_spring else rigid).append(j)
         elif c.kind == "axial":
-            (bars if st.members[c.owner].kind == "bar" else axial_beam).append(j)
+            (axial_beam if has_bending(st.members[c.owner]) else bars).append(j)
         else:
             moments.append(j)
     # axially rigid beams first among axial forces: their axial force has no flexibility

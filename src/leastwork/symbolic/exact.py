@@ -24,15 +24,8 @@ import sympy
 from sympy import Rational
 
 from ..errors import CaseError
-from ..model import (
-    DistributedLoad,
-    Misfit,
-    NodalLoad,
-    PointLoad,
-    Settlement,
-    Structure,
-    TemperatureLoad,
-)
+from ..loadkinds import load_kind
+from ..model import Structure
 from ..units import DIMENSIONS, UnitSystem, ureg
 
 __all__ = ["ExactModel", "read_exact", "exact_number", "exact_factor", "case_factor"]
@@ -427,77 +420,52 @@ def _combination_loads(st: Structure, base, exact_base: list, ev, values, units)
     return out
 
 
+#: Fields of a load kind's values that are positions: they do not scale with a factor.
+_POSITIONS = ("at", "start", "end")
+
+#: Dimension of each scaled field of a load kind's values (a settlement's by direction).
+_DIMENSION = {"fx": "force", "fy": "force", "mz": "moment", "wx": "force/length",
+              "wy": "force/length", "uniform": "temperature difference",
+              "gradient": "temperature difference", "elongation": "length"}
+
+
+def _scale(v, f):
+    """``v`` times ``f``: a number, a [start, end] pair, or (direction, value) pairs."""
+    if isinstance(v, tuple) and len(v) == 2 and isinstance(v[0], str):
+        return (v[0], f * v[1])
+    if isinstance(v, (list, tuple)):
+        return type(v)(_scale(x, f) for x in v)
+    return f * v
+
+
 def _scaled_load(ld, exact: dict[str, Any], f: sympy.Expr) -> dict[str, Any]:
-    """The exact fields of ``ld`` times ``f`` (as :func:`leastwork.model.scaled_load`:
-    intensities, temperatures, misfits and settlements scale; positions do not)."""
-    out = dict(exact)
-    if isinstance(ld, (NodalLoad, PointLoad)):
-        for key in ("fx", "fy", "mz"):
-            out[key] = f * exact[key]
-    elif isinstance(ld, DistributedLoad):
-        for key in ("wx", "wy"):
-            out[key] = (f * exact[key][0], f * exact[key][1])
-    elif isinstance(ld, TemperatureLoad):
-        out["uniform"] = f * exact["uniform"]
-        out["gradient"] = f * exact["gradient"]
-    elif isinstance(ld, Misfit):
-        out["elongation"] = f * exact["elongation"]
-    elif isinstance(ld, Settlement):
-        out["values"] = [(d, f * v) for d, v in exact["values"]]
-    else:
-        raise RuntimeError(f"unknown load {ld!r}")
-    return out
+    """The exact fields of ``ld`` times ``f`` (as the load's own ``scaled``: intensities,
+    temperatures, misfits and settlements scale; positions do not)."""
+    return {k: (v if k in _POSITIONS or v is None else _scale(v, f)) for k, v in exact.items()}
+
+
+def _pairs(key: str, exact, value) -> list[tuple[Any, float, str]]:
+    """(exact, SI value, dimension) of every number of one scaled field."""
+    if isinstance(value, (list, tuple)):
+        if value and isinstance(value[0], tuple):  # settlement: (direction, value) pairs
+            return [(e, v, "angle" if d == "rz" else "length")
+                    for (d, e), (_, v) in zip(exact, value)]
+        return [(e, v, _DIMENSION[key]) for e, v in zip(exact, value)]
+    return [(exact, value, _DIMENSION[key])]
 
 
 def _check_scaled(ld, exact: dict[str, Any], where: str, values, units) -> None:
     """Check the exact factored load against the reader's factored load (SI)."""
-    if isinstance(ld, (NodalLoad, PointLoad)):
-        pairs = [(exact["fx"], ld.fx, "force"), (exact["fy"], ld.fy, "force"),
-                 (exact["mz"], ld.mz, "moment")]
-    elif isinstance(ld, DistributedLoad):
-        pairs = [(exact[k][i], getattr(ld, k)[i], "force/length")
-                 for k in ("wx", "wy") for i in (0, 1)]
-    elif isinstance(ld, TemperatureLoad):
-        pairs = [(exact["uniform"], ld.uniform, "temperature difference"),
-                 (exact["gradient"], ld.gradient, "temperature difference")]
-    elif isinstance(ld, Misfit):
-        pairs = [(exact["elongation"], ld.elongation, "length")]
-    else:
-        pairs = [(e, v, "angle" if d == "rz" else "length")
-                 for (d, e), (_, v) in zip(exact["values"], ld.values)]
-    for expr, si, dimension in pairs:
-        _agree(sympy.sympify(expr), si, dimension, where, values, units)
+    for key, value in load_kind(ld).values(ld).items():
+        if key in _POSITIONS or value is None:
+            continue
+        for expr, si, dimension in _pairs(key, exact[key], value):
+            _agree(sympy.sympify(expr), si, dimension, where, values, units)
 
 
 def _exact_load(ld, w: str, get, fields) -> dict[str, Any]:
-    if isinstance(ld, NodalLoad):
-        return {"fx": get(f"{w}.fx", ld.fx, "force"), "fy": get(f"{w}.fy", ld.fy, "force"),
-                "mz": get(f"{w}.mz", ld.mz, "moment")}
-    if isinstance(ld, PointLoad):
-        return {"at": get(f"{w}.at", None, "length"), "fx": get(f"{w}.fx", ld.fx, "force"),
-                "fy": get(f"{w}.fy", ld.fy, "force"), "mz": get(f"{w}.mz", ld.mz, "moment")}
-    if isinstance(ld, DistributedLoad):
-        out: dict[str, Any] = {"start": get(f"{w}.from", None, "length"),
-                               "end": get(f"{w}.to", None, "length")
-                               if f"{w}.to" in fields else None}
-        for key, pair in (("wx", ld.wx), ("wy", ld.wy)):
-            if f"{w}.{key}" in fields:
-                v = get(f"{w}.{key}", pair[0], "force/length")
-                out[key] = (v, v)
-            else:
-                out[key] = (get(f"{w}.{key}[0]", pair[0], "force/length"),
-                            get(f"{w}.{key}[1]", pair[1], "force/length"))
-        return out
-    if isinstance(ld, TemperatureLoad):
-        return {"uniform": get(f"{w}.temperature.uniform", ld.uniform, "temperature difference"),
-                "gradient": get(f"{w}.temperature.gradient", ld.gradient,
-                                "temperature difference")}
-    if isinstance(ld, Misfit):
-        return {"elongation": get(f"{w}.misfit", ld.elongation, "length")}
-    if isinstance(ld, Settlement):
-        return {"values": [(d, get(f"{w}.d{d}", v, "angle" if d == "rz" else "length"))
-                           for d, v in ld.values]}
-    raise RuntimeError(f"unknown load {ld!r}")
+    """The exact values of one load (case units), as its kind reads them."""
+    return load_kind(ld).exact(ld, w, get, fields)
 
 
 def _agree(expr: sympy.Expr, si: float, dimension: str, where: str, values, units) -> None:

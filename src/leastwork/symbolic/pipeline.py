@@ -33,16 +33,10 @@ from typing import Any
 import mpmath
 import sympy
 
+from ..elements import kind_of
 from ..errors import CaseError
-from ..model import (
-    DistributedLoad,
-    Misfit,
-    NodalLoad,
-    PointLoad,
-    Settlement,
-    Structure,
-    TemperatureLoad,
-)
+from ..loadkinds import load_kind
+from ..model import Structure
 from .algebra import (
     Algebra,
     Atomizer,
@@ -244,6 +238,11 @@ class _Pipeline:
         """Entries of the equilibrium matrix A, column by column (as build_topology)."""
         st, topo, alg = self.st, self.topo, self.alg
         di = topo.dof_index
+        member_entries = {}
+        for m in st.members.values():
+            g, kind = self.mem[m.id], kind_of(m)
+            member_entries.update(zip((bf.name for bf in kind.basic_forces(m)),
+                                      kind.equilibrium(m, g.L, g.c, g.s, alg.one), strict=True))
         out = []
         for col in topo.columns:
             e: list[tuple[str, Any]] = []
@@ -259,21 +258,7 @@ class _Pipeline:
                 if vec[2]:
                     e.append((f"{r.node}.rz", vec[2]))
             else:
-                m = st.members[col.owner]
-                g = self.mem[m.id]
-                c, s, L = g.c, g.s, g.L
-                ey = (-s, c)
-                if col.kind == "axial":
-                    e = [(f"{m.start}.x", c), (f"{m.start}.y", s), (f"{m.end}.x", -c),
-                         (f"{m.end}.y", -s)]
-                elif col.kind == "start_m":
-                    e = [(f"{m.start}.x", ey[0] / L), (f"{m.start}.y", ey[1] / L),
-                         (f"{m.start}.rz", alg.one), (f"{m.end}.x", -ey[0] / L),
-                         (f"{m.end}.y", -ey[1] / L)]
-                else:
-                    e = [(f"{m.start}.x", -ey[0] / L), (f"{m.start}.y", -ey[1] / L),
-                         (f"{m.end}.x", ey[0] / L), (f"{m.end}.y", ey[1] / L),
-                         (f"{m.end}.rz", -alg.one)]
+                e = member_entries[col.name]
             acc: dict[int, Any] = {}
             for dof, v in e:
                 if v:
@@ -322,20 +307,11 @@ class _Pipeline:
 
         for m in st.members.values():
             g = self.mem[m.id]
-            axial = ci[m.id] if m.kind == "bar" else ci[f"{m.id}.n"]
-            if g.EA is not None:
-                add(axial, axial, g.L / g.EA)
-            if not m.is_beam:
-                continue
-            ends = [ci.get(f"{m.id}.start.m"), ci.get(f"{m.id}.end.m")]
-            d, o = g.L / (3 * g.EI), g.L / (6 * g.EI)
-            block = [[d, o], [o, d]]
-            if st.shear and g.GAs is not None:
-                sh = alg.one / (g.L * g.GAs)
-                block = [[d + sh, o - sh], [o - sh, d + sh]]
-            for a in range(2):
-                for b in range(2):
-                    add(ends[a], ends[b], block[a][b])
+            cols = [ci[bf.name] for bf in kind_of(m).basic_forces(m)]
+            for term in kind_of(m).flexibility(m, g, g.L, st.shear, alg.one):
+                for a, row in zip(term.forces, term.block, strict=True):
+                    for b, v in zip(term.forces, row, strict=True):
+                        add(cols[a], cols[b], v)
         for j, c in enumerate(topo.columns):
             if c.kind == "reaction":
                 r = topo.restraints[c.restraint_index]
@@ -405,67 +381,13 @@ class _Pipeline:
                        start, end)
 
     def _loading(self, case: str) -> dict[str, Any]:
-        st, topo, alg = self.st, self.topo, self.alg
-        di = topo.dof_index
-        p = [self.zero] * self.ndof
-        nodal: list[tuple[str, Any, Any, Any]] = []
-        point: dict[str, list] = {}
-        dist: dict[str, list] = {}
-        imposed: dict[str, list] = {}
-        c = [self.zero] * self.ncol
-
-        def add_nodal(node, fx, fy, mz):
-            p[di[f"{node}.x"]] += fx
-            p[di[f"{node}.y"]] += fy
-            if mz:
-                key = f"{node}.rz"
-                if key not in di:
-                    raise CaseError(f"a moment is applied at node {node}, where every member "
-                                    "end is hinged: nothing resists it (a mechanism)",
-                                    source=st.source)
-                p[di[key]] += mz
-
+        st = self.st
+        sink = _Sink(self)
         for ld, x in zip(st.loads, self.model.loads):
-            if ld.case != case:
-                continue
-            if isinstance(ld, NodalLoad):
-                f = (alg.el(x["fx"]), alg.el(x["fy"]), alg.el(x["mz"]))
-                add_nodal(ld.node, *f)
-                nodal.append((ld.node, *f))
-            elif isinstance(ld, PointLoad):
-                m = st.members[ld.member]
-                L = self.mem[m.id].L
-                at = alg.el(x["at"])
-                f = (alg.el(x["fx"]), alg.el(x["fy"]), alg.el(x["mz"]))
-                if at == self.zero or at == L:
-                    node = m.start if at == self.zero else m.end
-                    add_nodal(node, *f)
-                    nodal.append((node, *f))
-                else:
-                    point.setdefault(m.id, []).append((at, *f))
-            elif isinstance(ld, DistributedLoad):
-                L = self.mem[ld.member].L
-                a = alg.el(x["start"])
-                b = alg.el(x["end"]) if x["end"] is not None else L
-                dist.setdefault(ld.member, []).append(
-                    (a, b, (alg.el(x["wx"][0]), alg.el(x["wx"][1])),
-                     (alg.el(x["wy"][0]), alg.el(x["wy"][1]))))
-            elif isinstance(ld, TemperatureLoad):
-                g = self.mem[ld.member]
-                acc = imposed.setdefault(ld.member, [self.zero] * 3)
-                alpha = g.alpha if g.alpha is not None else self.zero
-                acc[0] += alpha * alg.el(x["uniform"])
-                grad = alg.el(x["gradient"])
-                if grad:
-                    acc[1] += alpha * grad / g.depth
-            elif isinstance(ld, Misfit):
-                acc = imposed.setdefault(ld.member, [self.zero] * 3)
-                acc[2] += alg.el(x["elongation"])
-            elif isinstance(ld, Settlement):
-                for d, v in x["values"]:
-                    name = f"{ld.node}.{d}"
-                    if name in topo.column_index:
-                        c[topo.column_index[name]] += alg.el(v)
+            if ld.case == case:
+                load_kind(ld).apply(_exact_values(self.alg, x), ld, sink)
+        p, nodal, point, dist = sink.p, sink.nodal, sink.point, sink.dist
+        imposed, c, add_nodal = sink.imposed, sink.c, sink.add_nodal
         parts: dict[str, _Fields] = {}
         for mid in dict.fromkeys([*point, *dist]):
             self.tick()
@@ -483,34 +405,28 @@ class _Pipeline:
         e = [self.zero] * self.ncol
         for m in st.members.values():
             g = self.mem[m.id]
-            L = g.L
-            axial = ci[m.id] if m.kind == "bar" else ci[f"{m.id}.n"]
-            i_s, i_e = ci.get(f"{m.id}.start.m"), ci.get(f"{m.id}.end.m")
+            cols = [ci[bf.name] for bf in kind_of(m).basic_forces(m)]
             pf = parts.get(m.id)
-            if pf is not None:
-                if g.EA is not None:
-                    e[axial] += _integral(pf.n) / g.EA
-                if m.is_beam:
-                    ws = (self.alg.one, -self.alg.one / L)
-                    we = (self.zero, self.alg.one / L)
-                    if i_s is not None:
-                        e[i_s] += _integral(pf.m.map(lambda q, w=ws: pmul(q, w))) / g.EI
-                    if i_e is not None:
-                        e[i_e] += _integral(pf.m.map(lambda q, w=we: pmul(q, w))) / g.EI
-                if st.shear and g.GAs is not None:
-                    vint = _integral(pf.v) / (L * g.GAs)
-                    if i_s is not None:
-                        e[i_s] -= vint
-                    if i_e is not None:
-                        e[i_e] += vint
-            if m.id in imposed:
-                eps, kappa, misfit = imposed[m.id]
-                e[axial] += eps * L + misfit
-                if i_s is not None:
-                    e[i_s] += kappa * L / 2
-                if i_e is not None:
-                    e[i_e] += kappa * L / 2
+            integral = None if pf is None else self._span_integral(pf, g.L)
+            for _, i, value in kind_of(m).initial_deformations(
+                    m, g, g.L, st.shear, integral, imposed.get(m.id), self.alg.one):
+                if value:
+                    e[cols[i]] += value
         return e
+
+    @staticmethod
+    def _span_integral(pf: _Fields, L):
+        """``integral(f, weight)`` of :meth:`leastwork.elements.MemberKind.
+        initial_deformations`: int_0^L weight(x/L) f0(x) dx, exactly."""
+
+        def integral(f: str, weight) -> Any:
+            in_x, power = [], L / L
+            for c in weight:
+                in_x.append(c / power)
+                power = power * L
+            return _integral(getattr(pf, f).map(lambda q, w=tuple(in_x): pmul(q, w)))
+
+        return integral
 
     # ------------------------------------------------------------------ solve
     def run(self) -> ExactSolution:
@@ -627,19 +543,18 @@ class _Pipeline:
         m = st.members[mid]
         g = self.mem[mid]
         z = self.zero
-        N = s[ci[mid] if m.kind == "bar" else ci[f"{mid}.n"]]
-        ms = s[ci[f"{mid}.start.m"]] if f"{mid}.start.m" in ci else z
-        me = s[ci[f"{mid}.end.m"]] if f"{mid}.end.m" in ci else z
+        kind = kind_of(m)
+        fields = kind.force_fields(m, g.L, [s[ci[bf.name]] for bf in kind.basic_forces(m)],
+                                   z)
         if pf is None:
             breaks = [z, g.L]
             cn, cv, cm = [(z,)], [(z,)], [(z,)]
         else:
             breaks = pf.m.breaks
             cn, cv, cm = pf.n.pieces, pf.v.pieces, pf.m.pieces
-        slope = (me - ms) / g.L
-        cn = [padd(p, (N,)) for p in cn]
-        cm = [padd(p, (ms, slope)) for p in cm]
-        cv = [padd(p, (slope,)) for p in cv]
+        cn = [padd(p, tuple(fields.get("n", (z,)))) for p in cn]
+        cm = [padd(p, tuple(fields.get("m", (z,)))) for p in cm]
+        cv = [padd(p, tuple(fields.get("v", (z,)))) for p in cv]
         return _Fields(Piecewise(breaks, cn), Piecewise(breaks, cv), Piecewise(breaks, cm),
                        (), ())
 
@@ -849,21 +764,88 @@ class _Pipeline:
         if pf is None:
             return value
         mr = ctx["finals"][mid]
-        eps, kappa, misfit = ctx["imposed"].get(mid, [z, z, z])
-        if g.EA is not None or eps or misfit:
-            free = eps + misfit / L
-            for x0, x1, pu, pr in merged(alg, pf.n, mr.n):
-                inner = pscale(pr, one / g.EA) if g.EA is not None else (z,)
-                inner = padd(inner, (free,))
+        kind = kind_of(mem)
+        section = kind.section(mem, g, st.shear)
+        free = kind.free_strains(mem, g, L, ctx["imposed"].get(mid, [z, z, z]))
+        for f in ("n", "m", "v"):  # virtual work of the unit load's fields on the strains
+            K, extra = section.get(f), free.get(f, [])
+            if K is None and not any(extra):
+                continue
+            for x0, x1, pu, pr in merged(alg, getattr(pf, f), getattr(mr, f)):
+                inner = pscale(pr, one / K) if K is not None else (z,)
+                for e in extra:
+                    inner = padd(inner, (e,))
                 value += pintegral(pmul(pu, inner), x0, x1)
-        if mem.is_beam:
-            for x0, x1, pu, pr in merged(alg, pf.m, mr.m):
-                inner = padd(pscale(pr, one / g.EI), (kappa,))
-                value += pintegral(pmul(pu, inner), x0, x1)
-            if st.shear and g.GAs is not None:
-                for x0, x1, pu, pr in merged(alg, pf.v, mr.v):
-                    value += pintegral(pmul(pu, pr), x0, x1) / g.GAs
         return value
+
+
+class _Sink:
+    """The effects of one load case's loads in exact numbers (a
+    :class:`leastwork.loadkinds.LoadSink`)."""
+
+    def __init__(self, pipe: _Pipeline):
+        self.pipe = pipe
+        self.zero = pipe.zero
+        self.p = [pipe.zero] * pipe.ndof
+        self.c = [pipe.zero] * pipe.ncol
+        self.nodal: list[tuple[str, Any, Any, Any]] = []
+        self.point: dict[str, list] = {}
+        self.dist: dict[str, list] = {}
+        self.imposed: dict[str, list] = {}
+
+    def section(self, member: str) -> _Member:
+        return self.pipe.mem[member]
+
+    def add_nodal(self, node, fx, fy, mz) -> None:
+        di = self.pipe.topo.dof_index
+        self.p[di[f"{node}.x"]] += fx
+        self.p[di[f"{node}.y"]] += fy
+        if mz:
+            key = f"{node}.rz"
+            if key not in di:
+                raise CaseError(f"a moment is applied at node {node}, where every member "
+                                "end is hinged: nothing resists it (a mechanism)",
+                                source=self.pipe.st.source)
+            self.p[di[key]] += mz
+
+    def node_force(self, node: str, fx, fy, mz) -> None:
+        self.add_nodal(node, fx, fy, mz)
+        self.nodal.append((node, fx, fy, mz))
+
+    def member_point(self, member: str, at, fx, fy, mz) -> None:
+        m = self.pipe.st.members[member]
+        L = self.pipe.mem[member].L
+        if at == self.zero or at == L:
+            self.node_force(m.start if at == self.zero else m.end, fx, fy, mz)
+        else:
+            self.point.setdefault(member, []).append((at, fx, fy, mz))
+
+    def member_distributed(self, member: str, start, end, wx, wy) -> None:
+        end = self.pipe.mem[member].L if end is None else end
+        self.dist.setdefault(member, []).append((start, end, tuple(wx), tuple(wy)))
+
+    def member_strain(self, member: str, eps, kappa, misfit) -> None:
+        acc = self.imposed.setdefault(member, [self.zero] * 3)
+        for i, v in enumerate((eps, kappa, misfit)):
+            if v:
+                acc[i] += v
+
+    def settlement(self, node: str, direction: str, value) -> None:
+        ci = self.pipe.topo.column_index
+        name = f"{node}.{direction}"
+        if name in ci:
+            self.c[ci[name]] += value
+
+
+def _exact_values(alg: Algebra, v):
+    """A load's exact values (sympy) as elements of K; names and None kept."""
+    if v is None or isinstance(v, str):
+        return v
+    if isinstance(v, dict):
+        return {k: _exact_values(alg, x) for k, x in v.items()}
+    if isinstance(v, (list, tuple)):
+        return type(v)(_exact_values(alg, x) for x in v)
+    return alg.el(v)
 
 
 def _line(a, b, f0, f1) -> tuple:

@@ -6,6 +6,7 @@ from __future__ import annotations
 
 import numpy as np
 
+from ...elements import column_of, has_bending, kind_of
 from ...fields import gauss_integral
 from ...solution import member_result
 from ..sheet import Grid, Step
@@ -22,7 +23,7 @@ def step_released(ctx: Context) -> Step:
     pairs = pair_labels(nr)
     if nr and any(m.EA is not None for m in st.members.values()):
         blocks.append(_unit_axial(ctx, pairs))
-    if nr and any(m.is_beam for m in st.members.values()):
+    if nr and any(has_bending(m) for m in st.members.values()):
         blocks.append(_unit_moments(ctx))
         blocks.append(_pair_table(ctx, "bending", "∫ m{i}·m{j} dx / EI", pairs))
         if st.shear:
@@ -37,16 +38,15 @@ def step_released(ctx: Context) -> Step:
 
 
 def _axial_column(ctx: Context, m) -> int:
-    ci = ctx.topo.column_index
-    return ci[m.id] if m.kind == "bar" else ci[f"{m.id}.n"]
+    return ctx.topo.column_index[column_of(m, "axial")]
 
 
-def _end_moments(ctx: Context, m, i: int) -> tuple[float, float]:
-    """End moments (SI) of beam ``m`` per unit X_i (0 at a hinged end)."""
-    ci = ctx.topo.column_index
-    ms = ctx.B[ci[f"{m.id}.start.m"], i] if f"{m.id}.start.m" in ci else 0.0
-    me = ctx.B[ci[f"{m.id}.end.m"], i] if f"{m.id}.end.m" in ci else 0.0
-    return ms, me
+def _unit_fields(ctx: Context, m, i: int) -> dict:
+    """Section-force fields (coefficients in x) of member ``m`` in unit state ``i``, as its
+    kind gives them."""
+    kind, ci = kind_of(m), ctx.topo.column_index
+    values = [ctx.B[ci[bf.name], i] for bf in kind.basic_forces(m)]
+    return kind.force_fields(m, ctx.st.length(m.id), values, 0.0)
 
 
 def _unit_axial(ctx: Context, pairs) -> Grid:
@@ -55,11 +55,13 @@ def _unit_axial(ctx: Context, pairs) -> Grid:
     heads += [f"n{i + 1} [{u.label(1 - ctx.xdim[i][0], -ctx.xdim[i][1])}]" for i in range(nr)]
     heads += [f"n{i + 1}·n{j + 1}·L/EA [{ctx.delta_label(i, j)}]" for i, j in pairs]
     rows, tot = [], np.zeros(len(pairs))
+    axial_terms = {t.owner: t for t in ctx.terms if t.term == "axial"}
     for m in (m for m in st.members.values() if m.EA is not None):
         k = _axial_column(ctx, m)
         L = st.length(m.id)
         n = [ctx.unit_state(k, i) for i in range(nr)]
-        prods = [ctx.delta_case(ctx.B[k, i] * ctx.B[k, j] * L / m.EA, i, j) for i, j in pairs]
+        flex = float(axial_terms[m.id].block[0, 0])  # the kind's L/EA
+        prods = [ctx.delta_case(ctx.B[k, i] * ctx.B[k, j] * flex, i, j) for i, j in pairs]
         tot += prods
         rows.append((m.id, u.convert(L, 0, 1), u.convert(m.EA, 1, 0), *n, *prods))
     per = "per unit state amplitude" if ctx.local else "per unit redundant"
@@ -70,12 +72,12 @@ def _unit_axial(ctx: Context, pairs) -> Grid:
 def _unit_moments(ctx: Context) -> Grid:
     st, u, nr = ctx.st, ctx.u, ctx.nred
     rows = []
-    for m in (m for m in st.members.values() if m.is_beam):
+    for m in (m for m in st.members.values() if has_bending(m)):
         L = st.length(m.id)
         polys = []
         for i in range(nr):
-            ms, me = _end_moments(ctx, m, i)
-            coef = scaled_poly([ms, (me - ms) / L], u.L, u.F ** (
+            moment = _unit_fields(ctx, m, i)["m"]
+            coef = scaled_poly([*moment, 0.0][:2], u.L, u.F ** (
                 1 - ctx.xdim[i][0]) * u.L ** (1 - ctx.xdim[i][1]))
             polys.append(poly_text(coef))
         rows.append((m.id, u.convert(L, 0, 1), u.convert(m.EI, 1, 2), *polys))
@@ -103,7 +105,7 @@ def _released_under_loads(ctx: Context, case: str) -> list:
     out: list = []
     if any(m.EA is not None for m in ctx.st.members.values()):
         out.append(_axial_under_loads(ctx, case))
-    if any(m.is_beam for m in ctx.st.members.values()):
+    if any(has_bending(m) for m in ctx.st.members.values()):
         out.append(_moments_under_loads(ctx, case))
     return out
 
@@ -132,16 +134,17 @@ def _moments_under_loads(ctx: Context, case: str) -> Grid:
              f"M0(x) [{u.label(1, 1)}]"]
     heads += [f"∫ M0·m{i + 1} dx/EI [{ctx.load_label(i)}]" for i in range(nr)]
     rows, tot = [], np.zeros(nr)
-    for m in (m for m in st.members.values() if m.is_beam):
+    for m in (m for m in st.members.values() if has_bending(m)):
         mr0 = member_result(st, topo, m.id, ctx.s0[case], res.loading.particulars.get(m.id))
-        L = st.length(m.id)
-        unit = [_end_moments(ctx, m, i) for i in range(nr)]
+        unit = [_unit_fields(ctx, m, i)["m"] for i in range(nr)]
+        EI = kind_of(m).section(m, m, st.shear)["m"]
         for a, b, coef in mr0.m.pieces():
             vals = []
-            for i, (ms, me) in enumerate(unit):
-                f = gauss_integral(np.array([a, b]), lambda x, c=coef, ms=ms, me=me, L=L: (
-                    np.polynomial.polynomial.polyval(x, c) * (ms + (me - ms) * x / L)))
-                vals.append(ctx.load_term_case(f / m.EI, i))
+            for i, mi in enumerate(unit):
+                f = gauss_integral(np.array([a, b]), lambda x, c=coef, mi=mi: (
+                    np.polynomial.polynomial.polyval(x, c)
+                    * np.polynomial.polynomial.polyval(x, mi)))
+                vals.append(ctx.load_term_case(f / EI, i))
             tot += vals
             rows.append((m.id, u.convert(a, 0, 1), u.convert(b, 0, 1),
                          poly_text(scaled_poly(coef, u.L, u.F * u.L)), *vals))

@@ -5,15 +5,8 @@ from __future__ import annotations
 
 import math
 
-from ...model import (
-    DistributedLoad,
-    Misfit,
-    NodalLoad,
-    PointLoad,
-    Settlement,
-    Structure,
-    TemperatureLoad,
-)
+from ...loadkinds import load_kind
+from ...model import Structure
 from ..quantities import Quantities
 from ..sheet import Formula, Grid, Para, Step, fmt
 from .context import Context
@@ -103,45 +96,6 @@ def _indeterminacy(ctx: Context) -> list:
 
 
 def load_row(st: Structure, u: Quantities, ld) -> tuple[str, str, str, str]:
-    """(case, kind, on, values) of one load, in the output units."""
-    lu = u.length_unit
-    if isinstance(ld, NodalLoad):
-        return ld.case, "nodal load", ld.node, _forces(u, ld.fx, ld.fy, ld.mz)
-    if isinstance(ld, PointLoad):
-        return (ld.case, "point load", f"{ld.member} at {fmt(u.convert(ld.at, 0, 1))} {lu}",
-                _forces(u, ld.fx, ld.fy, ld.mz))
-    if isinstance(ld, DistributedLoad):
-        return _distributed_row(st, u, ld)
-    if isinstance(ld, TemperatureLoad):
-        return (ld.case, "temperature", ld.member,
-                f"uniform {fmt(ld.uniform)} K, gradient {fmt(ld.gradient)} K")
-    if isinstance(ld, Misfit):
-        return ld.case, "misfit", ld.member, f"{fmt(u.convert(ld.elongation, 0, 1))} {lu}"
-    if isinstance(ld, Settlement):
-        vals = ", ".join(f"d{d} = " + (f"{fmt(v)} rad" if d == "rz" else
-                                       f"{fmt(u.convert(v, 0, 1))} {lu}")
-                         for d, v in ld.values)
-        return ld.case, "settlement", ld.node, vals
-    return ld.case, type(ld).__name__, "", ""  # pragma: no cover
-
-
-def _forces(u: Quantities, fx: float, fy: float, mz: float) -> str:
-    """"fx = ..., fy = ..., mz = ..." of the nonzero components, in the output units."""
-    parts = [f"{k} = {fmt(u.convert(v, *d))} {lab}" for k, v, d, lab in
-             (("fx", fx, (1, 0), u.force_unit), ("fy", fy, (1, 0), u.force_unit),
-              ("mz", mz, (1, 1), u.moment_unit)) if v]
-    return ", ".join(parts) or "0"
-
-
-def _distributed_row(st: Structure, u: Quantities, ld: DistributedLoad):
-    L = st.length(ld.member)
-    b = L if math.isnan(ld.end) else ld.end
-    parts = []
-    for k, pair in (("wx", ld.wx), ("wy", ld.wy)):
-        if any(pair):
-            a0, a1 = (fmt(u.convert(v, 1, -1)) for v in pair)
-            parts.append(f"{k} = {a0}" + ("" if pair[0] == pair[1] else f" to {a1}")
-                         + f" {u.label(1, -1)}")
-    return (ld.case, "distributed load",
-            f"{ld.member} from {fmt(u.convert(ld.start, 0, 1))} to {fmt(u.convert(b, 0, 1))} "
-            f"{u.length_unit}", ", ".join(parts) or "0")
+    """(case, kind, on, values) of one load, in the output units, as its kind describes it."""
+    kind = load_kind(ld)
+    return (ld.case, kind.words, *kind.describe(st, u, ld))
