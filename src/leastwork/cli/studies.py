@@ -1,9 +1,9 @@
-"""Command line of the studies: ``leastwork fitup`` and ``leastwork influence``.
+"""``leastwork fitup`` and ``leastwork influence``: the studies.
 
-``add_parsers(sub)`` adds both subcommands to the subparsers of :mod:`leastwork.cli` (whose
-parser class turns a bad option into exit status 2 with one line); ``run(args, console)``
-solves the case once and prints rich tables (units in the headers) or the JSON of
-docs/studies.md.
+``add_parsers(sub)`` adds both subcommands to the subparsers of
+:func:`leastwork.cli.parser.build_parser` (whose parser class turns a bad option into exit
+status 2 with one line); :func:`run_fitup` and :func:`run_influence` solve the case once and
+print rich tables (units in the headers) or the JSON of docs/studies.md.
 """
 
 from __future__ import annotations
@@ -11,14 +11,11 @@ from __future__ import annotations
 import json
 import sys
 
-import numpy as np
+from ..errors import CaseError
+from ..plaintext import literal
+from .common import console_for
 
-from .errors import CaseError
-from .plaintext import literal
-
-__all__ = ["add_parsers", "run", "COMMANDS"]
-
-COMMANDS = ("fitup", "influence")
+__all__ = ["add_parsers", "run_fitup", "run_influence"]
 
 _FITUP = """\
 Fit-up tolerance study: the forces locked into the structure by members made within a
@@ -35,8 +32,8 @@ the listed members, for all positions at once by the force method.
 
 def add_parsers(sub) -> None:
     """Add the ``fitup`` and ``influence`` subcommands to ``sub``, the subparsers action of
-    :func:`leastwork.cli._parser` (made with ``parser_class=_Parser``, so that a bad option
-    exits with status 2 and one line)."""
+    :func:`leastwork.cli.parser.build_parser` (made with ``parser_class=Parser``, so that a
+    bad option exits with status 2 and one line)."""
     import argparse
 
     kw = {"formatter_class": argparse.RawDescriptionHelpFormatter}
@@ -82,24 +79,27 @@ def _add(sub, name: str, help_text: str, description: str, kw: dict):
     return sub.add_parser(name, help=help_text, description=description, **kw)
 
 
-def run(args, console) -> int:
-    """Run ``fitup`` or ``influence``; returns the exit status (errors are raised as
-    CaseError / MechanismError for :func:`leastwork.cli.main` to report)."""
-    from .caseio import load_case
+def run_fitup(args) -> int:
+    """``leastwork fitup``; returns the exit status (errors are raised as CaseError /
+    MechanismError for :func:`leastwork.cli.main` to report)."""
+    from ..io.reader import load_case
 
-    st = load_case(args.case)
-    if args.command == "fitup":
-        return _fitup(args, st, console)
-    if args.command == "influence":
-        return _influence(args, st, console)
-    raise CaseError(f'unknown study "{args.command}"', source="command line")
+    return _fitup(args, load_case(args.case), console_for(args))
+
+
+def run_influence(args) -> int:
+    """``leastwork influence``; returns the exit status (errors raised as for
+    :func:`run_fitup`)."""
+    from ..io.reader import load_case
+
+    return _influence(args, load_case(args.case), console_for(args))
 
 
 # ---------------------------------------------------------------------------- fitup
 def _fitup(args, st, console) -> int:
-    from .fitup import adjustment, adjustment_to_dict, fitup_study, parse_tolerances
-    from .fitup import study_to_dict as to_dict
-    from .solve import solve
+    from ..fitup import adjustment, adjustment_to_dict, fitup_study, parse_tolerances
+    from ..fitup import study_to_dict as to_dict
+    from ..solve import solve
 
     if args.tolerance is None and args.adjust is None and args.zero is None:
         raise CaseError("give --tolerance SPEC (e.g. DA=2mm,*=1mm) and/or --adjust MEMBER "
@@ -139,7 +139,7 @@ def _fitup(args, st, console) -> int:
 
 
 def _header(console, sol) -> None:
-    from .report.terminal import heading, user_text
+    from ..report.terminal import heading, user_text
 
     st = sol.structure
     console.print(heading(st.name, st.source))
@@ -160,7 +160,7 @@ def _length(x_si: float, units) -> str:
 def _print_study(console, study, units) -> None:
     from rich.table import Table
 
-    from .report.terminal import user_text
+    from ..report.terminal import user_text
 
     rep = study.quantities
     tol = ", ".join(f"{m} ±{_g(t / units.factor('length'))}" for m, t in study.tolerances.items())
@@ -202,7 +202,7 @@ def _print_study(console, study, units) -> None:
 def _print_adjustment(console, adj, units) -> None:
     from rich.table import Table
 
-    from .report.terminal import user_text
+    from ..report.terminal import user_text
 
     Ff, Lf = units.factor("force"), units.factor("length")
     how = "longer" if adj.change > 0 else "shorter"
@@ -234,8 +234,7 @@ def _draw_influence(d: dict, args, st) -> None:
     import io
     import pathlib
 
-    from .errors import CaseError
-    from .writing import write_files
+    from ..io.writing import write_files
 
     out = pathlib.Path(args.output)
     if out.suffix.lower() not in (".png", ".svg"):
@@ -282,9 +281,11 @@ def _draw_influence(d: dict, args, st) -> None:
 
 
 def _influence(args, st, console) -> int:
-    from .influence import influence_line, influence_to_dict, parse_members, parse_quantity
-    from .solve import solve
-    from .topology import build_topology
+    import numpy as np
+
+    from ..influence import influence_line, influence_to_dict, parse_members, parse_quantity
+    from ..solve import solve
+    from ..topology import build_topology
 
     topo = build_topology(st)
     q = parse_quantity(st, topo, args.quantity)  # refuse bad input before solving
@@ -306,7 +307,7 @@ def _influence(args, st, console) -> int:
     along = ", ".join(dict.fromkeys(p["member"] for p in d["points"]))
     from rich.text import Text
 
-    from .report.terminal import user_text
+    from ..report.terminal import user_text
 
     console.print(Text.assemble(
         "Influence line of ", (literal(d["quantity"]), "bold"),

@@ -1,25 +1,60 @@
-"""A short tour of leastwork on one starter case: ``leastwork demo``.
+"""``leastwork new`` and ``leastwork demo``: starter cases to begin from, and a short tour.
 
-It solves the ``tied-beam`` starter (a canopy cantilever held up by a tie rod with a
-turnbuckle, see :mod:`leastwork.starters`) and shows, in a few screens, the summary of one
-load case with its equilibrium check and direct-stiffness cross-check, a glimpse of the
-audit trail (flexibility, load terms and the compatibility equation), the forces locked in
-by tightening the turnbuckle (a misfit) and their superposition with the loads, and the
-commands to try next. Everything is computed on the spot; nothing is written to disk.
+``new KIND`` prints a commented starter case (:mod:`leastwork.io.starters`); ``new --list``
+lists the kinds. ``demo`` solves the ``tied-beam`` starter (a canopy cantilever held up by a
+tie rod with a turnbuckle) and shows, in a few screens, the summary of one load case with its
+equilibrium check and direct-stiffness cross-check, a glimpse of the audit trail
+(flexibility, load terms and the compatibility equation), the forces locked in by tightening
+the turnbuckle (a misfit) and their superposition with the loads, and the commands to try
+next. Everything is computed on the spot; nothing is written to disk.
 """
 
 from __future__ import annotations
 
 import dataclasses
+import sys
+from typing import TYPE_CHECKING
 
-from rich.console import Console
-from rich.markup import escape
-from rich.panel import Panel
-from rich.table import Table
+from ..errors import CaseError
 
-from .report.terminal import user_text
+if TYPE_CHECKING:
+    from rich.console import Console
+    from rich.table import Table
 
-__all__ = ["run_demo", "DEMO_KIND", "NEXT_COMMANDS"]
+__all__ = ["DEMO_KIND", "NEXT_COMMANDS", "add_parsers", "run_demo", "run_demo_command",
+           "run_new"]
+
+
+def add_parsers(sub) -> None:
+    """Add the ``new`` and ``demo`` subcommands to ``sub``."""
+    n = sub.add_parser("new", help="print a commented starter case to standard output",
+                       description="Print a commented starter case; redirect it to a file "
+                                   "and edit it: leastwork new portal-frame > shed.toml")
+    n.add_argument("kind", nargs="?", help="kind of structure (see --list)")
+    n.add_argument("--list", action="store_true", help="list the kinds, one per line")
+    sub.add_parser("demo", help="solve a bundled example and show what the tool can do")
+
+
+def run_new(args) -> int:
+    """``leastwork new KIND`` (the starter's text) or ``new --list`` (the kinds)."""
+    from ..io.starters import starter_kinds, starter_text
+
+    if args.list:
+        print("\n".join(starter_kinds()))
+        return 0
+    if not args.kind:
+        raise CaseError("name a kind of structure, or --list to see them: "
+                        + ", ".join(starter_kinds()), source="command line", where="new")
+    sys.stdout.write(starter_text(args.kind))
+    return 0
+
+
+def run_demo_command(args) -> int:
+    """``leastwork demo`` on the terminal."""
+    from rich.console import Console
+
+    return run_demo(Console())
+
 
 #: The starter the demo solves.
 DEMO_KIND = "tied-beam"
@@ -68,6 +103,10 @@ def _value(d: dict, case: str, *path: str) -> float:
 
 def _effects_table(d: dict, cases: list[str]) -> Table:
     """Tie force, wall moment and tip deflection per load case (case units)."""
+    from rich.table import Table
+
+    from ..report.terminal import user_text
+
     u = d["units"]
     t = Table(title="What each load case does", header_style="bold")
     t.add_column("load case")
@@ -84,11 +123,15 @@ def _effects_table(d: dict, cases: list[str]) -> Table:
 
 def run_demo(console: Console) -> int:
     """Show what leastwork does on the ``tied-beam`` starter; returns exit status 0."""
-    from .caseio import loads_case
-    from .output.audit import audit_sheet
-    from .report.terminal import print_sheet, print_summary
-    from .solve import solve
-    from .starters import STARTERS, starter_text
+    from rich.markup import escape
+    from rich.panel import Panel
+    from rich.table import Table
+
+    from ..io.reader import loads_case
+    from ..io.starters import STARTERS, starter_text
+    from ..output.audit import audit_sheet
+    from ..report.terminal import print_sheet, print_summary, user_text
+    from ..solve import solve
 
     text = starter_text(DEMO_KIND)
     st = loads_case(text, source=f"starter {DEMO_KIND}")

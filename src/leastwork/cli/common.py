@@ -1,0 +1,125 @@
+"""Helpers shared by the commands: the console, comma lists, ``--case`` and ``--units``,
+the output format (``--json``, ``--format``, the suffix of ``-o``) and writing the result
+to the terminal or to ``--output`` (see :mod:`leastwork.io.writing`).
+"""
+
+from __future__ import annotations
+
+import sys
+
+from ..errors import CaseError
+
+__all__ = ["FILE_WIDTH", "SUFFIX_FORMAT", "chosen_cases", "console_for", "display_units",
+           "document", "emit", "output_format", "sheet_meta", "split", "version"]
+
+#: Width of text written to a file (the terminal uses its own width).
+FILE_WIDTH = 100
+
+#: Output format of ``-o FILE`` by its suffix (lower case).
+SUFFIX_FORMAT = {".md": "md", ".markdown": "md", ".tex": "latex", ".json": "json",
+                 ".txt": "text"}
+
+
+def version() -> str:
+    """``leastwork X.Y.Z``, as ``--version`` prints it and the sheets record it."""
+    from .. import __version__
+
+    return f"leastwork {__version__}"
+
+
+def console_for(args):
+    """The terminal console: plain (no colours, no highlighting) with ``--no-color``."""
+    from rich.console import Console
+
+    if getattr(args, "no_color", False):
+        return Console(color_system=None, highlight=False)
+    return Console()
+
+
+def split(text: str | None) -> list[str] | None:
+    """The items of a comma-separated option, blanks dropped; None if not given."""
+    if text is None:
+        return None
+    items = [t.strip() for t in text.split(",") if t.strip()]
+    return items
+
+
+def display_units(text: str | None):
+    """The UnitSystem of ``--units FORCE,LENGTH``, or None."""
+    if text is None:
+        return None
+    from ..units import UnitSystem, check_unit
+
+    parts = [t.strip() for t in text.split(",")]
+    if len(parts) != 2 or not all(parts):
+        raise CaseError(f'expected FORCE,LENGTH such as "kN,mm", got "{text}"',
+                        source="command line", where="--units")
+    try:
+        check_unit(parts[0], "force")
+        check_unit(parts[1], "length")
+    except ValueError as exc:
+        raise CaseError(str(exc), source="command line", where="--units") from None
+    return UnitSystem(parts[0], parts[1])
+
+
+def chosen_cases(sol, name: str | None) -> list[str] | None:
+    """The load cases ``--case`` asks for (None: all), checked against the solution."""
+    if name is None:
+        return None
+    if name not in sol.cases:
+        raise CaseError(f'no load case "{name}"; the case has: ' + ", ".join(sol.cases),
+                        source="command line", where="--case")
+    return [name]
+
+
+def output_format(args) -> str:
+    """json, md, latex or text, from --json, --format or the suffix of -o."""
+    import pathlib
+
+    if args.json:
+        if args.doc_format not in (None, "text"):
+            raise CaseError("--json and --format md/latex exclude each other",
+                            source="command line", where="--format")
+        return "json"
+    if args.doc_format:
+        return args.doc_format
+    if args.output:
+        suffix = pathlib.Path(args.output).suffix.lower()
+        if suffix not in SUFFIX_FORMAT:
+            raise CaseError(f'cannot tell the format of "{args.output}" from its suffix; give '
+                            "--format text|md|latex or --json, or name it .md, .tex, .json or "
+                            ".txt", source="command line", where="--output")
+        return SUFFIX_FORMAT[suffix]
+    return "text"
+
+
+def sheet_meta() -> dict[str, str]:
+    """The program and today's date, for the head of a sheet or report."""
+    import datetime
+
+    return {"Prepared with": version(), "Date": datetime.date.today().isoformat()}
+
+
+def document(sol, cases, fmt_name: str, extra=None) -> str:
+    """The calculation sheet of ``sol`` in Markdown (``md``) or LaTeX (``latex``);
+    ``extra``: further (title, lines) sections."""
+    from ..output.audit import audit_sheet
+    from ..report.documents import sheet_latex, sheet_markdown
+
+    sheet = audit_sheet(sol, cases, meta=sheet_meta())
+    return (sheet_markdown if fmt_name == "md" else sheet_latex)(sheet, extra)
+
+
+def emit(text: str, args, st) -> None:
+    """Print ``text``, or write it to ``--output`` (see :mod:`leastwork.io.writing`)."""
+    import pathlib
+
+    from ..io.writing import write_files
+
+    if not args.output:
+        sys.stdout.write(text)
+        return
+    from ..plaintext import literal
+
+    write_files({pathlib.Path(args.output): text}, force=args.force, case=st.source)
+    print(f"leastwork: wrote {literal(args.output)}", file=sys.stderr)
