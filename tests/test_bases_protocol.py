@@ -17,7 +17,7 @@ import pytest
 import leastwork
 from leastwork import thresholds
 from leastwork.basis import Basis, CompatibilitySolver
-from leastwork.reanalysis import reanalyse
+from leastwork.studies.reanalysis import reanalyse
 
 ROOT = Path(__file__).resolve().parents[1]
 CASE = ROOT / "cases" / "portal-frame.toml"

@@ -12,8 +12,8 @@ from pathlib import Path
 import pytest
 
 from leastwork import load_case, solve
-from leastwork.checks import STIFFNESS_RTOL
 from leastwork.cli import main
+from leastwork.verify.cross_check import STIFFNESS_RTOL
 
 CASES = sorted((Path(__file__).resolve().parents[1] / "cases").glob("*.toml"))
 
@@ -39,7 +39,7 @@ def test_no_verify_skips_the_cross_check(capsys):
 def _perturbed(monkeypatch, factor):
     """Make the stiffness solver's reactions differ by ``factor`` (a stand-in for a bug in
     either method)."""
-    checks = sys.modules["leastwork.checks"]
+    checks = sys.modules["leastwork.verify.cross_check"]
     real = checks.solve_stiffness
 
     def fake(st, case):
@@ -95,7 +95,7 @@ def test_accepted_difference_widens_with_the_condition_number():
     """Round-off of the force method grows with the condition number of its flexibility
     matrix (common practice in numerical analysis): a long cross-braced truss with condition
     ~2e5 differs by ~1e-7 without any error."""
-    from leastwork.checks import CONDITION_RTOL, stiffness_check
+    from leastwork.verify.cross_check import CONDITION_RTOL, stiffness_check
 
     case = next(c for c in CASES if c.stem == "canopy-prop")
     sol = solve(load_case(case))

@@ -1,4 +1,4 @@
-"""Fit-up tolerance study (leastwork.fitup and ``leastwork fitup``).
+"""Fit-up tolerance study (leastwork.studies.fitup and ``leastwork fitup``).
 
 Outside checks: the exact worst case against brute-force enumeration of the corners of the
 tolerance box, each corner a full solve with misfit loads (agreement of two methods); the
@@ -21,7 +21,8 @@ import pytest
 import leastwork
 from leastwork.cli import main
 from leastwork.errors import CaseError
-from leastwork.fitup import (
+from leastwork.model import Misfit
+from leastwork.studies.fitup import (
     adjustment,
     axial_column,
     exact_std,
@@ -29,7 +30,6 @@ from leastwork.fitup import (
     monte_carlo,
     parse_tolerances,
 )
-from leastwork.model import Misfit
 
 CASES = Path(__file__).resolve().parents[1] / "cases"
 BAY = CASES / "braced-bay-fitup.toml"
@@ -323,7 +323,7 @@ def test_reported_quantities_need_memory_proportional_to_their_table():
 
     from generators import braced_grid, structure
 
-    from leastwork.fitup import reported_quantities
+    from leastwork.studies.fitup import reported_quantities
     from leastwork.topology import sparse_topology
 
     st = structure(braced_grid(10, 10))

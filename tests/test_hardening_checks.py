@@ -31,9 +31,9 @@ from generators import (
 import leastwork
 from leastwork import CaseError
 from leastwork.cli import main
-from leastwork.fitup import SMALL_CHANGE_FRACTION, adjustment
 from leastwork.model import DistributedLoad, PointLoad
 from leastwork.solution import CaseResult
+from leastwork.studies.fitup import SMALL_CHANGE_FRACTION, adjustment
 from leastwork.thresholds import LOCAL_STATE_ACCURACY
 from leastwork.verify import solve_stiffness
 

@@ -28,9 +28,9 @@ from rich.console import Console
 
 from leastwork.cli import main
 from leastwork.errors import MESSAGE_LIMIT, PLACE_LIMIT, CaseError, MechanismError
+from leastwork.output.documents import md_block, md_text, sheet_markdown
 from leastwork.output.sheet import Formula, Grid, Para, Sheet, Step
 from leastwork.plaintext import literal
-from leastwork.report.documents import md_block, md_text, sheet_markdown
 
 #: Names that would restyle or break output if shown raw: rich markup (a bare closing tag
 #: raises MarkupError), a hidden hyperlink, live HTML, SGR and OSC 8 escape sequences, an
@@ -133,7 +133,7 @@ def test_solve_on_the_terminal_shows_names_literally(tmp_path, capsys, name, mod
 
 def test_short_summary_shows_names_literally(tmp_path, capsys, monkeypatch):
     """A structure above the short-summary threshold takes another printing path."""
-    monkeypatch.setattr("leastwork.report.terminal.SUMMARY_MAX_MEMBERS", 1)
+    monkeypatch.setattr("leastwork.output.terminal.SUMMARY_MAX_MEMBERS", 1)
     case = _case(tmp_path, "[red]big[/] \x1b[2J")
     status, out, err = _run(capsys, ["solve", case])
     assert status == 0, err
@@ -187,7 +187,7 @@ def test_library_printing_takes_any_console(tmp_path):
     are given (markup and emoji on, colours on): no MarkupError, no restyling, no escape
     sequence but rich's own colours."""
     from leastwork.io.reader import load_case
-    from leastwork.report.terminal import print_brief, print_check, print_steps, print_summary
+    from leastwork.output.terminal import print_brief, print_check, print_steps, print_summary
     from leastwork.solve import solve
     from leastwork.topology import build_topology, choose_redundants
 
@@ -521,6 +521,6 @@ def test_the_written_path_is_echoed_literally(tmp_path, capsys):
 
 def test_html_escape_reference():
     # the HTML report escapes exactly as the standard library does, after literal()
-    from leastwork.report.html import _e
+    from leastwork.output.html import _e
 
     assert _e('<a href="x">\x1b') == html.escape('<a href="x">\\x1b', quote=True)

@@ -1,4 +1,4 @@
-"""Influence lines (leastwork.influence and ``leastwork influence``).
+"""Influence lines (leastwork.studies.influence and ``leastwork influence``).
 
 Outside checks: a handbook closed form (two equal spans, load at the centre of one span);
 agreement with full solves, one load case per position; Maxwell-Betti reciprocity in the
@@ -19,8 +19,8 @@ import pytest
 import leastwork
 from leastwork.cli import main
 from leastwork.errors import CaseError
-from leastwork.influence import influence_line, influence_to_dict, parse_quantity
 from leastwork.model import Misfit, PointLoad, Settlement
+from leastwork.studies.influence import influence_line, influence_to_dict, parse_quantity
 
 CASES = Path(__file__).resolve().parents[1] / "cases"
 BRIDGE = CASES / "footbridge-truss.toml"

@@ -15,7 +15,7 @@ from rich.console import Console
 from leastwork import load_case, solve
 from leastwork.cli import main
 from leastwork.cli.progress import PhaseDisplay
-from leastwork.report.terminal import SUMMARY_MAX_MEMBERS, SUMMARY_MAX_REDUNDANTS, is_large
+from leastwork.output.terminal import SUMMARY_MAX_MEMBERS, SUMMARY_MAX_REDUNDANTS, is_large
 
 ROOT = Path(__file__).resolve().parents[1]
 

@@ -18,8 +18,8 @@ import pytest
 import leastwork
 from leastwork.cli import main
 from leastwork.model import Load
-from leastwork.report.plot import figure_svg, plot_case
-from leastwork.report.plot.loads import LOAD_DRAWERS, PASSES
+from leastwork.output.plot import figure_svg, plot_case
+from leastwork.output.plot.loads import LOAD_DRAWERS, PASSES
 
 SVG = "{http://www.w3.org/2000/svg}"
 

@@ -31,11 +31,9 @@ import numpy as np
 import pytest
 
 import leastwork
-from leastwork.checks import StiffnessCheck
 from leastwork.errors import CaseError
-from leastwork.output.sheet import fmt
-from leastwork.report.html import image_names, report_html, report_markdown_files
-from leastwork.report.plot import (
+from leastwork.output.html import image_names, report_html, report_markdown_files
+from leastwork.output.plot import (
     DEFLECTION_SHARE,
     deflection_scale,
     diagram_lines,
@@ -43,6 +41,8 @@ from leastwork.report.plot import (
     parse_diagrams,
     plot_case,
 )
+from leastwork.output.sheet import fmt
+from leastwork.verify.cross_check import StiffnessCheck
 
 CASES = sorted((Path(__file__).parent.parent / "cases").glob("*.toml"))
 SVG = "{http://www.w3.org/2000/svg}"

@@ -1,5 +1,5 @@
 """The sparse force method on a local self-stress basis (leastwork.selfstress,
-leastwork.sparse_solve) and reanalysis (leastwork.reanalysis).
+leastwork.sparse_solve) and reanalysis (leastwork.studies.reanalysis).
 
 Checks are invariants and agreement of independent methods:
 

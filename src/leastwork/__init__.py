@@ -25,9 +25,9 @@ Results must be checked by a qualified engineer against the governing local code
 from .errors import CaseError, LeastworkError, MechanismError
 from .io.reader import load_case, loads_case
 from .model import Structure
-from .reanalysis import reanalyse
 from .solution import Solution
 from .solve import solve
+from .studies.reanalysis import reanalyse
 
 __all__ = [
     "load_case",

@@ -13,7 +13,7 @@ instead of testing its class:
 * ``describe`` — its row in the calculation sheet.
 
 The reader (:mod:`leastwork.caseio`) makes the dataclasses from the case file, and the
-diagrams (:mod:`leastwork.report.plot`) draw them; the direct-stiffness cross-check
+diagrams (:mod:`leastwork.output.plot`) draw them; the direct-stiffness cross-check
 (:mod:`leastwork.verify`) keeps its own handling on purpose (it shares only the model).
 A new load kind is a dataclass in :mod:`leastwork.model` (with its ``scaled``), its reading
 in :mod:`leastwork.caseio`, and one :class:`LoadKind` here.

@@ -440,14 +440,14 @@ class Solution:
 
     @cached_property
     def combination_envelope(self) -> dict | None:
-        """Extremes over the load combinations (:func:`leastwork.envelope.envelope`, SI),
+        """Extremes over the load combinations (:func:`leastwork.studies.envelope.envelope`, SI),
         found once on first use; None without combinations."""
-        from .envelope import combination_envelope
+        from .studies.envelope import combination_envelope
 
         return combination_envelope(self)
 
     def to_dict(self) -> dict:
         """The JSON result (contract section 4), every number in the case units."""
-        from .report.jsonout import solution_to_dict
+        from .output.json_result import solution_to_dict
 
         return solution_to_dict(self)

@@ -48,7 +48,7 @@ def solve(structure: Structure, redundants=None, *, where: str | None = None,
         Where the redundants were given, for error messages.
     verify : bool, optional
         Cross-check every load case with the independent direct-stiffness solver
-        (:mod:`leastwork.checks`). Default: when the structure is small enough for it to be
+        (:mod:`leastwork.verify.cross_check`). Default: when the structure is small enough for it to be
         instant.
     basis : {"auto", "released", "local"}
         "released": the unit redundant states of one released structure (dense; the full

@@ -51,12 +51,12 @@ def cross_check(st: Structure, results: dict, condition: float, verify: bool | N
     """Cross-check every load case with the direct stiffness method when ``verify`` (None:
     when small enough); the warnings of any disagreement."""
     if verify is None:
-        from .checks import should_verify
+        from .verify.cross_check import should_verify
 
         verify = should_verify(st)
     notes: list[str] = []
     if verify:
-        from .checks import stiffness_check
+        from .verify.cross_check import stiffness_check
 
         if progress is not None:
             progress("cross-check")

@@ -29,7 +29,7 @@ def run(args) -> int:
     import dataclasses
 
     from ..io.reader import load_case
-    from ..report.terminal import print_check, user_text
+    from ..output.terminal import print_check, user_text
     from ..solve import layout_warnings, resolve_basis
     from ..topology import build_topology, check_stable, choose_redundants
 

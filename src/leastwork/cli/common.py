@@ -104,7 +104,7 @@ def document(sol, cases, fmt_name: str, extra=None) -> str:
     """The calculation sheet of ``sol`` in Markdown (``md``) or LaTeX (``latex``);
     ``extra``: further (title, lines) sections."""
     from ..output.audit import audit_sheet
-    from ..report.documents import sheet_latex, sheet_markdown
+    from ..output.documents import sheet_latex, sheet_markdown
 
     sheet = audit_sheet(sol, cases, meta=sheet_meta())
     return (sheet_markdown if fmt_name == "md" else sheet_latex)(sheet, extra)

@@ -77,7 +77,7 @@ def _figure(sol, out, args) -> dict:
     import pathlib
     import tempfile
 
-    from ..report.plot import parse_diagrams, plot_case
+    from ..output.plot import parse_diagrams, plot_case
 
     suffix = out.suffix.lower()
     if suffix not in (".png", ".svg"):
@@ -99,12 +99,12 @@ def _report(sol, out, cases) -> dict:
     the suffix of ``out``."""
     suffix = out.suffix.lower()
     if suffix in (".html", ".htm"):
-        from ..report.html import report_html
+        from ..output.html import report_html
 
         with busy("writing the report"):
             return {out: report_html(sol, cases, meta=sheet_meta())}
     if suffix in (".md", ".markdown"):
-        from ..report.html import report_markdown_files
+        from ..output.html import report_markdown_files
 
         with busy("writing the report"):
             return report_markdown_files(sol, out, cases, meta=sheet_meta())

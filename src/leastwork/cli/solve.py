@@ -136,7 +136,7 @@ def _with_displacements(st, extra: list[str]):
 
 def _show(args, st, sol, cases, fmt_name: str, console) -> None:
     """The result in its format: JSON, a sheet, text to a file, or the terminal."""
-    from ..report.terminal import print_brief, print_steps, print_summary
+    from ..output.terminal import print_brief, print_steps, print_summary
 
     if fmt_name == "json":
         d = sol.to_dict()
@@ -201,8 +201,8 @@ def _symbolic(args, st, sol, names, cases, fmt_name: str) -> int:
 
 def _sheet_lines(sym, cases, combos: list[str], fmt_name: str) -> list[str]:
     """The closed forms and the combination lines as a Markdown or LaTeX sheet section."""
-    from ..report.closed_forms import closed_forms_latex, closed_forms_markdown
-    from ..report.documents import md_text, tex_escape
+    from ..output.closed_forms import closed_forms_latex, closed_forms_markdown
+    from ..output.documents import md_text, tex_escape
 
     lines = (closed_forms_markdown if fmt_name == "md" else closed_forms_latex)(sym, cases)
     if combos:
@@ -217,13 +217,13 @@ def _print_closed_forms(args, st, sol, sym, cases, combos: list[str]) -> None:
     from rich.console import Console
     from rich.text import Text
 
-    from ..report.closed_forms import print_closed_forms
+    from ..output.closed_forms import print_closed_forms
 
     plain = args.no_color or bool(args.output)
     console = (Console(record=True, file=io.StringIO(), width=FILE_WIDTH, color_system=None)
                if args.output else Console(color_system=None) if plain else Console())
     if args.steps:
-        from ..report.terminal import print_steps
+        from ..output.terminal import print_steps
 
         print_steps(console, sol, cases)
     print_closed_forms(console, sym, cases)

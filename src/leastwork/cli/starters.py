@@ -105,7 +105,7 @@ def _effects_table(d: dict, cases: list[str]) -> Table:
     """Tie force, wall moment and tip deflection per load case (case units)."""
     from rich.table import Table
 
-    from ..report.terminal import user_text
+    from ..output.terminal import user_text
 
     u = d["units"]
     t = Table(title="What each load case does", header_style="bold")
@@ -130,7 +130,7 @@ def run_demo(console: Console) -> int:
     from ..io.reader import loads_case
     from ..io.starters import STARTERS, starter_text
     from ..output.audit import audit_sheet
-    from ..report.terminal import print_sheet, print_summary, user_text
+    from ..output.terminal import print_sheet, print_summary, user_text
     from ..solve import solve
 
     text = starter_text(DEMO_KIND)

@@ -97,9 +97,9 @@ def run_influence(args) -> int:
 
 # ---------------------------------------------------------------------------- fitup
 def _fitup(args, st, console) -> int:
-    from ..fitup import adjustment, adjustment_to_dict, fitup_study, parse_tolerances
-    from ..fitup import study_to_dict as to_dict
     from ..solve import solve
+    from ..studies.fitup import adjustment, adjustment_to_dict, fitup_study, parse_tolerances
+    from ..studies.fitup import study_to_dict as to_dict
 
     if args.tolerance is None and args.adjust is None and args.zero is None:
         raise CaseError("give --tolerance SPEC (e.g. DA=2mm,*=1mm) and/or --adjust MEMBER "
@@ -139,7 +139,7 @@ def _fitup(args, st, console) -> int:
 
 
 def _header(console, sol) -> None:
-    from ..report.terminal import heading, user_text
+    from ..output.terminal import heading, user_text
 
     st = sol.structure
     console.print(heading(st.name, st.source))
@@ -160,7 +160,7 @@ def _length(x_si: float, units) -> str:
 def _print_study(console, study, units) -> None:
     from rich.table import Table
 
-    from ..report.terminal import user_text
+    from ..output.terminal import user_text
 
     rep = study.quantities
     tol = ", ".join(f"{m} ±{_g(t / units.factor('length'))}" for m, t in study.tolerances.items())
@@ -202,7 +202,7 @@ def _print_study(console, study, units) -> None:
 def _print_adjustment(console, adj, units) -> None:
     from rich.table import Table
 
-    from ..report.terminal import user_text
+    from ..output.terminal import user_text
 
     Ff, Lf = units.factor("force"), units.factor("length")
     how = "longer" if adj.change > 0 else "shorter"
@@ -283,8 +283,8 @@ def _draw_influence(d: dict, args, st) -> None:
 def _influence(args, st, console) -> int:
     import numpy as np
 
-    from ..influence import influence_line, influence_to_dict, parse_members, parse_quantity
     from ..solve import solve
+    from ..studies.influence import influence_line, influence_to_dict, parse_members, parse_quantity
     from ..topology import build_topology
 
     topo = build_topology(st)
@@ -307,7 +307,7 @@ def _influence(args, st, console) -> int:
     along = ", ".join(dict.fromkeys(p["member"] for p in d["points"]))
     from rich.text import Text
 
-    from ..report.terminal import user_text
+    from ..output.terminal import user_text
 
     console.print(Text.assemble(
         "Influence line of ", (literal(d["quantity"]), "bold"),

@@ -31,11 +31,11 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .elements import carries_span_loads, column_of, kind_of, poly_eval
-from .energy import initial_deformation_terms
-from .errors import CaseError
-from .fields import ParticularFields
-from .model import Structure
+from ..elements import carries_span_loads, column_of, kind_of, poly_eval
+from ..energy import initial_deformation_terms
+from ..errors import CaseError
+from ..fields import ParticularFields
+from ..model import Structure
 
 __all__ = [
     "QuantitySpec",

@@ -27,12 +27,12 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .elements import column_of
-from .errors import CaseError
+from ..elements import column_of
+from ..errors import CaseError
+from ..model import Structure
+from ..plaintext import ECHO_LIMIT, literal
+from ..units import QuantityError, UnitSystem, parse_quantity
 from .influence import reaction_rows
-from .model import Structure
-from .plaintext import ECHO_LIMIT, literal
-from .units import QuantityError, UnitSystem, parse_quantity
 
 __all__ = [
     "Reported",
@@ -252,7 +252,7 @@ def sensitivity_round_off(sol, target: str, member: str, X: np.ndarray) -> float
     self-stress state), and the solve with delta to EPS times its condition number:
     tau (|X_t|·nu + |X_m|·nu) + EPS cond |b_t|·|X_m|.
     """
-    from .solution import EPS
+    from ..solution import EPS
 
     st, topo = sol.structure, sol.topology
     B = sol.B

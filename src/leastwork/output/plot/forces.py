@@ -7,7 +7,7 @@ from __future__ import annotations
 import numpy as np
 
 from ...model import Structure
-from ...output.sheet import fmt
+from ..sheet import fmt
 from .data import QUANTITY, diagram_amplitude, diagram_lines, field_zero
 from .geometry import case_units, member_axes
 from .panel import Panel

@@ -6,8 +6,8 @@ from __future__ import annotations
 
 import numpy as np
 
-from ..output.quantities import quantities
-from ..output.reported import (
+from .quantities import quantities
+from .reported import (
     ROUND_OFF,
     case_numbers,
     envelope_numbers,

@@ -5,8 +5,8 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from .errors import CaseError, MechanismError
-from .verify import solve_stiffness, stiffness_dofs
+from ..errors import CaseError, MechanismError
+from . import solve_stiffness, stiffness_dofs
 
 __all__ = ["StiffnessCheck", "stiffness_check", "should_verify", "STIFFNESS_RTOL",
            "CONDITION_RTOL", "STIFFNESS_CONDITION_RTOL", "VERIFY_MAX_DOFS"]

@@ -11,7 +11,7 @@ from numpy.polynomial import polynomial as P
 
 from ...errors import CaseError
 from ...model import Structure
-from ...output.sheet import fmt
+from ..sheet import fmt
 from .geometry import case_units, member_axes, nice_factor, structure_size
 
 #: Diagram names in their usual order.

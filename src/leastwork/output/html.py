@@ -4,7 +4,7 @@ fetched) that prints well, and as Markdown with one diagram file per load case b
 No I/O here: the functions return text (and file names); the command line writes them.
 Every text of the sheet and of the case (names, load cases, ids, warnings) is escaped:
 HTML by :func:`_e` (control characters escaped by :func:`leastwork.plaintext.literal`, then
-``& < > " '`` as entities), Markdown by :func:`leastwork.report.documents.md_text`.
+``& < > " '`` as entities), Markdown by :func:`leastwork.output.documents.md_text`.
 """
 
 from __future__ import annotations
@@ -16,10 +16,10 @@ import re
 from urllib.parse import quote
 
 from ..errors import CaseError
-from ..output.quantities import quantities
-from ..output.reported import case_numbers
-from ..output.sheet import Formula, Grid, Para, Sheet, fmt, split_grid
 from ..plaintext import literal
+from .quantities import quantities
+from .reported import case_numbers
+from .sheet import Formula, Grid, Para, Sheet, fmt, split_grid
 
 __all__ = ["report_html", "report_markdown_files", "image_names", "default_meta", "summary_grids", "CSS",
            "HTML_TABLE_WIDTH"]
@@ -255,7 +255,7 @@ def report_html(sol, case_names=None, meta: dict[str, str] | None = None) -> str
     """The whole calculation as one HTML document: title, summary of the redundants and
     checks, inputs, assumptions, diagrams (inline SVG), the eight steps of the audit
     trail, cautions, tool version and date (``meta``; default: this tool and today)."""
-    from ..output.audit import audit_sheet
+    from .audit import audit_sheet
 
     cases = _cases(sol, case_names)
     sheet = audit_sheet(sol, cases, meta=default_meta() if meta is None else meta)
@@ -331,7 +331,7 @@ def report_markdown_files(sol, md_path, case_names=None,
     """The Markdown report (the audit trail with a summary of the checks and the diagrams
     linked) and one SVG diagram per load case beside it: {path: content}, the Markdown
     file first. Nothing is written here."""
-    from ..output.audit import audit_sheet
+    from .audit import audit_sheet
     from .documents import md_text, sheet_markdown
     from .plot import figure_svg
 

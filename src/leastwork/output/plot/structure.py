@@ -9,7 +9,7 @@ import math
 import numpy as np
 
 from ...model import Structure, TemperatureLoad
-from ...output.sheet import fmt
+from ..sheet import fmt
 from .geometry import (
     away_from_members,
     case_units,

@@ -2,12 +2,12 @@
 result as an expression of the parameters with its value at the parameter values.
 
 User text (the structure name, load-case names, ids) is shown literally: rich Text on the
-terminal (:func:`leastwork.report.terminal.user_text`), escaped in Markdown
-(:func:`leastwork.report.documents.md_text`) and LaTeX (``tex_escape``)."""
+terminal (:func:`leastwork.output.terminal.user_text`), escaped in Markdown
+(:func:`leastwork.output.documents.md_text`) and LaTeX (``tex_escape``)."""
 
 from __future__ import annotations
 
-from ..output.sheet import fmt
+from .sheet import fmt
 
 __all__ = ["closed_form_rows", "print_closed_forms", "closed_forms_markdown",
            "closed_forms_latex"]

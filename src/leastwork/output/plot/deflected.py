@@ -5,7 +5,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from ...output.sheet import fmt
+from ..sheet import fmt
 from .data import deflection
 from .geometry import case_units, member_axes
 from .panel import Panel

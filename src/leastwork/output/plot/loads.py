@@ -25,7 +25,7 @@ from ...model import (
     Structure,
     TemperatureLoad,
 )
-from ...output.sheet import fmt
+from ..sheet import fmt
 from .geometry import blocked, case_units, member_axes, perp, support_side, xy
 from .panel import Panel
 from .style import IMPOSED, LOAD

@@ -11,13 +11,13 @@ load cases.
 
 from __future__ import annotations
 
-from .compatibility import flexibility_matrix
-from .errors import CaseError
-from .model import Structure
-from .solution import Solution
-from .solve import _check_targets
-from .stability import layout_warnings, soft_spring_warnings
-from .superposition import cross_check, solve_cases
+from ..compatibility import flexibility_matrix
+from ..errors import CaseError
+from ..model import Structure
+from ..solution import Solution
+from ..solve import _check_targets
+from ..stability import layout_warnings, soft_spring_warnings
+from ..superposition import cross_check, solve_cases
 
 __all__ = ["reanalyse", "layout_differences"]
 

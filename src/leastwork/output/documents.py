@@ -13,8 +13,8 @@ from __future__ import annotations
 
 import re
 
-from ..output.sheet import Formula, Grid, Para, Sheet, fmt, split_grid
 from ..plaintext import literal
+from .sheet import Formula, Grid, Para, Sheet, fmt, split_grid
 
 __all__ = ["sheet_markdown", "sheet_latex", "FORMATS", "md_text", "md_block", "md_code",
            "tex_escape"]

@@ -18,11 +18,11 @@ from rich.panel import Panel
 from rich.table import Table
 from rich.text import Text
 
-from ..output.audit import ASSUMPTIONS, CAUTION, energy_terms
-from ..output.quantities import quantities
-from ..output.reported import ROUND_OFF, case_numbers
-from ..output.sheet import Formula, Grid, Para, Sheet, fmt, split_grid
 from ..plaintext import literal
+from .audit import ASSUMPTIONS, CAUTION, energy_terms
+from .quantities import quantities
+from .reported import ROUND_OFF, case_numbers
+from .sheet import Formula, Grid, Para, Sheet, fmt, split_grid
 
 __all__ = ["print_summary", "print_brief", "print_check", "print_steps", "print_sheet", "CAUTION",
            "ASSUMPTIONS", "energy_terms", "is_large", "print_short_summary", "governing_values", "Governing",
@@ -212,7 +212,7 @@ def print_summary(console: Console, sol, case_names=None) -> None:
         console.print(f"Equilibrium check: largest residual {_g(res.equilibrium_residual / Ff, 2)}"
                       f" {fu} — {status}")
         _print_cross_check(console, res)
-    from ..output.audit import envelope_grids
+    from .audit import envelope_grids
 
     for grid in envelope_grids(sol):
         for part in split_grid(grid, console.width):
@@ -396,7 +396,7 @@ def print_short_summary(console: Console, sol, case_names=None) -> None:
     if st.combinations:
         console.print(f"The envelope over the {len(st.combinations)} combination(s) is in "
                       "--json; each combination is summarised above as a load case.")
-    from ..output.audit import AUDIT_MAX_LOCAL_STATES
+    from .audit import AUDIT_MAX_LOCAL_STATES
 
     steps = ("--steps the whole audit trail" if sol.basis != "local"
              or len(sol.redundant_columns) <= AUDIT_MAX_LOCAL_STATES
@@ -460,7 +460,7 @@ def _print_cross_check(console: Console, res) -> None:
 
 def print_steps(console: Console, sol, case_names=None) -> None:
     """The audit trail: every step of the force method, numbered (see :mod:`leastwork.output.audit`)."""
-    from ..output.audit import audit_sheet
+    from .audit import audit_sheet
 
     print_sheet(console, audit_sheet(sol, case_names))
 

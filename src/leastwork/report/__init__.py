@@ -1,1 +1,0 @@
-"""Output of a solution: JSON (contract) and the terminal summary."""
