@@ -4,7 +4,7 @@
 Exit status: 0 solved; 2 the case or the command line is wrong; 3 the structure or the
 released structure is a mechanism; 1 only for a bug.
 
-:mod:`.parser` builds the argument parser, each command family adding its subcommands;
+:func:`build_parser` builds the argument parser, each command family adding its subcommands;
 :data:`COMMANDS` sends each command to its handler: :mod:`.solve`, :mod:`.check`,
 :mod:`.starters` (``new``, ``demo``), :mod:`.drawing` (``plot``, ``report``) and
 :mod:`.studies` (``fitup``, ``influence``). :mod:`.common` holds what they share (output
@@ -19,10 +19,23 @@ from collections.abc import Callable
 
 from ..errors import CaseError, MechanismError
 from . import check, drawing, solve, starters, studies
-from .parser import build_parser
+from .common import version
+from .parser import DESCRIPTION, Parser
 from .progress import PhaseDisplay
 
-__all__ = ["COMMANDS", "PhaseDisplay", "main"]
+__all__ = ["COMMANDS", "PhaseDisplay", "build_parser", "main"]
+
+
+def build_parser() -> argparse.ArgumentParser:
+    """The whole command line: ``leastwork [--version] COMMAND ...``, the command families
+    adding their subcommands in the order ``--help`` lists them."""
+    p = Parser(prog="leastwork", description=DESCRIPTION,
+               formatter_class=argparse.RawDescriptionHelpFormatter)
+    p.add_argument("--version", action="version", version=version())
+    sub = p.add_subparsers(dest="command", parser_class=Parser)
+    for family in (solve, check, starters, drawing, studies):
+        family.add_parsers(sub)
+    return p
 
 #: Command name -> handler; each takes the parsed arguments and returns the exit status
 #: (a bad case or option is raised as CaseError, a mechanism as MechanismError).

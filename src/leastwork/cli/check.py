@@ -30,7 +30,8 @@ def run(args) -> int:
 
     from ..io.reader import load_case
     from ..output.terminal import print_check, user_text
-    from ..solve import layout_warnings, resolve_basis
+    from ..solve import resolve_basis
+    from ..stability import layout_warnings
     from ..topology import build_topology, check_stable, choose_redundants
 
     st = load_case(args.case)

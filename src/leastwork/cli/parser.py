@@ -1,6 +1,7 @@
-"""The argument parser: the program's options and one subparser per command, each command
-family adding its own with ``add_parsers(sub)`` (:mod:`.solve`, :mod:`.check`,
-:mod:`.starters`, :mod:`.drawing`, :mod:`.studies`, in the order ``--help`` lists them).
+"""What every command family's parser shares: the parser class, the common description
+with the assumptions, a subcommand's parser and the ``--basis`` option. The whole parser is
+built by :func:`leastwork.cli.build_parser`, each command family adding its own
+subcommands with ``add_parsers(sub)``.
 
 A bad command line raises :class:`~leastwork.errors.CaseError` (exit status 2, one plain
 line, no usage dump) instead of argparse's own exit.
@@ -12,7 +13,7 @@ import argparse
 
 from ..errors import CaseError
 
-__all__ = ["DESCRIPTION", "Parser", "basis_option", "build_parser", "command_parser"]
+__all__ = ["DESCRIPTION", "Parser", "basis_option", "command_parser"]
 
 DESCRIPTION = """\
 Solve statically indeterminate 2D beams, trusses, frames and beam-and-tie structures by the
@@ -29,20 +30,6 @@ class Parser(argparse.ArgumentParser):
 
     def error(self, message: str):  # exit 2 with one plain line, no usage dump
         raise CaseError(message, source="command line")
-
-
-def build_parser() -> argparse.ArgumentParser:
-    """The whole command line: ``leastwork [--version] COMMAND ...``."""
-    from . import check, drawing, solve, starters, studies
-    from .common import version
-
-    p = Parser(prog="leastwork", description=DESCRIPTION,
-               formatter_class=argparse.RawDescriptionHelpFormatter)
-    p.add_argument("--version", action="version", version=version())
-    sub = p.add_subparsers(dest="command", parser_class=Parser)
-    for family in (solve, check, starters, drawing, studies):
-        family.add_parsers(sub)
-    return p
 
 
 def command_parser(sub, name: str, summary: str, description: str = DESCRIPTION):

@@ -1,7 +1,7 @@
 """``leastwork fitup`` and ``leastwork influence``: the studies.
 
 ``add_parsers(sub)`` adds both subcommands to the subparsers of
-:func:`leastwork.cli.parser.build_parser` (whose parser class turns a bad option into exit
+:func:`leastwork.cli.build_parser` (whose parser class turns a bad option into exit
 status 2 with one line); :func:`run_fitup` and :func:`run_influence` solve the case once and
 print rich tables (units in the headers) or the JSON of docs/studies.md.
 """
@@ -32,7 +32,7 @@ the listed members, for all positions at once by the force method.
 
 def add_parsers(sub) -> None:
     """Add the ``fitup`` and ``influence`` subcommands to ``sub``, the subparsers action of
-    :func:`leastwork.cli.parser.build_parser` (made with ``parser_class=Parser``, so that a
+    :func:`leastwork.cli.build_parser` (made with ``parser_class=Parser``, so that a
     bad option exits with status 2 and one line)."""
     import argparse
 
