@@ -24,6 +24,7 @@ from .elements import kind_of
 from .errors import CaseError
 from .fields import gauss_integral
 from .model import Structure
+from .polynomials import poly_add, poly_antiderivative, poly_eval, poly_scale
 
 __all__ = ["Target", "parse_target", "evaluate_target", "member_shape", "deflection_extreme"]
 
@@ -243,8 +244,6 @@ def deflection_extreme(st: Structure, topo, res, mid: str) -> tuple[float, float
     start node (SI): the same deflection polynomials as :func:`member_shape`, integrated in
     plain floats, maximised over the piece ends and the roots of the slope (exact, with no
     sampling: a polynomial's extreme on an interval is at an end or a critical point)."""
-    from .fields import _horner, _integral, _plus
-
     mem = st.members[mid]
     mr = res.members[mid]
     L = mr.length
@@ -261,21 +260,19 @@ def deflection_extreme(st: Structure, topo, res, mid: str) -> tuple[float, float
     for k, (a, b, coef) in enumerate(mr.m.pieces()):
         kap = [cc / EI for cc in coef.tolist()]
         kap[0] += kappa_t
-        slope = _plus(slope0, _integral(kap, a))
+        slope = poly_add((slope0,), poly_antiderivative(kap, a))
         if GAs is not None:
             gam = [cc / GAs for cc in mr.v.coef[k].tolist()]
-            rot = [sl - (gam[i] if i < len(gam) else 0.0) for i, sl in enumerate(slope)]
-            wpoly = _plus(w0, _integral(rot, a))
+            rot = poly_add(slope, poly_scale(gam, -1))
+            wpoly = poly_add((w0,), poly_antiderivative(rot, a))
         else:
-            wpoly = _plus(w0, _integral(slope, a))
+            wpoly = poly_add((w0,), poly_antiderivative(slope, a))
         pieces.append((float(a), float(b), wpoly))
-        slope0, w0 = _horner(slope, b), _horner(wpoly, b)
+        slope0, w0 = poly_eval(slope, b), poly_eval(wpoly, b)
     theta = (we - ws - w0) / L
     best, best_x = ws, 0.0  # w at the start node
     for a, b, wpoly in pieces:
-        total = list(wpoly)
-        total[0] += ws
-        total[1] += theta
+        total = poly_add(wpoly, (ws, theta))
         cand = [b]
         der = [i * t for i, t in enumerate(total)][1:]
         while len(der) > 1 and der[-1] == 0.0:
@@ -286,7 +283,7 @@ def deflection_extreme(st: Structure, topo, res, mid: str) -> tuple[float, float
             cand += [r.real for r in P.polyroots(der) if abs(r.imag) < 1e-12]
         for x in cand:
             if a < x < b or x == b:
-                val = _horner(total, x)
+                val = poly_eval(total, x)
                 if abs(val) > abs(best):
                     best, best_x = val, x
     return float(best), float(best_x)

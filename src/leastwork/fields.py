@@ -18,9 +18,10 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.polynomial import polynomial as P
 
+from .polynomials import poly_add, poly_antiderivative, poly_eval, poly_line, poly_scale
 from .thresholds import EXTREME_TIE, EXTREME_TIE_FLOOR
 
-__all__ = ["Piecewise", "ParticularFields", "particular_fields", "gauss_integral"]
+__all__ = ["Piecewise", "ParticularFields", "particular_fields", "span_fields", "gauss_integral"]
 
 _DEG = 5  # storage degree: cubic moments from linearly varying loads, with room to spare
 
@@ -51,7 +52,7 @@ class Piecewise:
         breaks = self.breaks
         k = int(np.searchsorted(breaks, x, side="right" if side == "right" else "left")) - 1
         k = min(max(k, 0), len(breaks) - 2)
-        return np.float64(_horner(self.coef[k].tolist(), x))
+        return np.float64(poly_eval(self.coef[k].tolist(), x))
 
     def pieces(self):
         for k in range(len(self.breaks) - 1):
@@ -78,7 +79,7 @@ class Piecewise:
                         cand.append(float(r.real))
             full = coef.tolist()
             xs += cand
-            vals += [_horner(full, x) for x in cand]
+            vals += [poly_eval(full, x) for x in cand]
         v, x = np.array(vals), np.array(xs)
         # ties within round-off (and values below EXTREME_TIE_FLOOR, SI: a flat zero field)
         # keep the first position, so that round-off never decides where an extreme is
@@ -109,7 +110,7 @@ class ParticularFields:
 
 
 def particular_fields(length: float, ex: tuple[float, float], point_loads, dist_loads):
-    """Particular fields of one member.
+    """Particular fields of one member (SI floats).
 
     Parameters
     ----------
@@ -127,86 +128,78 @@ def particular_fields(length: float, ex: tuple[float, float], point_loads, dist_
     -------
     ParticularFields
     """
-    c, s = ex
     L = float(length)
-    pts = [(float(a), fx * c + fy * s, -fx * s + fy * c, mz) for a, fx, fy, mz in point_loads]
-    dls = []
-    for a, b, (wx0, wx1), (wy0, wy1) in dist_loads:
-        qx0, qx1 = wx0 * c + wy0 * s, wx1 * c + wy1 * s
-        qy0, qy1 = -wx0 * s + wy0 * c, -wx1 * s + wy1 * c
-        dls.append((float(a), float(b), (qx0, qx1), (qy0, qy1)))
-    breaks = sorted({0.0, L, *[p[0] for p in pts], *[d[0] for d in dls], *[d[1] for d in dls]})
-    breaks = np.array(_merge_close(breaks, 1e-12 * max(L, 1.0)))
-    breaks[0], breaks[-1] = 0.0, L
-    nk = len(breaks) - 1
-    cn = np.zeros((nk, _DEG + 1))
-    cv = np.zeros((nk, _DEG + 1))
-    cm = np.zeros((nk, _DEG + 1))
-    n_left = v_left = m_left = 0.0
+    point_loads = [(float(a), *rest) for a, *rest in point_loads]
+    dist_loads = [(float(a), float(b), *rest) for a, b, *rest in dist_loads]
     tol = 1e-12 * max(L, 1.0)
-    for k in range(nk):
+    breaks = sorted({0.0, L, *[p[0] for p in point_loads], *[d[0] for d in dist_loads],
+                     *[d[1] for d in dist_loads]})
+    breaks = _merge_close(breaks, tol)
+    breaks[0], breaks[-1] = 0.0, L
+
+    def locate(x: float) -> int:
+        return min(range(len(breaks)), key=lambda k: abs(breaks[k] - x))
+
+    n, v, m, start, end = span_fields(L, ex, point_loads, dist_loads, breaks, locate)
+    brk = np.array(breaks)
+    return ParticularFields(*(Piecewise(brk, _coefficients(f)) for f in (n, v, m)), start, end)
+
+
+def span_fields(L, ex, point_loads, dist_loads, breaks: list, locate):
+    """The fields of :func:`particular_fields` in any number type (floats, or the exact
+    elements of :mod:`leastwork.symbolic.algebra`).
+
+    ``breaks``: the distinct positions of the loads and the ends, in order (0 first, L
+    last); ``locate(x)``: the index of the break at position x. Returns (n, v, m, start,
+    end): the polynomials of each field per piece and the forces passed to the nodes.
+    """
+    c, s = ex
+    zero = L - L
+    pts = [(locate(a), fx * c + fy * s, -fx * s + fy * c, mz) for a, fx, fy, mz in point_loads]
+    dls = [(locate(a), locate(b), a, b, (wx0 * c + wy0 * s, wx1 * c + wy1 * s),
+            (-wx0 * s + wy0 * c, -wx1 * s + wy1 * c))
+           for a, b, (wx0, wx1), (wy0, wy1) in dist_loads]
+    cn, cv, cm = [], [], []
+    n_left = v_left = m_left = zero
+    for k in range(len(breaks) - 1):
         x0, x1 = breaks[k], breaks[k + 1]
-        # jumps at x0 from concentrated loads
-        for a, px, py, mz in pts:
-            if abs(a - x0) <= tol:
+        for at, px, py, mz in pts:  # jumps at x0 from concentrated loads
+            if at == k:
                 n_left -= px
                 v_left += py
                 m_left -= mz
-        qx = [0.0, 0.0]
-        qy = [0.0, 0.0]
-        for a, b, (qx0, qx1), (qy0, qy1) in dls:
-            if a - tol <= x0 and x1 <= b + tol:
-                lx, ly = _line(a, b, qx0, qx1), _line(a, b, qy0, qy1)
-                qx = [qx[0] + lx[0], qx[1] + lx[1]]
-                qy = [qy[0] + ly[0], qy[1] + ly[1]]
+        qx = qy = (zero,)
+        for ia, ib, a, b, wx, wy in dls:
+            if ia <= k and ib >= k + 1:
+                qx, qy = poly_add(qx, poly_line(a, b, *wx)), poly_add(qy, poly_line(a, b, *wy))
         # v(x) = v_left + int_{x0}^{x} qy ; m(x) = m_left + int_{x0}^{x} v ; n = n_left - int qx
-        v_poly = _plus(v_left, _integral(qy, x0))
-        m_poly = _plus(m_left, _integral(v_poly, x0))
-        n_poly = _plus(n_left, [-c for c in _integral(qx, x0)])
-        cv[k, :len(v_poly)], cm[k, :len(m_poly)], cn[k, :len(n_poly)] = v_poly, m_poly, n_poly
-        n_left = _horner(n_poly, x1)
-        v_left = _horner(v_poly, x1)
-        m_left = _horner(m_poly, x1)
+        v_poly = poly_add((v_left,), poly_antiderivative(qy, x0))
+        m_poly = poly_add((m_left,), poly_antiderivative(v_poly, x0))
+        n_poly = poly_add((n_left,), poly_scale(poly_antiderivative(qx, x0), -1))
+        cv.append(v_poly)
+        cm.append(m_poly)
+        cn.append(n_poly)
+        n_left, v_left, m_left = poly_eval(n_poly, x1), poly_eval(v_poly, x1), poly_eval(m_poly, x1)
     # simple-support conditions: m(L) = 0 (end reaction transverse), n(L) = 0 (roller)
     r_start = -m_left / L
-    cm[:, 1] += r_start
-    cv[:, 0] += r_start
-    cn[:, 0] -= n_left
-    n_pw, v_pw, m_pw = Piecewise(breaks, cn), Piecewise(breaks, cv), Piecewise(breaks, cm)
-    n0, v0 = float(n_pw(0.0)), float(v_pw(0.0))
-    nL, vL = float(n_pw(L, side="left")), float(v_pw(L, side="left"))
+    cm = [poly_add(p, (zero, r_start)) for p in cm]
+    cv = [poly_add(p, (r_start,)) for p in cv]
+    cn = [poly_add(p, (-n_left,)) for p in cn]
+    n0, v0 = poly_eval(cn[0], zero), poly_eval(cv[0], zero)
+    nL, vL = poly_eval(cn[-1], L), poly_eval(cv[-1], L)
     ey = (-s, c)
     # forces the member passes to its nodes: start n(0) ex - v(0) ey ; end -n(L) ex + v(L) ey
     start = (n0 * c - v0 * ey[0], n0 * s - v0 * ey[1])
     end = (-nL * c + vL * ey[0], -nL * s + vL * ey[1])
-    return ParticularFields(n_pw, v_pw, m_pw, start, end)
+    return cn, cv, cm, start, end
 
 
-def _line(a: float, b: float, f0: float, f1: float) -> tuple[float, float]:
-    """Ascending coefficients of the line through (a, f0) and (b, f1)."""
-    slope = (f1 - f0) / (b - a)
-    return (f0 - slope * a, slope)
-
-
-def _horner(coef: list[float], x: float) -> float:
-    """Value of the ascending coefficients ``coef`` at x (the Horner sums of P.polyval)."""
-    acc = coef[-1] + x * 0.0
-    for c in reversed(coef[:-1]):
-        acc = c + acc * x
-    return acc
-
-
-def _integral(coef: list[float], lower: float) -> list[float]:
-    """Ascending coefficients of the integral of ``coef`` from ``lower`` to x (as
-    P.polyint with ``lbnd``), in plain floats: these pieces have a handful of terms."""
-    out = [0.0] + [c / (i + 1) for i, c in enumerate(coef)]
-    out[0] = 0.0 - _horner(out, lower)
+def _coefficients(pieces: list) -> np.ndarray:
+    """Polynomials per piece as the (pieces, _DEG + 1) array of :class:`Piecewise`."""
+    out = np.zeros((len(pieces), _DEG + 1))
+    for k, p in enumerate(pieces):
+        out[k, :len(p)] = [float(c) for c in p]
     return out
-
-
-def _plus(constant: float, coef: list[float]) -> list[float]:
-    """``constant`` added to the polynomial ``coef``."""
-    return [constant + coef[0], *coef[1:]]
 
 
 def _merge_close(values, tol):

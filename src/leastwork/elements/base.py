@@ -41,6 +41,8 @@ from __future__ import annotations
 from collections.abc import Callable, Sequence
 from typing import Any, NamedTuple, Protocol
 
+from ..polynomials import Poly, poly_add, poly_eval, poly_integral, poly_mul
+
 __all__ = [
     "BasicForce",
     "EnergyTerm",
@@ -71,8 +73,6 @@ TERM_OF_FIELD = {"n": "axial", "m": "bending", "v": "shear", "t": "torsion"}
 #: Gauss (7 points) and Kronrod (15 points) estimates differ by at most this fraction of
 #: the whole integral's magnitude (or of 1e-300 absolute for a zero integral).
 QUAD_RTOL = 1e-13
-
-Poly = list  #: ascending coefficients in x (m from the start node), any number type
 
 
 class BasicForce(NamedTuple):
@@ -219,34 +219,6 @@ def column_of(m, role: str) -> str | None:
         if bf.role == role:
             return bf.name
     return None
-
-
-# ---------------------------------------------------------------- polynomials (generic)
-def poly_add(a: Poly, b: Poly) -> Poly:
-    if len(a) < len(b):
-        a, b = b, a
-    return [x + y for x, y in zip(a, b)] + list(a[len(b):])
-
-
-def poly_mul(a: Poly, b: Poly) -> Poly:
-    out = [a[0] * b[0] * 0] * (len(a) + len(b) - 1)
-    for i, x in enumerate(a):
-        for j, y in enumerate(b):
-            out[i + j] = out[i + j] + x * y
-    return out
-
-
-def poly_eval(a: Poly, x):
-    acc = a[-1]
-    for c in reversed(a[:-1]):
-        acc = c + acc * x
-    return acc
-
-
-def poly_integral(a: Poly, lo, hi):
-    """Exact integral of ``a`` from ``lo`` to ``hi``."""
-    prim = [a[0] * 0] + [c / (i + 1) for i, c in enumerate(a)]
-    return poly_eval(prim, hi) - poly_eval(prim, lo)
 
 
 # ---------------------------------------------------------------- integration

@@ -24,24 +24,17 @@ import sympy
 from sympy import QQ
 from sympy.polys.fields import field as frac_field
 
+from ..polynomials import Poly
+
 __all__ = [
     "Atomizer",
     "Algebra",
-    "Poly",
     "Piecewise",
     "SparseLU",
     "cramer",
     "factors",
     "Lin",
     "Closure",
-    "padd",
-    "psub",
-    "pscale",
-    "pmul",
-    "pint",
-    "peval",
-    "pder",
-    "ptrim",
 ]
 
 _DPS = 60
@@ -180,87 +173,6 @@ class Algebra:
 
 
 # --------------------------------------------------------------------- polynomials
-#: a polynomial in the position x along a member: ascending coefficients (elements of K)
-Poly = tuple
-
-
-def ptrim(a: Poly) -> Poly:
-    n = len(a)
-    while n > 1 and not a[n - 1]:
-        n -= 1
-    return tuple(a[:n])
-
-
-def padd(a: Poly, b: Poly) -> Poly:
-    if len(a) < len(b):
-        a, b = b, a
-    return ptrim(tuple(x + y for x, y in zip(a, b)) + tuple(a[len(b):]))
-
-
-def pscale(a: Poly, k) -> Poly:
-    return ptrim(tuple(x * k for x in a))
-
-
-def psub(a: Poly, b: Poly) -> Poly:
-    return padd(a, pscale(b, -1))
-
-
-def pmul(a: Poly, b: Poly) -> Poly:
-    zero = (a[0] - a[0])
-    out = [zero] * (len(a) + len(b) - 1)
-    for i, x in enumerate(a):
-        if not x:
-            continue
-        for j, y in enumerate(b):
-            if y:
-                out[i + j] = out[i + j] + x * y
-    return ptrim(tuple(out))
-
-
-def peval(a: Poly, x):
-    out = a[-1]
-    for c in reversed(a[:-1]):
-        out = out * x + c
-    return out
-
-
-def pint(a: Poly, lower) -> Poly:
-    """The antiderivative that vanishes at ``lower``."""
-    zero = a[0] - a[0]
-    anti = [zero] + [c / (i + 1) for i, c in enumerate(a)]
-    anti = tuple(anti)
-    return padd(anti, (-peval(anti, lower),))
-
-
-def pder(a: Poly) -> Poly:
-    if len(a) == 1:
-        return (a[0] - a[0],)
-    return ptrim(tuple(c * i for i, c in enumerate(a) if i > 0))
-
-
-def pdivmod(a: Poly, b: Poly) -> tuple[Poly, Poly]:
-    """Quotient and remainder of a / b (b's leading coefficient nonzero)."""
-    a = list(ptrim(a))
-    b = ptrim(b)
-    zero = a[0] - a[0]
-    if len(a) < len(b):
-        return (zero,), tuple(a)
-    q = [zero] * (len(a) - len(b) + 1)
-    for k in range(len(a) - len(b), -1, -1):
-        f = a[k + len(b) - 1] / b[-1]
-        q[k] = f
-        for j, c in enumerate(b):
-            a[k + j] = a[k + j] - f * c
-    rem = ptrim(tuple(a[: len(b) - 1])) if len(b) > 1 else (zero,)
-    return ptrim(tuple(q)), rem
-
-
-def pintegral(a: Poly, lo, hi):
-    """Exact integral of a from lo to hi."""
-    anti = pint(a, lo)
-    return peval(anti, hi)
-
-
 @dataclass
 class Piecewise:
     """A piecewise polynomial in the position x (absolute, from the member's start):

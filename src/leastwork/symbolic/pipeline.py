@@ -35,8 +35,19 @@ import sympy
 
 from ..elements import kind_of
 from ..errors import CaseError
+from ..fields import span_fields
 from ..loadkinds import load_kind
 from ..model import Structure
+from ..polynomials import (
+    poly_add,
+    poly_derivative,
+    poly_divmod,
+    poly_eval,
+    poly_integral,
+    poly_mul,
+    poly_scale,
+    poly_trim,
+)
 from .algebra import (
     Algebra,
     Atomizer,
@@ -47,15 +58,6 @@ from .algebra import (
     cramer,
     factors,
     merged,
-    padd,
-    pder,
-    pdivmod,
-    peval,
-    pint,
-    pintegral,
-    pmul,
-    pscale,
-    ptrim,
 )
 from .exact import ExactModel
 
@@ -328,57 +330,18 @@ class _Pipeline:
 
     # ------------------------------------------------------------------ loads
     def _fields(self, mid: str, points: list, dists: list) -> _Fields:
-        """Exact :func:`leastwork.fields.particular_fields` of one member.
+        """Exact :func:`leastwork.fields.span_fields` of one member, its pieces ordered by
+        the values of their ends. points: (at, fx, fy, mz) global; dists: (a, b, (wx0,
+        wx1), (wy0, wy1)) global."""
+        g, zero = self.mem[mid], self.zero
+        breaks = self.alg.order([zero, g.L, *[p[0] for p in points], *[d[0] for d in dists],
+                                 *[d[1] for d in dists]], first=zero, last=g.L)
 
-        points: (at, fx, fy, mz) global; dists: (a, b, (wx0, wx1), (wy0, wy1)) global."""
-        alg = self.alg
-        g = self.mem[mid]
-        c, s, L = g.c, g.s, g.L
-        zero = alg.zero
-        pts = [(a, fx * c + fy * s, -fx * s + fy * c, mz) for a, fx, fy, mz in points]
-        dls = []
-        for a, b, (wx0, wx1), (wy0, wy1) in dists:
-            dls.append((a, b, (wx0 * c + wy0 * s, wx1 * c + wy1 * s),
-                        (-wx0 * s + wy0 * c, -wx1 * s + wy1 * c)))
-        breaks = alg.order([zero, L, *[p[0] for p in pts], *[d[0] for d in dls],
-                            *[d[1] for d in dls]], first=zero, last=L)
-
-        def index(x) -> int:
+        def locate(x) -> int:
             return next(k for k, b in enumerate(breaks) if b == x)
 
-        nk = len(breaks) - 1
-        cn, cv, cm = [], [], []
-        n_left = v_left = m_left = zero
-        for k in range(nk):
-            x0, x1 = breaks[k], breaks[k + 1]
-            for a, px, py, mz in pts:
-                if index(a) == k:
-                    n_left -= px
-                    v_left += py
-                    m_left -= mz
-            qx = qy = (zero,)
-            for a, b, (qx0, qx1), (qy0, qy1) in dls:
-                if index(a) <= k and index(b) >= k + 1:
-                    qx = padd(qx, _line(a, b, qx0, qx1))
-                    qy = padd(qy, _line(a, b, qy0, qy1))
-            v_poly = padd((v_left,), pint(qy, x0))
-            m_poly = padd((m_left,), pint(v_poly, x0))
-            n_poly = padd((n_left,), pscale(pint(qx, x0), -1))
-            cv.append(v_poly)
-            cm.append(m_poly)
-            cn.append(n_poly)
-            n_left, v_left, m_left = peval(n_poly, x1), peval(v_poly, x1), peval(m_poly, x1)
-        r_start = -m_left / L
-        cm = [padd(p, (zero, r_start)) for p in cm]
-        cv = [padd(p, (r_start,)) for p in cv]
-        cn = [padd(p, (-n_left,)) for p in cn]
-        n0, v0 = peval(cn[0], zero), peval(cv[0], zero)
-        nL, vL = peval(cn[-1], L), peval(cv[-1], L)
-        ey = (-s, c)
-        start = (n0 * c - v0 * ey[0], n0 * s - v0 * ey[1])
-        end = (-nL * c + vL * ey[0], -nL * s + vL * ey[1])
-        return _Fields(Piecewise(breaks, cn), Piecewise(breaks, cv), Piecewise(breaks, cm),
-                       start, end)
+        n, v, m, start, end = span_fields(g.L, (g.c, g.s), points, dists, breaks, locate)
+        return _Fields(*(Piecewise(breaks, f) for f in (n, v, m)), start, end)
 
     def _loading(self, case: str) -> dict[str, Any]:
         st = self.st
@@ -424,7 +387,7 @@ class _Pipeline:
             for c in weight:
                 in_x.append(c / power)
                 power = power * L
-            return _integral(getattr(pf, f).map(lambda q, w=tuple(in_x): pmul(q, w)))
+            return _integral(getattr(pf, f).map(lambda q, w=tuple(in_x): poly_mul(q, w)))
 
         return integral
 
@@ -552,9 +515,9 @@ class _Pipeline:
         else:
             breaks = pf.m.breaks
             cn, cv, cm = pf.n.pieces, pf.v.pieces, pf.m.pieces
-        cn = [padd(p, tuple(fields.get("n", (z,)))) for p in cn]
-        cm = [padd(p, tuple(fields.get("m", (z,)))) for p in cm]
-        cv = [padd(p, tuple(fields.get("v", (z,)))) for p in cv]
+        cn = [poly_add(p, tuple(fields.get("n", (z,)))) for p in cn]
+        cm = [poly_add(p, tuple(fields.get("m", (z,)))) for p in cm]
+        cv = [poly_add(p, tuple(fields.get("v", (z,)))) for p in cv]
         return _Fields(Piecewise(breaks, cn), Piecewise(breaks, cv), Piecewise(breaks, cm),
                        (), ())
 
@@ -565,17 +528,17 @@ class _Pipeline:
         alg = self.alg
         L = self.mem[mid].L
         z = self.zero
-        start = {"n": peval(fl.n.pieces[0], z), "v": peval(fl.v.pieces[0], z),
-                 "m": peval(fl.m.pieces[0], z)}
-        end = {"n": peval(fl.n.pieces[-1], L), "v": peval(fl.v.pieces[-1], L),
-               "m": peval(fl.m.pieces[-1], L)}
+        start = {"n": poly_eval(fl.n.pieces[0], z), "v": poly_eval(fl.v.pieces[0], z),
+                 "m": poly_eval(fl.m.pieces[0], z)}
+        end = {"n": poly_eval(fl.n.pieces[-1], L), "v": poly_eval(fl.v.pieces[-1], L),
+               "m": poly_eval(fl.m.pieces[-1], L)}
         cands: list[tuple[Callable[[], tuple], mpmath.mpf, mpmath.mpf]] = []
         br = fl.m.breaks
         for k, poly in enumerate(fl.m.pieces):
             a, b = br[k], br[k + 1]
             an, bn = alg.num(a), alg.num(b)
             for x, xn in ((a, an), (b, bn)):
-                val = peval(poly, x)
+                val = poly_eval(poly, x)
                 cands.append((lambda x=x, val=val: (x, val), xn, self.num(val)))
             cands.extend(self._stationary(poly, an, bn))
         vals = [cv[2] for cv in cands]
@@ -594,7 +557,7 @@ class _Pipeline:
         """Candidates at the roots of dm/dx strictly inside (a, b): (exact thunk, x#,
         value#). The coefficients of x**2 and x**3 of a moment come from the span loads
         alone (elements of K), so the degree of dm/dx is exact."""
-        dm = ptrim(pder(poly))
+        dm = poly_trim(poly_derivative(poly))
         if len(dm) < 2:
             return []
         if len(dm) > 3:
@@ -650,7 +613,7 @@ class _Pipeline:
     def _double_root(self, poly, dm) -> tuple:
         d = self._close_poly(dm)
         x = -d[1] / (2 * d[2])
-        return x, self.closure.close(peval(poly, x))
+        return x, self.closure.close(poly_eval(poly, x))
 
     def _quadratic_root(self, poly, dm, sign: int) -> tuple:
         """A root of the quadratic dm/dx = b0 + b1 x + b2 x**2 (b1, b2 in K) of a cubic
@@ -658,7 +621,7 @@ class _Pipeline:
         in the redundants."""
         b0, b1, b2 = self._close_poly(dm)
         disc = b1 * b1 - 4 * b2 * b0
-        _, rem = pdivmod(poly, dm)
+        _, rem = poly_divmod(poly, dm)
         rem = self._close_poly(tuple(rem) + (self.zero,) * (2 - len(rem)))
         return (RootValue(self.zero, self.alg.one, b1, b2, disc, sign),
                 RootValue(rem[0], rem[1], b1, b2, disc, sign))
@@ -772,10 +735,10 @@ class _Pipeline:
             if K is None and not any(extra):
                 continue
             for x0, x1, pu, pr in merged(alg, getattr(pf, f), getattr(mr, f)):
-                inner = pscale(pr, one / K) if K is not None else (z,)
+                inner = poly_scale(pr, one / K) if K is not None else (z,)
                 for e in extra:
-                    inner = padd(inner, (e,))
-                value += pintegral(pmul(pu, inner), x0, x1)
+                    inner = poly_add(inner, (e,))
+                value += poly_integral(poly_mul(pu, inner), x0, x1)
         return value
 
 
@@ -848,15 +811,10 @@ def _exact_values(alg: Algebra, v):
     return alg.el(v)
 
 
-def _line(a, b, f0, f1) -> tuple:
-    slope = (f1 - f0) / (b - a)
-    return ptrim((f0 - slope * a, slope))
-
-
 def _integral(pw: Piecewise):
     total = pw.breaks[0] - pw.breaks[0]
     for k, poly in enumerate(pw.pieces):
-        total += pintegral(poly, pw.breaks[k], pw.breaks[k + 1])
+        total += poly_integral(poly, pw.breaks[k], pw.breaks[k + 1])
     return total
 
 
