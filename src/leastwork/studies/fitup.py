@@ -30,8 +30,8 @@ import numpy as np
 from ..elements import column_of
 from ..errors import CaseError
 from ..model import Structure
+from ..model.units import QuantityError, UnitSystem, parse_quantity
 from ..plaintext import ECHO_LIMIT, literal
-from ..units import QuantityError, UnitSystem, parse_quantity
 from .influence import reaction_rows
 
 __all__ = [
@@ -78,7 +78,7 @@ _NUMBER_FIRST = re.compile(r"^[-+]?(?:\d|\.\d)")
 # ------------------------------------------------------------------------------ input
 def _tolerance_value(st: Structure, item: str, text: str) -> float:
     """One tolerance (m) from ``text``: a length with units, or a bare number in the case
-    length unit. Read by :func:`leastwork.units.parse_quantity` (bounded in length and in
+    length unit. Read by :func:`leastwork.model.units.parse_quantity` (bounded in length and in
     the cost of its arithmetic)."""
     def bad(msg: str) -> CaseError:
         return CaseError(f'"{literal(item, ECHO_LIMIT)}": {msg}', source=_SOURCE, where=_WHERE)
