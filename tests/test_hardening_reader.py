@@ -26,8 +26,7 @@ from leastwork.errors import CaseError
 from leastwork.io import files, quantities
 from leastwork.io.reader import loads_case
 from leastwork.io.record import read_case_record
-from leastwork.plaintext import ECHO_LIMIT
-from leastwork.units import (
+from leastwork.model.units import (
     QUANTITY_LIMIT,
     UNIT_POWER_LIMIT,
     QuantityError,
@@ -35,6 +34,7 @@ from leastwork.units import (
     parse_quantity,
     ureg,
 )
+from leastwork.plaintext import ECHO_LIMIT
 
 #: A message that echoes input cut to ECHO_LIMIT characters stays below this length.
 SHORT = 8 * ECHO_LIMIT

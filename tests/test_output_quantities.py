@@ -12,12 +12,12 @@ from __future__ import annotations
 import pytest
 
 import leastwork
+from leastwork.model.units import DIMENSIONS, UnitSystem
 from leastwork.output.audit import audit_sheet
 from leastwork.output.quantities import QUANTITIES, Quantities, quantities
 from leastwork.output.reported import case_numbers
 from leastwork.output.sheet import Grid
 from leastwork.topology import Column
-from leastwork.units import DIMENSIONS, UnitSystem
 
 KIP = 4448.2216152605  # N, common practice (1000 lbf, exact by definition)
 INCH = 0.0254  # m, common practice (exact by definition)

@@ -14,7 +14,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 import leastwork
-from leastwork import units
+from leastwork.model import units
 from leastwork.topology import member_graph_counts, structure_graph
 
 ROOT = Path(__file__).resolve().parents[1]

@@ -81,48 +81,63 @@ def solve(structure: Structure, redundants=None, *, where: str | None = None,
             return solve_local(st, verify=verify, progress=progress)
         except SweepSingular as exc:
             fallback.append(exc.note)
-    if progress is not None:
-        progress("equilibrium matrix")
+    _phase(progress, "equilibrium matrix")
     topo = build_topology(st)
     if where is None:
         where = "--redundants" if redundants is not None else "[analysis] redundants"
     chosen_by_user = names is not None
     check_stable(st, topo)
     notes: list[str] = [*fallback, *layout_warnings(st, topo)]
-    if progress is not None:
-        progress("redundants")
+    _phase(progress, "redundants")
     red = choose_redundants(st, topo, names, where=where)
-    if progress is not None:
-        progress("flexibility")
+    _phase(progress, "flexibility")
     F = flexibility_blocks(st, topo)
-    released, B, delta, solver = _flexibility(st, topo, red, F)
-    if solver.cond > CONDITION_WARN:
-        alt = _better_choice(st, topo, F, red, solver.cond)
-        if alt is not None and not chosen_by_user:
-            notes.append(f"the first choice of redundants ({_names(topo, red)}) gave a "
-                         f"flexibility matrix with condition number {solver.cond:.2g}; "
-                         f"{_names(topo, alt[0])} was used instead (condition number "
-                         f"{alt[-1].cond:.2g})")
-            red, (released, B, delta, solver) = alt[0], alt[1:]
-        elif alt is not None:
-            notes.append(f"the flexibility matrix is ill-conditioned (condition number "
-                         f"{solver.cond:.2g}): digits of the redundants may be lost; the "
-                         f"redundants {_names(topo, alt[0])} would give "
-                         f"{alt[-1].cond:.2g}")
-        else:
-            notes.append(f"the flexibility matrix is ill-conditioned (condition number "
-                         f"{solver.cond:.2g}): digits of the redundants may be lost, whatever "
-                         "the redundants; check the model for near-mechanisms or members of "
-                         "wildly different stiffness")
+    parts = _flexibility(st, topo, red, F)
+    if parts[-1].cond > CONDITION_WARN:
+        red, parts, note = _conditioning(st, topo, F, red, parts, chosen_by_user)
+        notes.append(note)
+    released, B, delta, solver = parts
     notes.extend(soft_spring_warnings(st, topo, B))
-    if progress is not None:
-        progress("load cases")
+    _phase(progress, "load cases")
     results = solve_cases(st, topo, red, B, F, released, solver)
     _check_targets(st, topo)
     notes.extend(cross_check(st, results, solver.cond, verify, progress))
     return Solution(st, topo, red, chosen_by_user, B, F, delta, results,
                     warnings=tuple(solver.warnings + notes), released=released,
                     condition=solver.cond, flexibility_solver=solver)
+
+
+def _phase(progress, name: str) -> None:
+    """Tell the progress display (if any) that phase ``name`` starts."""
+    if progress is not None:
+        progress(name)
+
+
+def _conditioning(st: Structure, topo, F: np.ndarray, red: list[int], parts,
+                  chosen_by_user: bool):
+    """For an ill-conditioned flexibility matrix: the redundants to use, their
+    :func:`_flexibility` parts, and the warning that says so. An automatic choice gives way
+    to a better-conditioned one (see :func:`_better_choice`); a user's choice is kept, with
+    the better one named."""
+    cond = parts[-1].cond
+    alt = _better_choice(st, topo, F, red, cond)
+    if alt is not None and not chosen_by_user:
+        note = (f"the first choice of redundants ({_names(topo, red)}) gave a "
+                f"flexibility matrix with condition number {cond:.2g}; "
+                f"{_names(topo, alt[0])} was used instead (condition number "
+                f"{alt[-1].cond:.2g})")
+        return alt[0], alt[1:], note
+    if alt is not None:
+        note = (f"the flexibility matrix is ill-conditioned (condition number "
+                f"{cond:.2g}): digits of the redundants may be lost; the "
+                f"redundants {_names(topo, alt[0])} would give "
+                f"{alt[-1].cond:.2g}")
+    else:
+        note = (f"the flexibility matrix is ill-conditioned (condition number "
+                f"{cond:.2g}): digits of the redundants may be lost, whatever "
+                "the redundants; check the model for near-mechanisms or members of "
+                "wildly different stiffness")
+    return red, parts, note
 
 
 def resolve_basis(st: Structure, names, basis: str, where: str) -> str:

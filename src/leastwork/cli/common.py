@@ -48,7 +48,7 @@ def display_units(text: str | None):
     """The UnitSystem of ``--units FORCE,LENGTH``, or None."""
     if text is None:
         return None
-    from ..units import UnitSystem, check_unit
+    from ..model.units import UnitSystem, check_unit
 
     parts = [t.strip() for t in text.split(",")]
     if len(parts) != 2 or not all(parts):

@@ -94,30 +94,30 @@ def _structure_note(text: str) -> str:
     return " ".join(out)
 
 
-def _value(d: dict, case: str, *path: str) -> float:
-    node = d["cases"][case]
-    for key in path:
-        node = node[key]
-    return float(node)
+def _rod_force(numbers) -> float:
+    """The tie rod's force (the redundant CB) of one load case, in the case units."""
+    return float(numbers.redundants["CB"])
 
 
-def _effects_table(d: dict, cases: list[str]) -> Table:
-    """Tie force, wall moment and tip deflection per load case (case units)."""
+def _effects_table(sol, numbers: dict) -> Table:
+    """Tie force, wall moment and tip deflection per load case (case units), from the
+    reported numbers of each case (:func:`leastwork.output.reported.case_numbers`)."""
     from rich.table import Table
 
+    from ..output.quantities import quantities
     from ..output.terminal import user_text
 
-    u = d["units"]
+    q = quantities(sol.units)
     t = Table(title="What each load case does", header_style="bold")
     t.add_column("load case")
     # headers as Text: "[kN]" would otherwise be read as rich markup and vanish
-    t.add_column(user_text(f"tie rod force, tension + [{u['force']}]"), justify="right")
-    t.add_column(user_text(f"m at the wall A, sagging + [{u['moment']}]"), justify="right")
-    t.add_column(user_text(f"tip B.y, up + [{u['length']}]"), justify="right")
-    for c in cases:
-        t.add_row(user_text(c), f"{_value(d, c, 'redundants', 'CB'):.4g}",
-                  f"{_value(d, c, 'members', 'AB', 'start', 'm'):.4g}",
-                  f"{_value(d, c, 'displacements', 'B.y'):.3g}")
+    t.add_column(user_text(f"tie rod force, tension + [{q.force_unit}]"), justify="right")
+    t.add_column(user_text(f"m at the wall A, sagging + [{q.moment_unit}]"), justify="right")
+    t.add_column(user_text(f"tip B.y, up + [{q.length_unit}]"), justify="right")
+    for c, n in numbers.items():
+        t.add_row(user_text(c), f"{_rod_force(n):.4g}",
+                  f"{float(n.members['AB']['start']['m']):.4g}",
+                  f"{float(n.displacements['B.y']):.3g}")
     return t
 
 
@@ -130,14 +130,15 @@ def run_demo(console: Console) -> int:
     from ..io.reader import loads_case
     from ..io.starters import STARTERS, starter_text
     from ..output.audit import audit_sheet
+    from ..output.reported import case_numbers
     from ..output.terminal import print_sheet, print_summary, user_text
     from ..solve import solve
 
     text = starter_text(DEMO_KIND)
     st = loads_case(text, source=f"starter {DEMO_KIND}")
     sol = solve(st)
-    d = sol.to_dict()
     cases = list(sol.cases)
+    numbers = {c: case_numbers(sol, c) for c in cases}  # in the case units
     first = cases[0]
 
     console.rule("[bold]leastwork demo — 1/4: the structure and its summary[/bold]")
@@ -164,12 +165,12 @@ def run_demo(console: Console) -> int:
         "Tightening the turnbuckle shortens the rod by 3 mm (a misfit of -3 mm). The "
         "structure is indeterminate, so the rod cannot simply take up its new length: "
         "beam and rod are forced together and carry forces with no load at all.")
-    console.print(_effects_table(d, cases))
+    console.print(_effects_table(sol, numbers))
     if {"canopy", "turnbuckle", "both"} <= set(cases):
-        a, b, ab = (_value(d, c, "redundants", "CB") for c in ("canopy", "turnbuckle", "both"))
+        a, b, ab = (_rod_force(numbers[c]) for c in ("canopy", "turnbuckle", "both"))
         console.print(user_text(
             f"Linear elastic, so effects add up: {a:.5g} + {b:.5g} = {a + b:.5g} "
-            f"{d['units']['force']}, the rod force of case \"both\" ({ab:.5g})."))
+            f"{sol.units.force}, the rod force of case \"both\" ({ab:.5g})."))
     for c in cases:
         res = sol.cases[c]
         eq = "OK" if res.equilibrium_ok else "FAILED"

@@ -98,7 +98,13 @@ def run_influence(args) -> int:
 # ---------------------------------------------------------------------------- fitup
 def _fitup(args, st, console) -> int:
     from ..solve import solve
-    from ..studies.fitup import adjustment, adjustment_to_dict, fitup_study, parse_tolerances
+    from ..studies.fitup import (
+        adjustment,
+        adjustment_to_dict,
+        fitup_study,
+        parse_tolerances,
+        unit_texts,
+    )
     from ..studies.fitup import study_to_dict as to_dict
 
     if args.tolerance is None and args.adjust is None and args.zero is None:
@@ -126,7 +132,7 @@ def _fitup(args, st, console) -> int:
             out.update(to_dict(study, units))
         if adj is not None:
             out["adjust"] = adjustment_to_dict(adj, units)
-        out["units"] = {"force": units.force, "length": units.length, "moment": units.moment}
+        out["units"] = unit_texts(units)
         out["warnings"] = list(sol.warnings) + adj_warnings
         sys.stdout.write(json.dumps(out, indent=2) + "\n")
         return 0
@@ -154,20 +160,25 @@ def _g(x: float) -> str:
 
 
 def _length(x_si: float, units) -> str:
-    return f"{x_si / units.factor('length'):+.4g}"
+    """A length error (SI) in the report length unit, signed."""
+    from ..output.quantities import quantities
+
+    return f"{quantities(units).to_output(x_si, 'length'):+.4g}"
 
 
 def _print_study(console, study, units) -> None:
     from rich.table import Table
 
+    from ..output.quantities import quantities
     from ..output.terminal import user_text
 
+    uq = quantities(units)
     rep = study.quantities
-    tol = ", ".join(f"{m} ±{_g(t / units.factor('length'))}" for m, t in study.tolerances.items())
+    tol = ", ".join(f"{m} ±{_g(uq.to_output(t, 'length'))}" for m, t in study.tolerances.items())
     dist = ("uniform over ±t" if study.distribution == "uniform"
             else "normal, sigma = t/3")
     console.print(user_text(f"Fit-up study: forces locked in by length errors alone (no "
-                            f"loads). Tolerances [{units.length}]: {tol}"))
+                            f"loads). Tolerances [{uq.length_unit}]: {tol}"))
     console.print(f"Monte Carlo: {study.samples} samples, {dist}, seed {study.seed}.")
     titles = {("members", "force"): "Axial forces", ("moments", "moment"): "Beam end moments",
               ("reactions", "force"): "Reactions", ("reactions", "moment"): "Reaction couples"}
@@ -175,8 +186,7 @@ def _print_study(console, study, units) -> None:
         idx = [q for q in range(len(rep.names)) if rep.groups[q] == group and rep.dims[q] == dim]
         if not idx:
             continue
-        u = units.force if dim == "force" else units.moment
-        f = units.factor(dim)
+        u, f = uq.unit(dim), uq.factor(dim)
         t = Table(title=user_text(f"{title} [{u}]: exact worst case and Monte Carlo"),
                   header_style="bold")
         t.add_column("quantity", no_wrap=True)
@@ -195,31 +205,35 @@ def _print_study(console, study, units) -> None:
                 study.tolerances, study.worst.pattern_max[q], strict=True) if e != 0)
             console.print(user_text(
                 f"Largest worst-case axial force: {rep.names[q]}, "
-                f"{_g(study.worst.max[q] / units.factor('force'))} {units.force}, with the "
-                f"length errors [{units.length}] {pat} (the opposite signs give the minimum)."))
+                f"{_g(uq.to_output(study.worst.max[q], 'force'))} {uq.force_unit}, with the "
+                f"length errors [{uq.length_unit}] {pat} (the opposite signs give the "
+                "minimum)."))
 
 
 def _print_adjustment(console, adj, units) -> None:
     from rich.table import Table
 
+    from ..output.quantities import quantities
     from ..output.terminal import user_text
 
-    Ff, Lf = units.factor("force"), units.factor("length")
+    uq = quantities(units)
+    Ff, Lf = uq.factor("force"), uq.factor("length")
+    fu, lu = uq.force_unit, uq.length_unit
     how = "longer" if adj.change > 0 else "shorter"
     from rich.text import Text
 
     console.print(Text.assemble(
         literal(f"Load case {adj.case}: the axial force in {adj.target} is "
-                f"{_g(adj.force_before / Ff)} {units.force} and changes by "
-                f"{_g(adj.rate * Lf / Ff)} {units.force} per {units.length} of length change "
+                f"{_g(adj.force_before / Ff)} {fu} and changes by "
+                f"{_g(adj.rate * Lf / Ff)} {fu} per {lu} of length change "
                 f"of {adj.member}. Make {adj.member} "),
-        (literal(f"{_g(abs(adj.change) / Lf)} {units.length} {how}"), "bold"),
-        literal(f" (misfit {_length(adj.change, units)} {units.length}) to make it zero.")))
+        (literal(f"{_g(abs(adj.change) / Lf)} {lu} {how}"), "bold"),
+        literal(f" (misfit {_length(adj.change, units)} {lu}) to make it zero.")))
     for w in adj.warnings:
         console.print(Text(f"WARNING: {w}", style="bold red"))
-    t = Table(title=user_text(f"Axial forces [{units.force}], load case {adj.case}"),
+    t = Table(title=user_text(f"Axial forces [{fu}], load case {adj.case}"),
               header_style="bold")
-    for head in ("member", f"before [{units.force}]", f"after [{units.force}]"):
+    for head in ("member", f"before [{fu}]", f"after [{fu}]"):
         t.add_column(user_text(head), justify="left" if head == "member" else "right")
     top = max([abs(v) for v in (*adj.before.values(), *adj.after.values())] + [0.0])
     for m in adj.before:

@@ -2,7 +2,7 @@
 expressions of the ``[parameters]``, within the bounds a hostile file cannot pass.
 
 A plain "NUMBER UNIT" string takes a short way to the same value as the full expression
-parser (:func:`leastwork.units.parse_quantity`); every string is read once per dimension.
+parser (:func:`leastwork.model.units.parse_quantity`); every string is read once per dimension.
 """
 
 from __future__ import annotations
@@ -12,8 +12,7 @@ import re
 from typing import Any
 
 from ..errors import CaseError
-from ..plaintext import ECHO_LIMIT, literal
-from ..units import (
+from ..model.units import (
     QUANTITY_LIMIT,
     QuantityError,
     UnitSystem,
@@ -22,6 +21,7 @@ from ..units import (
     parse_quantity,
     ureg,
 )
+from ..plaintext import ECHO_LIMIT, literal
 from .messages import as_float, hint, kind_of, shown
 
 __all__ = ["QuantityReader", "EXPRESSION_LIMIT", "PARAMETER_CHAIN_LIMIT", "SI_LIMIT"]
@@ -197,7 +197,7 @@ class QuantityReader:
         return q
 
     def _read(self, text: str, where: str):
-        """:func:`~leastwork.units.parse_quantity` of ``text`` (stripped) with the parameters
+        """:func:`~leastwork.model.units.parse_quantity` of ``text`` (stripped) with the parameters
         it names, within the case's budget of :data:`EXPRESSION_LIMIT` readings."""
         self._readings += 1
         if self._readings > EXPRESSION_LIMIT:

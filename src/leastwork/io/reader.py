@@ -13,7 +13,7 @@ from pathlib import Path
 from typing import Any
 
 from ..model import Node, Structure
-from ..units import UnitSystem, check_unit
+from ..model.units import UnitSystem, check_unit
 from .analysis import check_shear, read_analysis
 from .core import CaseReader
 from .files import parse_toml, read_case_text

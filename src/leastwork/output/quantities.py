@@ -2,7 +2,7 @@
 of a basic force or redundant by its column kind, and the unit texts.
 
 Inside, every number is SI (N, m, rad). An output divides a value by the factor of its
-quantity in the :class:`~leastwork.units.UnitSystem` it reports in (the case's, or
+quantity in the :class:`~leastwork.model.units.UnitSystem` it reports in (the case's, or
 ``--units``). A factor is ``F**f * L**l``, with F and L the SI values of one force and one
 length unit, computed as :meth:`UnitSystem.factor` does, so that every output turns a
 value into the same float.
@@ -12,7 +12,7 @@ from __future__ import annotations
 
 from functools import lru_cache
 
-from ..units import UnitSystem
+from ..model.units import UnitSystem
 
 __all__ = ["QUANTITIES", "Quantities", "quantities"]
 

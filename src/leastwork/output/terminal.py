@@ -130,10 +130,22 @@ def print_summary(console: Console, sol, case_names=None) -> None:
     if is_large(sol):
         print_short_summary(console, sol, case_names)
         return
+    _print_setup(console, sol)
+    for name in case_names or list(sol.cases):
+        _print_load_case(console, sol, name)
+    from .audit import envelope_grids
+
+    for grid in envelope_grids(sol):
+        for part in split_grid(grid, console.width):
+            console.print(_rich_table(part))
+    console.print(Panel(CAUTION, title="Caution", style="yellow"))
+
+
+def _print_setup(console: Console, sol) -> None:
+    """What the analysis rests on: the structure, the assumptions and energy terms, the
+    indeterminacy, the redundants with the conditioning of their flexibility matrix, and
+    every warning."""
     st, topo = sol.structure, sol.topology
-    q = quantities(sol.units)
-    Ff = q.factor("force")
-    fu, mu, lu = sol.units.force, f"{sol.units.force}*{sol.units.length}", sol.units.length
     console.print(heading(st.name, st.source))
     console.print(f"Assumptions: {ASSUMPTIONS}")
     console.print(user_text(energy_terms(st)))
@@ -146,78 +158,115 @@ def print_summary(console: Console, sol, case_names=None) -> None:
                       "(after scaling its diagonal to one).")
     for w in sol.warnings:
         console.print(user_text(f"Warning: {w}", "yellow"))
-    for name in case_names or list(sol.cases):
-        res = sol.cases[name]
-        numbers = case_numbers(sol, name)  # as the JSON gives them (round-off shown as zero)
-        console.rule(user_text(f"Load case: {name}"))
-        _equilibrium_alarm(console, res, Ff, fu)
-        if len(res.redundants):
-            t = Table(title="Redundants", header_style="bold")
-            t.add_column("redundant")
-            t.add_column("value", justify="right")
-            t.add_column("unit")
-            for j, x in zip(sol.redundant_columns, res.redundants, strict=True):
-                col = topo.columns[j]
-                t.add_row(user_text(col.name), _g(q.column(x, col)),
-                          user_text(q.column_unit(col)))
-            console.print(t)
-        t = Table(title="Reactions (force the support applies to the structure)",
-                  header_style="bold")
-        t.add_column("support")
-        t.add_column(user_text(f"x [{fu}]"), justify="right")
-        t.add_column(user_text(f"y [{fu}]"), justify="right")
-        t.add_column(user_text(f"rz [{mu}]"), justify="right")
-        t.add_column(user_text(f"normal n [{fu}]"), justify="right")
-        for node, comps in numbers.reactions.items():
-            t.add_row(user_text(node), *[_g(comps[d]) if d in comps else "—"
-                              for d in ("x", "y", "rz", "n")])
-        console.print(t)
-        t = Table(title="Member end forces (section forces: n tension +, m sagging +, v = dm/dx)",
-                  header_style="bold")
-        t.add_column("member")
-        for h in (f"n start [{fu}]", f"v start [{fu}]", f"m start [{mu}]", f"n end [{fu}]",
-                  f"v end [{fu}]", f"m end [{mu}]"):
-            t.add_column(user_text(h), justify="right")
-        for mid, mj in numbers.members.items():
-            t.add_row(user_text(mid), *[_g(mj[e][q]) for e in ("start", "end") for q in "nvm"])
-        console.print(t)
-        beams = [mid for mid in res.members if st.members[mid].is_beam]
-        if beams:
-            t = Table(title="Bending moment extremes and largest deflection along beams",
-                      header_style="bold")
-            t.add_column("beam")
-            t.add_column(user_text(f"m max [{mu}]"), justify="right")
-            t.add_column(user_text(f"at [{lu}]"), justify="right")
-            t.add_column(user_text(f"m min [{mu}]"), justify="right")
-            t.add_column(user_text(f"at [{lu}]"), justify="right")
-            t.add_column(user_text(f"deflection [{lu}]"), justify="right")
-            t.add_column(user_text(f"at [{lu}]"), justify="right")
-            for mid in beams:  # as the JSON gives them (deflection found once)
-                mj = numbers.members[mid]
-                t.add_row(user_text(mid), _g(mj["m_max"]["value"]), _g(mj["m_max"]["at"]),
-                          _g(mj["m_min"]["value"]), _g(mj["m_min"]["at"]),
-                          _g(mj["deflection_max"]["value"], 4),
-                          _g(mj["deflection_max"]["at"], 4))
-            console.print(t)
-        if res.displacements:
-            t = Table(title="Displacements (global; rotations counter-clockwise +)",
-                      header_style="bold")
-            t.add_column("where")
-            t.add_column("value", justify="right")
-            t.add_column("unit")
-            for k, v in numbers.displacements.items():
-                t.add_row(user_text(k), _g(v), user_text("rad" if k.endswith(".rz") else lu))
-            console.print(t)
-        status = "[green]OK[/green]" if res.equilibrium_ok else "[bold red]FAILED[/bold red]"
-        console.print(f"Equilibrium check: largest residual {_g(res.equilibrium_residual / Ff, 2)}"
-                      f" {fu} — {status}")
-        _print_cross_check(console, res)
-    from .audit import envelope_grids
 
-    for grid in envelope_grids(sol):
-        for part in split_grid(grid, console.width):
-            console.print(_rich_table(part))
-    console.print(Panel(CAUTION, title="Caution", style="yellow"))
+
+def _print_load_case(console: Console, sol, name: str) -> None:
+    """Every table of one load case (redundants, reactions, member end forces, beam
+    extremes, displacements asked for) and its checks."""
+    res = sol.cases[name]
+    numbers = case_numbers(sol, name)  # as the JSON gives them (round-off shown as zero)
+    Ff, fu = quantities(sol.units).factor("force"), sol.units.force
+    console.rule(user_text(f"Load case: {name}"))
+    _equilibrium_alarm(console, res, Ff, fu)
+    for table in (_redundants_table(sol, res), _reactions_table(sol, numbers),
+                  _member_end_table(sol, numbers), _beam_extremes_table(sol, res, numbers),
+                  _displacements_table(sol, res, numbers)):
+        if table is not None:
+            console.print(table)
+    _print_checks(console, res, Ff, fu)
+
+
+def _redundants_table(sol, res) -> Table | None:
+    """The redundants of one load case in the output units (None when there are none)."""
+    if not len(res.redundants):
+        return None
+    q = quantities(sol.units)
+    t = Table(title="Redundants", header_style="bold")
+    t.add_column("redundant")
+    t.add_column("value", justify="right")
+    t.add_column("unit")
+    for j, x in zip(sol.redundant_columns, res.redundants, strict=True):
+        col = sol.topology.columns[j]
+        t.add_row(user_text(col.name), _g(q.column(x, col)), user_text(q.column_unit(col)))
+    return t
+
+
+def _reactions_table(sol, numbers) -> Table:
+    """The support reactions, component by component."""
+    fu, mu = sol.units.force, sol.units.moment
+    t = Table(title="Reactions (force the support applies to the structure)",
+              header_style="bold")
+    t.add_column("support")
+    t.add_column(user_text(f"x [{fu}]"), justify="right")
+    t.add_column(user_text(f"y [{fu}]"), justify="right")
+    t.add_column(user_text(f"rz [{mu}]"), justify="right")
+    t.add_column(user_text(f"normal n [{fu}]"), justify="right")
+    for node, comps in numbers.reactions.items():
+        t.add_row(user_text(node), *[_g(comps[d]) if d in comps else "—"
+                                     for d in ("x", "y", "rz", "n")])
+    return t
+
+
+def _member_end_table(sol, numbers) -> Table:
+    """The section forces n, v, m at both ends of every member."""
+    fu, mu = sol.units.force, sol.units.moment
+    t = Table(title="Member end forces (section forces: n tension +, m sagging +, v = dm/dx)",
+              header_style="bold")
+    t.add_column("member")
+    for h in (f"n start [{fu}]", f"v start [{fu}]", f"m start [{mu}]", f"n end [{fu}]",
+              f"v end [{fu}]", f"m end [{mu}]"):
+        t.add_column(user_text(h), justify="right")
+    for mid, mj in numbers.members.items():
+        t.add_row(user_text(mid), *[_g(mj[e][q]) for e in ("start", "end") for q in "nvm"])
+    return t
+
+
+def _beam_extremes_table(sol, res, numbers) -> Table | None:
+    """Largest and smallest bending moment and largest deflection along each beam, with
+    where they occur (None when there are no beams)."""
+    beams = [mid for mid in res.members if sol.structure.members[mid].is_beam]
+    if not beams:
+        return None
+    mu, lu = sol.units.moment, sol.units.length
+    t = Table(title="Bending moment extremes and largest deflection along beams",
+              header_style="bold")
+    t.add_column("beam")
+    t.add_column(user_text(f"m max [{mu}]"), justify="right")
+    t.add_column(user_text(f"at [{lu}]"), justify="right")
+    t.add_column(user_text(f"m min [{mu}]"), justify="right")
+    t.add_column(user_text(f"at [{lu}]"), justify="right")
+    t.add_column(user_text(f"deflection [{lu}]"), justify="right")
+    t.add_column(user_text(f"at [{lu}]"), justify="right")
+    for mid in beams:  # as the JSON gives them (deflection found once)
+        mj = numbers.members[mid]
+        t.add_row(user_text(mid), _g(mj["m_max"]["value"]), _g(mj["m_max"]["at"]),
+                  _g(mj["m_min"]["value"]), _g(mj["m_min"]["at"]),
+                  _g(mj["deflection_max"]["value"], 4),
+                  _g(mj["deflection_max"]["at"], 4))
+    return t
+
+
+def _displacements_table(sol, res, numbers) -> Table | None:
+    """The displacements asked for (None when none were)."""
+    if not res.displacements:
+        return None
+    lu = sol.units.length
+    t = Table(title="Displacements (global; rotations counter-clockwise +)",
+              header_style="bold")
+    t.add_column("where")
+    t.add_column("value", justify="right")
+    t.add_column("unit")
+    for k, v in numbers.displacements.items():
+        t.add_row(user_text(k), _g(v), user_text("rad" if k.endswith(".rz") else lu))
+    return t
+
+
+def _print_checks(console: Console, res, Ff: float, fu: str) -> None:
+    """The equilibrium check and the cross-check of one load case, one line each."""
+    status = "[green]OK[/green]" if res.equilibrium_ok else "[bold red]FAILED[/bold red]"
+    console.print(f"Equilibrium check: largest residual {_g(res.equilibrium_residual / Ff, 2)}"
+                  f" {fu} — {status}")
+    _print_cross_check(console, res)
 
 
 @dataclass(frozen=True)
@@ -389,10 +438,7 @@ def print_short_summary(console: Console, sol, case_names=None) -> None:
         console.print(_governing_table(sol, res))
         if len(res.displacements) > NAMES_SHOWN:
             console.print(f"{len(res.displacements)} displacements asked for: in --json.")
-        status = "[green]OK[/green]" if res.equilibrium_ok else "[bold red]FAILED[/bold red]"
-        console.print(f"Equilibrium check: largest residual {_g(res.equilibrium_residual / Ff, 2)}"
-                      f" {fu} — {status}")
-        _print_cross_check(console, res)
+        _print_checks(console, res, Ff, fu)
     if st.combinations:
         console.print(f"The envelope over the {len(st.combinations)} combination(s) is in "
                       "--json; each combination is summarised above as a load case.")

@@ -30,8 +30,9 @@ import numpy as np
 from ..elements import column_of
 from ..errors import CaseError
 from ..model import Structure
+from ..model.units import QuantityError, UnitSystem, parse_quantity
+from ..output.quantities import quantities
 from ..plaintext import ECHO_LIMIT, literal
-from ..units import QuantityError, UnitSystem, parse_quantity
 from .influence import reaction_rows
 
 __all__ = [
@@ -45,6 +46,7 @@ __all__ = [
     "parse_tolerances",
     "axial_column",
     "reported_quantities",
+    "unit_texts",
     "misfit_influence",
     "worst_case",
     "exact_std",
@@ -78,7 +80,7 @@ _NUMBER_FIRST = re.compile(r"^[-+]?(?:\d|\.\d)")
 # ------------------------------------------------------------------------------ input
 def _tolerance_value(st: Structure, item: str, text: str) -> float:
     """One tolerance (m) from ``text``: a length with units, or a bare number in the case
-    length unit. Read by :func:`leastwork.units.parse_quantity` (bounded in length and in
+    length unit. Read by :func:`leastwork.model.units.parse_quantity` (bounded in length and in
     the cost of its arithmetic)."""
     def bad(msg: str) -> CaseError:
         return CaseError(f'"{literal(item, ECHO_LIMIT)}": {msg}', source=_SOURCE, where=_WHERE)
@@ -492,12 +494,13 @@ def _change_warnings(sol, member: str, target: str, change: float) -> tuple[str,
     L = sol.structure.length(member)
     if not abs(change) > SMALL_CHANGE_FRACTION * L:
         return ()
-    u = sol.units
-    Lf = u.factor("length")
+    q = quantities(sol.units)
+    lu = q.length_unit
     how = "longer" if change > 0 else "shorter"
     m_name = literal(member, ECHO_LIMIT)
-    return (f"making {m_name} {abs(change) / Lf:.4g} {u.length} {how} "
-            f"({100 * abs(change) / L:.3g}% of its length, {L / Lf:.4g} {u.length}) is outside "
+    return (f"making {m_name} {q.to_output(abs(change), 'length'):.4g} {lu} {how} "
+            f"({100 * abs(change) / L:.3g}% of its length, {q.to_output(L, 'length'):.4g} "
+            f"{lu}) is outside "
             "the small-displacement range this analysis assumes (length changes up to "
             f"{100 * SMALL_CHANGE_FRACTION:g}% of the member's length): the force in "
             f"{literal(target, ECHO_LIMIT)} responds too little to {m_name}; the forces after "
@@ -513,7 +516,8 @@ def _num(x: float) -> float:
 def study_to_dict(study: FitupStudy, units: UnitSystem) -> dict:
     """The JSON of ``leastwork fitup`` (see docs/studies.md), in the report units: forces in
     the force unit, moments in force*length, tolerances and patterns in the length unit."""
-    Lf = units.factor("length")
+    uq = quantities(units)
+    Lf = uq.factor("length")
     members = list(study.tolerances)
     rep = study.quantities
     out: dict = {
@@ -527,7 +531,7 @@ def study_to_dict(study: FitupStudy, units: UnitSystem) -> dict:
     }
     w, mc = study.worst, study.stats
     for q, (name, group, dim) in enumerate(zip(rep.names, rep.groups, rep.dims, strict=True)):
-        f = units.factor(dim)
+        f = uq.factor(dim)
         out[group][name] = {
             "worst": {
                 "max": _num(w.max[q] / f),
@@ -543,13 +547,14 @@ def study_to_dict(study: FitupStudy, units: UnitSystem) -> dict:
             "p05": _num(mc.p05[q] / f),
             "p95": _num(mc.p95[q] / f),
         }
-    out["units"] = _units(units)
+    out["units"] = unit_texts(units)
     return out
 
 
 def adjustment_to_dict(adj: Adjustment, units: UnitSystem) -> dict:
     """The ``"adjust"`` entry of the JSON, in the report units."""
-    Ff, Lf = units.factor("force"), units.factor("length")
+    uq = quantities(units)
+    Ff, Lf = uq.factor("force"), uq.factor("length")
     top = max([abs(v) for v in (*adj.before.values(), *adj.after.values())] + [0.0])
 
     def force(v: float) -> float:
@@ -568,5 +573,7 @@ def adjustment_to_dict(adj: Adjustment, units: UnitSystem) -> dict:
     }
 
 
-def _units(units: UnitSystem) -> dict:
-    return {"force": units.force, "length": units.length, "moment": units.moment}
+def unit_texts(units: UnitSystem) -> dict:
+    """The unit texts of the JSON (:mod:`leastwork.output.quantities`)."""
+    uq = quantities(units)
+    return {"force": uq.force_unit, "length": uq.length_unit, "moment": uq.moment_unit}

@@ -36,6 +36,7 @@ from ..energy import initial_deformation_terms
 from ..errors import CaseError
 from ..fields import ParticularFields
 from ..model import Structure
+from ..output.quantities import quantities
 
 __all__ = [
     "QuantitySpec",
@@ -192,8 +193,9 @@ def _section(st: Structure, topo, text: str, mid: str, dist: str, comp: str,
                    where) from None
     L = st.length(mid)
     if not (np.isfinite(at) and 0.0 <= at <= L * (1 + 1e-12)):
+        uq = quantities(st.units)
         raise _err(f'"{text}": distance is off the member (length '
-                   f"{L / st.units.factor('length'):g} {st.units.length})", where)
+                   f"{uq.to_output(L, 'length'):g} {uq.length_unit})", where)
     at = min(at, L)
     kind = kind_of(mem)
     units = kind.unit_fields(mem, L, 1.0, 0.0)
@@ -328,7 +330,7 @@ def influence_line(sol, quantity: str | QuantitySpec, along: str | Sequence[str]
     q = quantity if isinstance(quantity, QuantitySpec) else parse_quantity(st, topo, quantity)
     members = parse_members(st, along)
     points = load_points(st, members, intervals, q)
-    load = units.factor("force")
+    load = quantities(units).factor("force")
     P, E, fields = point_loading(st, topo, points, load)
     S0 = sol.released.forces(P)
     X = _flexibility_solver(sol).solve(-sol.B.T @ (sol.F @ S0 + E))
@@ -345,9 +347,10 @@ def influence_line(sol, quantity: str | QuantitySpec, along: str | Sequence[str]
 def influence_to_dict(line: InfluenceLine, units, name: str = "") -> dict:
     """The JSON of ``leastwork influence``: ordinates in the report units (force or
     force*length per unit load), distances in the length unit."""
-    Lf = units.factor("length")
-    vf = units.factor(line.quantity.dimension)
-    value_unit = units.force if line.quantity.dimension == "force" else units.moment
+    uq = quantities(units)
+    Lf = uq.factor("length")
+    vf = uq.factor(line.quantity.dimension)
+    value_unit = uq.unit(line.quantity.dimension)
     values = np.asarray(line.values, dtype=float) / vf
     top = float(np.max(np.abs(values))) if values.size else 0.0
     values = np.where(np.abs(values) <= _ROUND_OFF * top, 0.0, values)
@@ -359,8 +362,8 @@ def influence_to_dict(line: InfluenceLine, units, name: str = "") -> dict:
         points.append(entry)
     out = {
         "quantity": line.quantity.name,
-        "units": {"force": units.force, "length": units.length, "moment": units.moment,
-                  "value": value_unit, "load": f"1 {units.force} downward (-y)"},
+        "units": {"force": uq.force_unit, "length": uq.length_unit, "moment": uq.moment_unit,
+                  "value": value_unit, "load": f"1 {uq.force_unit} downward (-y)"},
         "points": points,
     }
     if name:

@@ -382,7 +382,7 @@ def _as_numeric_solve(st, topo, first: list[int], numeric: list[str] | None):
 
 
 def _is_angle(q) -> bool:
-    from ..units import _has_angle
+    from ..model.units import _has_angle
 
     return bool(q.dimensionless and _has_angle(q))
 

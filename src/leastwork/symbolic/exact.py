@@ -26,7 +26,7 @@ from sympy import Rational
 from ..errors import CaseError
 from ..loadkinds import load_kind
 from ..model import Structure
-from ..units import DIMENSIONS, UnitSystem, ureg
+from ..model.units import DIMENSIONS, UnitSystem, ureg
 
 __all__ = ["ExactModel", "read_exact", "exact_number", "exact_factor", "case_factor"]
 
@@ -254,7 +254,7 @@ class _Evaluator:
         return sym * case_factor(self.units, exps) * _dimension_of(exps)
 
     def _dimensionless_angle(self, name: str) -> bool:
-        from ..units import _has_angle
+        from ..model.units import _has_angle
 
         return bool(_has_angle(self.numeric_params[name]))
 
@@ -300,7 +300,7 @@ class _Evaluator:
         raw, dimension = self.record.fields[where]
         if not isinstance(raw, str):
             return exact_number(raw)
-        from ..units import _has_angle
+        from ..model.units import _has_angle
 
         value = self.evaluate(raw, self._binding, where)
         q = self._numeric(raw)

@@ -8,7 +8,7 @@ from typing import Any
 import sympy
 from sympy.core.mul import _keep_coeff
 
-from ..units import UnitSystem
+from ..model.units import UnitSystem
 from .algebra import Algebra, Lin
 from .pipeline import QuadraticValue, RootValue
 

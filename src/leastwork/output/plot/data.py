@@ -160,7 +160,8 @@ def _place(st: Structure, mid: str, x: float) -> str:
         return f"node {st.members[mid].start}"
     if x >= L * (1 - 1e-9):
         return f"node {st.members[mid].end}"
-    return f"{mid} at {fmt(x / st.units.factor('length'), 3)} {st.units.length}"
+    lf, lu = case_units(st)["length"]
+    return f"{mid} at {fmt(x / lf, 3)} {lu}"
 
 
 def _shapes(sol, res, samples: int) -> dict[str, tuple[np.ndarray, np.ndarray, np.ndarray]]:

@@ -8,6 +8,7 @@ import math
 import numpy as np
 
 from ...model import Structure
+from ..quantities import quantities
 
 
 def nice_factor(x: float) -> float:
@@ -34,10 +35,12 @@ def structure_size(st: Structure) -> float:
 
 
 def case_units(st: Structure) -> dict[str, tuple[float, str]]:
-    """(SI value of one case unit, its name) of force, length and moment."""
-    u = st.units
-    return {"force": (u.factor("force"), u.force), "length": (u.factor("length"), u.length),
-            "moment": (u.factor("moment"), f"{u.force}·{u.length}")}
+    """(SI value of one case unit, its name) of force, length and moment (the factors of
+    :mod:`leastwork.output.quantities`; the moment unit written with a middle dot)."""
+    q = quantities(st.units)
+    return {"force": (q.factor("force"), q.force_unit),
+            "length": (q.factor("length"), q.length_unit),
+            "moment": (q.factor("moment"), f"{q.force_unit}·{q.length_unit}")}
 
 
 def xy(st: Structure, node: str) -> np.ndarray:

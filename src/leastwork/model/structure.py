@@ -91,7 +91,7 @@ def rotational_nodes(members) -> set[str]:
     ``members`` is an iterable of :class:`Member`. At any other node (only bars or hinged
     beam ends) no moment can be resisted and no rotation is defined.
     """
-    from .elements import kind_of
+    from ..elements import kind_of
 
     nodes: set[str] = set()
     for m in members:

@@ -16,7 +16,7 @@ import tokenize
 from dataclasses import dataclass
 from functools import lru_cache
 
-from .plaintext import ECHO_LIMIT, literal
+from ..plaintext import ECHO_LIMIT, literal
 
 __all__ = ["UnitSystem", "DIMENSIONS", "ureg", "parse_quantity", "QuantityError",
            "QUANTITY_LIMIT", "UNIT_POWER_LIMIT"]
