@@ -36,7 +36,7 @@ from .model import (
     TemperatureLoad,
 )
 
-__all__ = ["LoadSink", "LoadKind", "LOAD_KINDS", "register_load", "load_kind"]
+__all__ = ["LoadSink", "CaseEffects", "LoadKind", "LOAD_KINDS", "register_load", "load_kind"]
 
 
 class LoadSink(Protocol):
@@ -65,6 +65,74 @@ class LoadSink(Protocol):
 
     def settlement(self, node: str, direction: str, value) -> None:
         """Imposed displacement of a support along ``direction``."""
+
+
+class CaseEffects:
+    """The :class:`LoadSink` of both pipelines: the effects of one load case in the number
+    type of ``zero`` (SI floats, or exact elements in the case units).
+
+    ``vector(n)`` makes a zero vector (numpy or a list); ``section(member)`` gives the
+    member's section values, ``length(member)`` its length and ``end_of(at, L)`` "start",
+    "end" or None for a position along it (a load at an end goes to the node). Collects
+    ``p`` (nodal loads, ndof), ``c`` (settlements along the reaction columns, ncol),
+    ``nodal`` (the :class:`NodalLoad` s on nodes), ``point`` and ``dist`` (span loads
+    per member, global components) and ``strains`` (alpha dT, alpha dTgrad/h, misfit per
+    member).
+    """
+
+    def __init__(self, st: Structure, topo, case: str, zero, vector: Callable[[int], Any],
+                 section: Callable[[str], Any], length: Callable[[str], Any],
+                 end_of: Callable[[Any, Any], str | None]):
+        self.st, self.topo, self.case, self.zero = st, topo, case, zero
+        self.section, self.length, self.end_of = section, length, end_of
+        self.p = vector(len(topo.dofs))
+        self.c = vector(len(topo.columns))
+        self.nodal: list[NodalLoad] = []
+        self.point: dict[str, list] = {}
+        self.dist: dict[str, list] = {}
+        self.strains: dict[str, list] = {}
+
+    def add_nodal(self, node: str, fx, fy, mz) -> None:
+        """Adds to ``p`` (a moment only where the node takes one)."""
+        di, p = self.topo.dof_index, self.p
+        p[di[f"{node}.x"]] += fx
+        p[di[f"{node}.y"]] += fy
+        if mz:
+            key = f"{node}.rz"
+            if key not in di:
+                from .errors import MechanismError
+
+                raise MechanismError(
+                    f"{self.st.source}: a moment is applied at node {node}, where every "
+                    "member end is hinged: nothing resists it (a mechanism).", [key])
+            p[di[key]] += mz
+
+    def node_force(self, node: str, fx, fy, mz) -> None:
+        self.add_nodal(node, fx, fy, mz)
+        self.nodal.append(NodalLoad(node, fx, fy, mz, self.case))
+
+    def member_point(self, member: str, at, fx, fy, mz) -> None:
+        end = self.end_of(at, self.length(member))
+        if end is not None:
+            m = self.st.members[member]
+            self.node_force(m.start if end == "start" else m.end, fx, fy, mz)
+        else:
+            self.point.setdefault(member, []).append((at, fx, fy, mz))
+
+    def member_distributed(self, member: str, start, end, wx, wy) -> None:
+        end = self.length(member) if end is None else end
+        self.dist.setdefault(member, []).append((start, end, tuple(wx), tuple(wy)))
+
+    def member_strain(self, member: str, eps, kappa, misfit) -> None:
+        acc = self.strains.setdefault(member, [self.zero] * 3)
+        for i, v in enumerate((eps, kappa, misfit)):
+            if v:
+                acc[i] += v
+
+    def settlement(self, node: str, direction: str, value) -> None:
+        name = f"{node}.{direction}"
+        if name in self.topo.column_index:
+            self.c[self.topo.column_index[name]] += value
 
 
 @dataclass(frozen=True)

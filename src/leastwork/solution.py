@@ -313,6 +313,16 @@ def _equilibrium(st: Structure, topo, loading, members, reactions,
             sums.add(at, r[:, i], size_r[:, i], states_r[:, i])
         scale = max(scale, float(np.max(np.abs(r[:, :2]))))
     rigid = np.array([f"{nid}.rz" in topo.dof_index for nid in ids], dtype=bool)
+    return _worst_equation(st, loading, reactions, ids, rigid, (fx, fy, mz), scale, lref)
+
+
+def _worst_equation(st: Structure, loading, reactions, ids: list[str], rigid: np.ndarray,
+                    sums: tuple, scale: float, lref: float) -> EquilibriumCheck:
+    """Each joint's and the whole structure's residual against its round-off allowance;
+    the :class:`EquilibriumCheck` of the equation with the largest ratio. ``sums``: the
+    (fx, fy, mz) :class:`_Sums` of the joints; ``rigid``: joints that take a moment."""
+    fx, fy, mz = sums
+    nn = len(ids)
     # the solve is backward stable in norm, not joint by joint: each joint may keep the
     # round-off of the largest joint's terms (moments: times the longest member) besides
     # that of its own

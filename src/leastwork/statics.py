@@ -17,8 +17,8 @@ from .basis import Basis
 from .elements import kind_of
 from .errors import MechanismError
 from .fields import ParticularFields
-from .loadkinds import load_kind
-from .model import NodalLoad, Structure
+from .loadkinds import CaseEffects, load_kind
+from .model import Structure
 from .topology import Topology
 
 __all__ = ["CaseLoading", "ReleasedStructure", "case_loading"]
@@ -39,10 +39,11 @@ class CaseLoading:
 
 def case_loading(st: Structure, topo: Topology, case: str) -> CaseLoading:
     """Assemble the nodal load vector, span-load fields, imposed deformations and
-    settlements of load case ``case``: each load puts its effects on a :class:`_Sink`
-    through its kind (:mod:`leastwork.loadkinds`)."""
+    settlements of load case ``case``: each load puts its effects on a
+    :class:`leastwork.loadkinds.CaseEffects` through its kind."""
     loads = tuple(ld for ld in st.loads if ld.case == case)
-    sink = _Sink(st, topo, case)
+    sink = CaseEffects(st, topo, case, 0.0, np.zeros, lambda mid: st.members[mid], st.length,
+                       _end_of)
     for ld in loads:
         kind = load_kind(ld)
         kind.apply(kind.values(ld), ld, sink)
@@ -58,63 +59,10 @@ def case_loading(st: Structure, topo: Topology, case: str) -> CaseLoading:
     return CaseLoading(case, sink.p, particulars, imposed, sink.c, tuple(sink.nodal), loads)
 
 
-class _Sink:
-    """The effects of one load case's loads in SI floats (a :class:`leastwork.loadkinds.
-    LoadSink`)."""
-
-    zero = 0.0
-
-    def __init__(self, st: Structure, topo: Topology, case: str):
-        self.st, self.topo, self.case = st, topo, case
-        self.p = np.zeros(len(topo.dofs))
-        self.c = np.zeros(len(topo.columns))
-        self.point: dict[str, list] = {}
-        self.dist: dict[str, list] = {}
-        self.nodal: list = []
-        self.strains: dict[str, list[float]] = {}
-
-    def section(self, member: str):
-        return self.st.members[member]
-
-    def add_nodal(self, node: str, fx: float, fy: float, mz: float) -> None:
-        di, p = self.topo.dof_index, self.p
-        p[di[f"{node}.x"]] += fx
-        p[di[f"{node}.y"]] += fy
-        if mz:
-            key = f"{node}.rz"
-            if key not in di:
-                raise MechanismError(
-                    f"{self.st.source}: a moment is applied at node {node}, where every "
-                    "member end is hinged: nothing resists it (a mechanism).", [key])
-            p[di[key]] += mz
-
-    def node_force(self, node: str, fx, fy, mz) -> None:
-        self.add_nodal(node, fx, fy, mz)
-        self.nodal.append(NodalLoad(node, fx, fy, mz, self.case))
-
-    def member_point(self, member: str, at, fx, fy, mz) -> None:
-        m = self.st.members[member]
-        L = self.st.length(member)
-        tol = 1e-12 * max(L, 1.0)
-        if at <= tol or at >= L - tol:
-            self.node_force(m.start if at <= tol else m.end, fx, fy, mz)
-        else:
-            self.point.setdefault(member, []).append((at, fx, fy, mz))
-
-    def member_distributed(self, member: str, start, end, wx, wy) -> None:
-        end = self.st.length(member) if end is None else end
-        self.dist.setdefault(member, []).append((start, end, wx, wy))
-
-    def member_strain(self, member: str, eps, kappa, misfit) -> None:
-        acc = self.strains.setdefault(member, [0.0, 0.0, 0.0])
-        for i, v in enumerate((eps, kappa, misfit)):
-            if v:
-                acc[i] += v
-
-    def settlement(self, node: str, direction: str, value) -> None:
-        name = f"{node}.{direction}"
-        if name in self.topo.column_index:
-            self.c[self.topo.column_index[name]] += value
+def _end_of(at: float, length: float) -> str | None:
+    """A position within round-off of a member's end is at it."""
+    tol = 1e-12 * max(length, 1.0)
+    return "start" if at <= tol else "end" if at >= length - tol else None
 
 
 class ReleasedStructure(Basis):

@@ -279,13 +279,16 @@ class SparseLU:
 
 
 def cramer(alg: Algebra, M: list[list], rhs: list):
-    """Solve M x = rhs for a small dense matrix over K by Cramer's rule with fraction-free
-    (Bareiss) determinants, with no polynomial gcd at all.
+    """Solve M x = rhs for a small dense matrix over K fraction-free, with no polynomial
+    gcd at all (sympy's ``DomainMatrix.solve_den`` over K's polynomial ring).
 
     M is brought to polynomials by its common denominator D, rhs by D * Dr. Returns
     (numerators, det, Dr), polynomials with x_i = numerators[i] / (det * Dr); det depends
     on M alone. Raises ZeroDivisionError if M is singular."""
     from functools import reduce
+
+    from sympy.polys.matrices import DomainMatrix
+    from sympy.polys.matrices.exceptions import DMNonInvertibleMatrixError
 
     n = len(M)
     ring = alg.K.ring
@@ -294,13 +297,13 @@ def cramer(alg: Algebra, M: list[list], rhs: list):
     D = reduce(lambda a, b: a.lcm(b), [e.denom for row in M for e in row if e], ring.one)
     Dr = reduce(lambda a, b: a.lcm(b), [e.denom for e in rhs if e], ring.one)
     P = [[e.numer * D.exquo(e.denom) if e else ring.zero for e in row] for row in M]
-    q = [e.numer * (D * Dr).exquo(e.denom) if e else ring.zero for e in rhs]
-    det = _bareiss(ring, P)
-    if not det:
-        raise ZeroDivisionError("singular matrix")
-    nums = [_bareiss(ring, [[q[r] if c == i else P[r][c] for c in range(n)] for r in range(n)])
-            for i in range(n)]
-    return nums, det, Dr
+    q = [[e.numer * (D * Dr).exquo(e.denom) if e else ring.zero] for e in rhs]
+    domain = ring.to_domain()
+    try:
+        nums, det = DomainMatrix(P, (n, n), domain).solve_den(DomainMatrix(q, (n, 1), domain))
+    except DMNonInvertibleMatrixError:
+        raise ZeroDivisionError("singular matrix") from None
+    return [nums[i, 0].element for i in range(n)], det, Dr
 
 
 class Lin:
@@ -492,25 +495,3 @@ def _canonical(K, N, den):
     if q.LC < 0:
         p, q = -p, -q
     return K.raw_new(p, q)
-
-
-def _bareiss(ring, M: list[list]):
-    """Determinant of a square matrix of polynomials, fraction-free (Bareiss)."""
-    M = [list(row) for row in M]
-    n = len(M)
-    prev = ring.one
-    sign = 1
-    for k in range(n - 1):
-        if not M[k][k]:
-            for r in range(k + 1, n):
-                if M[r][k]:
-                    M[k], M[r] = M[r], M[k]
-                    sign = -sign
-                    break
-            else:
-                return ring.zero
-        for i in range(k + 1, n):
-            for j in range(k + 1, n):
-                M[i][j] = (M[i][j] * M[k][k] - M[i][k] * M[k][j]).exquo(prev)
-        prev = M[k][k]
-    return M[n - 1][n - 1] * sign

@@ -36,7 +36,7 @@ import sympy
 from ..elements import kind_of
 from ..errors import CaseError
 from ..fields import span_fields
-from ..loadkinds import load_kind
+from ..loadkinds import CaseEffects, load_kind
 from ..model import Structure
 from ..polynomials import (
     poly_add,
@@ -344,23 +344,26 @@ class _Pipeline:
         return _Fields(*(Piecewise(breaks, f) for f in (n, v, m)), start, end)
 
     def _loading(self, case: str) -> dict[str, Any]:
-        st = self.st
-        sink = _Sink(self)
+        st, zero = self.st, self.zero
+
+        def end_of(at, L) -> str | None:
+            return "start" if at == zero else "end" if at == L else None
+
+        sink = CaseEffects(st, self.topo, case, zero, lambda n: [zero] * n,
+                           lambda mid: self.mem[mid], lambda mid: self.mem[mid].L, end_of)
         for ld, x in zip(st.loads, self.model.loads):
             if ld.case == case:
                 load_kind(ld).apply(_exact_values(self.alg, x), ld, sink)
-        p, nodal, point, dist = sink.p, sink.nodal, sink.point, sink.dist
-        imposed, c, add_nodal = sink.imposed, sink.c, sink.add_nodal
         parts: dict[str, _Fields] = {}
-        for mid in dict.fromkeys([*point, *dist]):
+        for mid in dict.fromkeys([*sink.point, *sink.dist]):
             self.tick()
             m = st.members[mid]
-            pf = self._fields(mid, point.get(mid, []), dist.get(mid, []))
+            pf = self._fields(mid, sink.point.get(mid, []), sink.dist.get(mid, []))
             parts[mid] = pf
-            add_nodal(m.start, *pf.start_force, self.zero)
-            add_nodal(m.end, *pf.end_force, self.zero)
-        return {"p": p, "particulars": parts, "imposed": imposed, "settlement": c,
-                "nodal": nodal}
+            sink.add_nodal(m.start, *pf.start_force, zero)
+            sink.add_nodal(m.end, *pf.end_force, zero)
+        return {"p": sink.p, "particulars": parts, "imposed": sink.strains,
+                "settlement": sink.c, "nodal": sink.nodal}
 
     def _initial(self, parts: dict[str, _Fields], imposed: dict[str, list]) -> list:
         """Initial deformations e (as energy.initial_deformation_terms)."""
@@ -645,11 +648,11 @@ class _Pipeline:
             b[0] += -nL * ex[0] + vL * ey[0]
             b[1] += -nL * ex[1] + vL * ey[1]
             b[2] += -mL
-        for node, fx, fy, mz in nodal:
-            t = sums[node]
-            t[0] += fx
-            t[1] += fy
-            t[2] += mz
+        for ld in nodal:
+            t = sums[ld.node]
+            t[0] += ld.fx
+            t[1] += ld.fy
+            t[2] += ld.mz
         for node, comps in reactions.items():
             t = sums[node]
             t[0] += comps.get("x", z)
@@ -740,64 +743,6 @@ class _Pipeline:
                     inner = poly_add(inner, (e,))
                 value += poly_integral(poly_mul(pu, inner), x0, x1)
         return value
-
-
-class _Sink:
-    """The effects of one load case's loads in exact numbers (a
-    :class:`leastwork.loadkinds.LoadSink`)."""
-
-    def __init__(self, pipe: _Pipeline):
-        self.pipe = pipe
-        self.zero = pipe.zero
-        self.p = [pipe.zero] * pipe.ndof
-        self.c = [pipe.zero] * pipe.ncol
-        self.nodal: list[tuple[str, Any, Any, Any]] = []
-        self.point: dict[str, list] = {}
-        self.dist: dict[str, list] = {}
-        self.imposed: dict[str, list] = {}
-
-    def section(self, member: str) -> _Member:
-        return self.pipe.mem[member]
-
-    def add_nodal(self, node, fx, fy, mz) -> None:
-        di = self.pipe.topo.dof_index
-        self.p[di[f"{node}.x"]] += fx
-        self.p[di[f"{node}.y"]] += fy
-        if mz:
-            key = f"{node}.rz"
-            if key not in di:
-                raise CaseError(f"a moment is applied at node {node}, where every member "
-                                "end is hinged: nothing resists it (a mechanism)",
-                                source=self.pipe.st.source)
-            self.p[di[key]] += mz
-
-    def node_force(self, node: str, fx, fy, mz) -> None:
-        self.add_nodal(node, fx, fy, mz)
-        self.nodal.append((node, fx, fy, mz))
-
-    def member_point(self, member: str, at, fx, fy, mz) -> None:
-        m = self.pipe.st.members[member]
-        L = self.pipe.mem[member].L
-        if at == self.zero or at == L:
-            self.node_force(m.start if at == self.zero else m.end, fx, fy, mz)
-        else:
-            self.point.setdefault(member, []).append((at, fx, fy, mz))
-
-    def member_distributed(self, member: str, start, end, wx, wy) -> None:
-        end = self.pipe.mem[member].L if end is None else end
-        self.dist.setdefault(member, []).append((start, end, tuple(wx), tuple(wy)))
-
-    def member_strain(self, member: str, eps, kappa, misfit) -> None:
-        acc = self.imposed.setdefault(member, [self.zero] * 3)
-        for i, v in enumerate((eps, kappa, misfit)):
-            if v:
-                acc[i] += v
-
-    def settlement(self, node: str, direction: str, value) -> None:
-        ci = self.pipe.topo.column_index
-        name = f"{node}.{direction}"
-        if name in ci:
-            self.c[ci[name]] += value
 
 
 def _exact_values(alg: Algebra, v):
