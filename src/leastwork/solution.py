@@ -26,6 +26,7 @@ __all__ = ["MemberResult", "CaseResult", "Solution", "EquilibriumCheck", "member
 #: Machine epsilon of double precision (the unit round-off is half of it).
 EPS = float(np.finfo(float).eps)
 
+
 @dataclass(frozen=True)
 class MemberResult:
     """Final section forces of one member (SI): n, v, m at both ends, moment extremes,
@@ -149,6 +150,7 @@ class CaseResult:
         allowance of the equilibrium check."""
         members = {mid: member_result(st, topo, mid, s, loading.particulars.get(mid))
                    for mid in st.members}
+
         def value_of(r) -> float:
             j = topo.column_index.get(r.name)
             return float(s[j]) if j is not None else 0.0

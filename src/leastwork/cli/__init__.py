@@ -37,6 +37,7 @@ def build_parser() -> argparse.ArgumentParser:
         family.add_parsers(sub)
     return p
 
+
 #: Command name -> handler; each takes the parsed arguments and returns the exit status
 #: (a bad case or option is raised as CaseError, a mechanism as MechanismError).
 COMMANDS: dict[str, Callable[[argparse.Namespace], int]] = {

@@ -38,6 +38,7 @@ SUMMARY_MAX_REDUNDANTS = 30
 #: "and N more".
 NAMES_SHOWN = 10
 
+
 def user_text(text: object, style: str = "", limit: int | None = None) -> Text:
     """``text`` (from the case file or the command line) as a rich Text shown literally:
     no markup, no emoji codes, control characters escaped (:func:`leastwork.plaintext.literal`)."""

@@ -1,83 +1,12 @@
 """Symbolic mode: the whole force method in exact arithmetic, parameters kept as symbols.
 
-Semantics
----------
-* Every name in the case's ``[parameters]`` table stays a sympy symbol. A symbol stands
-  for the parameter's value expressed in the **case units of its dimension**: with
-  ``units = { force = "kN", length = "m" }``, ``L = "7.5 m"`` makes ``L`` a length in m,
-  ``w = "9 kN/m"`` a line load in kN/m, ``EI = "24000 kN*m^2"`` a stiffness in kN*m^2,
-  ``alpha = "1.2e-5 1/K"`` a coefficient in 1/K, an angle ``"30 deg"`` a value in rad,
-  and a parameter given as a bare number (``n = 4``) a pure number, read in the case units
-  of each field it is used in (as the numeric reader does). A parameter defined by other
-  parameters (``rise = "bay/12"``) is a symbol of its own too, unless
-  ``expand_derived=True`` replaces it by its definition. Parameter names must be usable
-  as sympy symbols (no Python keywords).
-* Results are in the case units (forces in the case force unit, moments in force*length,
-  displacements in the case length unit, rotations in rad; the flexibility and load
-  terms as in the numeric JSON), as expressions in the parameter names.
-* Constants written with units (``"200 GPa"``, ``"4.41e7 mm^4"``) become exact rationals in
-  the case units, through exact conversion factors (a unit's pint factor read as the
-  short decimal it is defined by, or as a rational multiple of pi for degrees); decimal
-  numbers such as ``1.2e-5`` become exact rationals (3/250000).
-* Geometry may use parameters (node ``["L", 0]``, ``["a", "h"]``); member lengths are
-  exact square roots (``sqrt(b**2 + h**2)``), all arithmetic exact.
-* The topology (unknowns, rank, degree of indeterminacy, stability, choice of
-  redundants) is decided numerically on the ordinary Structure, with the parameters at
-  their values, by :mod:`leastwork.topology`. The values of the symbols also decide the
-  order of positions along a member (load positions, ends of partial loads), which
-  pivots the exact elimination uses, and which root of dm/dx (and on which piece) is a
-  moment extreme: each closed form holds for parameter values that keep those orders, as
-  the values given do.
-* The pipeline is the numeric one in exact arithmetic: equilibrium matrix of the
-  released structure solved exactly; span-load fields as exact polynomials per piece
-  (point loads, couples, partial linearly varying distributed loads per member length in
-  global components); unit-redundant fields; flexibility coefficients delta_ij and load
-  terms delta_i0 as exact integrals (bending m_i m_j/EI, axial n_i n_j/EA unless axially
-  rigid, shear v_i v_j/GA_s when ``[analysis] shear = true``, springs r_i r_j/k);
-  temperature (uniform and gradient), misfit and settlement terms as
-  :mod:`leastwork.solve` has them (delta = B'FB, delta0 = B'(F s0 + e - c) + c_R,
-  Delta = c_R); delta X = Delta - delta0; superposition; reactions (the same keys as the
-  numeric result); member end forces n, v, m; moment extremes m_max/m_min with their
-  positions (at member ends, at point loads and piece ends, or at a root of dm/dx); and
-  the displacements of ``[analysis] displacements`` (``NODE.x|y|rz``,
-  ``MEMBER@DISTANCE.x|y``, ``NODE1-NODE2``) by the unit-load method.
-* A redundant with no flexibility (straining only axially rigid parts) is taken as zero
-  with a warning, as in the numeric solve; any other singular flexibility matrix, a
-  bending moment of degree above three, or a parameter whose units are not made of force,
-  length and temperature is refused with a CaseError rather than answered wrongly.
-* Every result is simplified: each is one exactly cancelled rational function of the
-  parameters, with numerator and denominator factored over the rationals (a numerator of
-  more than 30 terms only has its common factors taken out); square roots keep their
-  square factors outside. Where dm/dx has a root inside a member, the position is exact
-  (a square root for a cubic moment) and so is the moment there; when the parts of that
-  moment are large it is given as the sum m0 - m1**2/(4*m2) of its exact parts rather
-  than one large fraction. No general-purpose ``sympy.simplify`` is run (its time has no
-  bound).
-* Irrational numbers are carried through the solve as auxiliary symbols and put back at
-  the end: a square root that does not simplify (the length of a sloping member), the
-  sine and cosine of a roller angle, pi of an angle in degrees. Each one adds a variable
-  to the algebra; a frame with many sloping members at decimal coordinates may therefore
-  reach the time limit even without parameters.
-* Load combinations are load cases of the factored loads (every nodal, point and
-  distributed load, temperature, misfit and settlement of each named case times its
-  factor; positions are not scaled), with each factor an exact rational or a parameter
-  symbol; ``SymbolicSolution.combinations`` (and ``"combinations"`` in the JSON) gives
-  the factors.
-* Without named redundants the closed forms use those the numeric solve ends with
-  (:func:`leastwork.solve.solve`: the automatic choice, or the member forces it swaps to
-  for conditioning), so that they match the numeric sheet.
-* The whole solve runs under a time limit (``time_limit``, default 60 s; it must be
-  positive: ``math.inf``, or more than 1e7 s, means none). In the main
-  thread it is a SIGALRM interval timer; in another thread the solve runs in a forked
-  child process that is killed at the limit (see :mod:`.limit`). Past the limit a
-  CaseError says that the closed form is beyond reach and suggests solving numerically
-  or fixing more parameters as numbers.
-* ``SymbolicSolution.to_dict()`` gives the JSON result of the contract with every number
-  replaced by a string that ``sympy.sympify`` parses (``"3*L*w/8"``); parse it with the
-  parameter symbols as ``locals`` (``SymbolicSolution.parse`` does), because names such as
-  ``E``, ``I``, ``N``, ``S`` mean something else to a bare ``sympify``. The JSON also
-  lists the parameters with their values and units. The extension ``deflection_max`` of
-  the numeric JSON is not given in symbolic mode.
+The names of ``[parameters]`` stay sympy symbols (each in the case units of its
+dimension); the topology and the redundants are those of the numeric solve; the pipeline
+(:mod:`.pipeline`) runs over the exact field of :mod:`.algebra`; every result is one
+cancelled rational function of the parameters, factored (:mod:`.finish`); the whole solve
+runs under a time limit (:mod:`.limit`). The full semantics — units of the symbols, exact
+constants, what decides orders and extremes, what is refused, combinations, the JSON —
+are in docs/symbolic.md ("Semantics").
 """
 
 from __future__ import annotations

@@ -32,6 +32,7 @@ __all__ = [
     "Piecewise",
     "SparseLU",
     "cramer",
+    "dot",
     "factors",
     "Lin",
     "Closure",
@@ -495,3 +496,14 @@ def _canonical(K, N, den):
     if q.LC < 0:
         p, q = -p, -q
     return K.raw_new(p, q)
+
+
+def dot(a: list, b: list):
+    """sum a_i b_i over the nonzero products (a zero of the type of ``a`` when none)."""
+    total = None
+    for x, y in zip(a, b):
+        if x and y:
+            total = x * y if total is None else total + x * y
+    if total is None:
+        return a[0] - a[0] if a else 0
+    return total

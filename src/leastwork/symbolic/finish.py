@@ -10,7 +10,7 @@ from sympy.core.mul import _keep_coeff
 
 from ..model.units import UnitSystem
 from .algebra import Algebra, Lin
-from .pipeline import QuadraticValue, RootValue
+from .extremes import QuadraticValue, RootValue
 
 __all__ = ["Finisher", "unit_text"]
 

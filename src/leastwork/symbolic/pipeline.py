@@ -40,13 +40,8 @@ from ..loadkinds import CaseEffects, load_kind
 from ..model import Structure
 from ..polynomials import (
     poly_add,
-    poly_derivative,
-    poly_divmod,
-    poly_eval,
     poly_integral,
     poly_mul,
-    poly_scale,
-    poly_trim,
 )
 from .algebra import (
     Algebra,
@@ -56,40 +51,14 @@ from .algebra import (
     Piecewise,
     SparseLU,
     cramer,
+    dot,
     factors,
-    merged,
 )
+from .displacements import displacement
 from .exact import ExactModel
+from .extremes import member_result
 
-__all__ = ["RootValue", "QuadraticValue", "ExactCase", "ExactSolution", "run_pipeline"]
-
-_TIE = 1e-12  # relative tie of moment extremes, as the numeric solver
-#: a moment at a root of dm/dx is made one fraction when its parts have at most this many
-#: terms (beyond, the exact fraction costs much more than it helps reading)
-_COMBINE_TERMS = 12
-
-
-@dataclass(frozen=True)
-class RootValue:
-    """A value outside K: ``base + slope * (-b1 + sign*sqrt(disc)) / (2*b2)`` where the
-    quadratic b2 x^2 + b1 x + b0 = dm/dx; ``base``, ``slope``, ``b1``, ``b2``, ``disc`` are
-    elements of K. ``slope`` = 1 and ``base`` = 0 give the root itself."""
-
-    base: Any
-    slope: Any
-    b1: Any
-    b2: Any
-    disc: Any
-    sign: int
-
-
-@dataclass(frozen=True)
-class QuadraticValue:
-    """A value outside K kept as ``a + k * b**2`` (a, b, k elements of K)."""
-
-    a: Any
-    b: Any
-    k: Any
+__all__ = ["ExactCase", "ExactSolution", "run_pipeline"]
 
 
 @dataclass
@@ -413,7 +382,7 @@ class _Pipeline:
         F = self._flexibility()
         self.F = F
         FB = [self._fmul(F, b) for b in B]
-        delta = [[_dot(B[i], FB[j]) for j in range(k)] for i in range(k)]
+        delta = [[dot(B[i], FB[j]) for j in range(k)] for i in range(k)]
         names = [topo.columns[j].name for j in red]
         zero_rows = [i for i in range(k) if not any(delta[i][j] for j in range(k))]
         for i in zero_rows:
@@ -434,7 +403,7 @@ class _Pipeline:
             Delta = [c[j] for j in red]
             Fs0 = self._fmul(F, s0)
             g = [a + b - d for a, b, d in zip(Fs0, e, c)]
-            load_terms = [_dot(B[i], g) + Delta[i] for i in range(k)]
+            load_terms = [dot(B[i], g) + Delta[i] for i in range(k)]
             rhs = [Delta[i] - load_terms[i] for i in range(k)]
             for i in zero_rows:
                 if rhs[i]:
@@ -501,7 +470,7 @@ class _Pipeline:
         disp = {}
         for t in st.displacements:
             self.tick()
-            disp[t] = self._displacement(t, ctx)
+            disp[t] = displacement(self, t, ctx)
         return ExactCase(case, X, load_terms, Delta, reactions, members, disp, residual)
 
     def _member_fields(self, mid: str, s: list, pf: _Fields | None) -> _Fields:
@@ -525,109 +494,9 @@ class _Pipeline:
                        (), ())
 
     def _member_result(self, mid: str, fl: _Fields) -> dict[str, Any]:
-        """End forces and moment extremes (as solution.member_result): the candidates are
-        compared by their values at the parameters; only the two chosen ones are worked
-        out exactly."""
-        alg = self.alg
-        L = self.mem[mid].L
-        z = self.zero
-        start = {"n": poly_eval(fl.n.pieces[0], z), "v": poly_eval(fl.v.pieces[0], z),
-                 "m": poly_eval(fl.m.pieces[0], z)}
-        end = {"n": poly_eval(fl.n.pieces[-1], L), "v": poly_eval(fl.v.pieces[-1], L),
-               "m": poly_eval(fl.m.pieces[-1], L)}
-        cands: list[tuple[Callable[[], tuple], mpmath.mpf, mpmath.mpf]] = []
-        br = fl.m.breaks
-        for k, poly in enumerate(fl.m.pieces):
-            a, b = br[k], br[k + 1]
-            an, bn = alg.num(a), alg.num(b)
-            for x, xn in ((a, an), (b, bn)):
-                val = poly_eval(poly, x)
-                cands.append((lambda x=x, val=val: (x, val), xn, self.num(val)))
-            cands.extend(self._stationary(poly, an, bn))
-        vals = [cv[2] for cv in cands]
-        scale = max(max(abs(v) for v in vals), mpmath.mpf("1e-300"))
-        top, bot = max(vals), min(vals)
-        imax = min((i for i, v in enumerate(vals) if v >= top - _TIE * scale),
-                   key=lambda i: cands[i][1])
-        imin = min((i for i, v in enumerate(vals) if v <= bot + _TIE * scale),
-                   key=lambda i: cands[i][1])
-        xmax, vmax = cands[imax][0]()
-        xmin, vmin = cands[imin][0]()
-        return {"start": start, "end": end,
-                "m_max": {"value": vmax, "at": xmax}, "m_min": {"value": vmin, "at": xmin}}
-
-    def _stationary(self, poly, an, bn) -> list:
-        """Candidates at the roots of dm/dx strictly inside (a, b): (exact thunk, x#,
-        value#). The coefficients of x**2 and x**3 of a moment come from the span loads
-        alone (elements of K), so the degree of dm/dx is exact."""
-        dm = poly_trim(poly_derivative(poly))
-        if len(dm) < 2:
-            return []
-        if len(dm) > 3:
-            raise CaseError("a bending moment of degree above 3 along a member; symbolic "
-                            "mode takes point loads and linearly varying distributed loads "
-                            "only", source=self.st.source)
-        out = []
-        with mpmath.workdps(60):
-            pn = [self.num(c) for c in poly]
-            dn = [self.num(c) for c in dm]
-
-            def value_at(x):
-                return sum(c * x**i for i, c in enumerate(pn))
-
-            if len(dm) == 2:
-                xn = -dn[0] / dn[1]
-                if an < xn < bn:
-                    out.append((lambda: self._linear_root(poly, dm), xn, value_at(xn)))
-                return out
-            disc = dn[1] ** 2 - 4 * dn[2] * dn[0]
-            tiny = mpmath.mpf(10) ** -40 * (dn[1] ** 2 + abs(4 * dn[2] * dn[0]))
-            if abs(disc) <= tiny:
-                exact = self._close_poly(dm)
-                if not (exact[1] * exact[1] - 4 * exact[2] * exact[0]):
-                    xn = -dn[1] / (2 * dn[2])
-                    if an < xn < bn:
-                        out.append((lambda: self._double_root(poly, dm), xn, value_at(xn)))
-                    return out
-            if disc < 0:
-                return out
-            for sign in (-1, 1):
-                xn = (-dn[1] + sign * mpmath.sqrt(disc)) / (2 * dn[2])
-                if an < xn < bn:
-                    out.append((lambda sign=sign: self._quadratic_root(poly, dm, sign), xn,
-                                value_at(xn)))
-        return out
-
-    def _close_poly(self, poly) -> tuple:
-        return tuple(self.closure.close(c) for c in poly)
-
-    def _linear_root(self, poly, dm) -> tuple:
-        """Root of d0 + d1 x (d1 in K) of a quadratic moment m0 + m1 x + m2 x**2, and the
-        moment there, m0 - m1**2 / (4 m2) (quadratic in the redundants): one fraction when
-        m0 and m1 are small, else kept as that sum (:class:`QuadraticValue`)."""
-        x = self.closure.close(dm[0] / (-dm[1]))
-        m0, m1, m2 = (tuple(poly) + (self.zero,) * 3)[:3]
-        k = -self.alg.one / (4 * m2)
-        a, b = self.closure.close(m0), self.closure.close(m1)
-        if max(len(a.numer), len(a.denom), len(b.numer), len(b.denom)) <= _COMBINE_TERMS:
-            return x, a + k * b * b
-        return x, QuadraticValue(a, b, k)
-
-    def _double_root(self, poly, dm) -> tuple:
-        d = self._close_poly(dm)
-        x = -d[1] / (2 * d[2])
-        return x, self.closure.close(poly_eval(poly, x))
-
-    def _quadratic_root(self, poly, dm, sign: int) -> tuple:
-        """A root of the quadratic dm/dx = b0 + b1 x + b2 x**2 (b1, b2 in K) of a cubic
-        moment, and the moment there from the remainder of m / (dm/dx); both stay linear
-        in the redundants."""
-        b0, b1, b2 = self._close_poly(dm)
-        disc = b1 * b1 - 4 * b2 * b0
-        _, rem = poly_divmod(poly, dm)
-        rem = self._close_poly(tuple(rem) + (self.zero,) * (2 - len(rem)))
-        return (RootValue(self.zero, self.alg.one, b1, b2, disc, sign),
-                RootValue(rem[0], rem[1], b1, b2, disc, sign))
+        """End forces and moment extremes (:func:`.extremes.member_result`)."""
+        return member_result(self.alg, self.closure, self.mem[mid].L, fl.n, fl.v, fl.m,
+                             self.st.source)
 
     def _nodal_residual(self, members, nodal, reactions) -> list:
         """Exact residuals of nodal equilibrium from the final end forces, the nodal loads
@@ -665,86 +534,6 @@ class _Pipeline:
                 out.append(r)
         return [self.closure.close(v) for v in out]
 
-    # ------------------------------------------------------------------ displacements
-    def _unit_state(self, dof: int) -> list:
-        if dof not in self._unit_states:
-            rhs = [self.zero] * self.ndof
-            rhs[dof] = self.alg.one
-            self._unit_states[dof] = self.forces(rhs)
-        return self._unit_states[dof]
-
-    def _node_disp(self, dof_name: str, ctx) -> Any:
-        su = self._unit_state(self.topo.dof_index[dof_name])
-        d, c = ctx["d"], ctx["c"]
-        return _dot(su, [a - b for a, b in zip(d, c)])
-
-    def _displacement(self, text: str, ctx) -> Any:
-        st = self.st
-        m = re.match(r"^([A-Za-z0-9_]+)\.(x|y|rz)$", text)
-        if m:
-            return self._node_disp(text, ctx)
-        m = re.match(r"^([A-Za-z0-9_]+)@(.+)\.(x|y)$", text)
-        if m and m.group(1) in st.members:
-            mid, dist, direction = m.groups()
-            try:
-                at = sympy.Rational(dist)
-            except (TypeError, ValueError):
-                raise CaseError(f'"{text}": distance "{dist}" is not a plain decimal number',
-                                source=st.source) from None
-            return self._member_point(mid, at, direction, ctx)
-        m = re.match(r"^([A-Za-z0-9_]+)-([A-Za-z0-9_]+)$", text)
-        if m:
-            a, b = m.groups()
-            dx = self.xy[b][0] - self.xy[a][0]
-            dy = self.xy[b][1] - self.xy[a][1]
-            du = self._node_disp(f"{b}.x", ctx) - self._node_disp(f"{a}.x", ctx)
-            dv = self._node_disp(f"{b}.y", ctx) - self._node_disp(f"{a}.y", ctx)
-            return (du * dx + dv * dy) / self.pair_len[text]
-        raise CaseError(f'cannot read displacement target "{text}"', source=st.source)
-
-    def _member_point(self, mid: str, at_value, direction: str, ctx) -> Any:
-        """As displacements.member_point_displacement: a unit load at the point."""
-        st, alg, di = self.st, self.alg, self.topo.dof_index
-        mem = st.members[mid]
-        g = self.mem[mid]
-        L = g.L
-        at = alg.el(at_value)
-        if alg.num(at) >= alg.num(L):
-            at = L
-        one, z = alg.one, self.zero
-        fx, fy = (one, z) if direction == "x" else (z, one)
-        p = [z] * self.ndof
-        pf = None
-        if at == z or at == L:
-            node = mem.start if at == z else mem.end
-            p[di[f"{node}.x"]] += fx
-            p[di[f"{node}.y"]] += fy
-        else:
-            pf = self._fields(mid, [(at, fx, fy, z)], [])
-            p[di[f"{mem.start}.x"]] += pf.start_force[0]
-            p[di[f"{mem.start}.y"]] += pf.start_force[1]
-            p[di[f"{mem.end}.x"]] += pf.end_force[0]
-            p[di[f"{mem.end}.y"]] += pf.end_force[1]
-        su = self.forces(p)
-        value = _dot(su, [a - b for a, b in zip(ctx["d"], ctx["c"])])
-        if pf is None:
-            return value
-        mr = ctx["finals"][mid]
-        kind = kind_of(mem)
-        section = kind.section(mem, g, st.shear)
-        free = kind.free_strains(mem, g, L, ctx["imposed"].get(mid, [z, z, z]))
-        for f in ("n", "m", "v"):  # virtual work of the unit load's fields on the strains
-            K, extra = section.get(f), free.get(f, [])
-            if K is None and not any(extra):
-                continue
-            for x0, x1, pu, pr in merged(alg, getattr(pf, f), getattr(mr, f)):
-                inner = poly_scale(pr, one / K) if K is not None else (z,)
-                for e in extra:
-                    inner = poly_add(inner, (e,))
-                value += poly_integral(poly_mul(pu, inner), x0, x1)
-        return value
-
-
 def _exact_values(alg: Algebra, v):
     """A load's exact values (sympy) as elements of K; names and None kept."""
     if v is None or isinstance(v, str):
@@ -760,16 +549,6 @@ def _integral(pw: Piecewise):
     total = pw.breaks[0] - pw.breaks[0]
     for k, poly in enumerate(pw.pieces):
         total += poly_integral(poly, pw.breaks[k], pw.breaks[k + 1])
-    return total
-
-
-def _dot(a: list, b: list):
-    total = None
-    for x, y in zip(a, b):
-        if x and y:
-            total = x * y if total is None else total + x * y
-    if total is None:
-        return a[0] - a[0] if a else 0
     return total
 
 

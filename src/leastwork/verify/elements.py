@@ -117,7 +117,6 @@ def local_stiffness(el: Element) -> np.ndarray:
     return 0.5 * (k + k.T)
 
 
-
 def condense(k: np.ndarray, f0: np.ndarray, hinged: list[int]):
     """Static condensation of hinged end rotations: (k_c, f0_c) on all six local dofs with
     zero rows and columns at the hinged ones."""

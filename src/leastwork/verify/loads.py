@@ -38,7 +38,6 @@ def _gauss(a: float, b: float) -> tuple[np.ndarray, np.ndarray]:
     return 0.5 * (b - a) * _GAUSS_X + 0.5 * (a + b), 0.5 * (b - a) * _GAUSS_W
 
 
-
 @dataclass(frozen=True)
 class MemberLoading:
     """Fixed-end forces (local, uncondensed) and the free elongation of one member."""

@@ -179,6 +179,7 @@ def _reactions(st: Structure, U: np.ndarray, force_of: dict[str, float],
     "x", "y" components for an inclined roller."""
     spring_force = {r.name: -r.stiffness * (sum(a * U[d] for d, a in row.items()) - ground)
                     for r, row, ground in springs}
+
     def value_of(r) -> float:
         return spring_force.get(r.name, 0.0) if r.is_spring else force_of.get(r.name, 0.0)
 
