@@ -21,12 +21,14 @@ from ..model import (
     rotational_nodes,
     scaled_load,
 )
+from ..plaintext import ECHO_LIMIT, literal
 from .core import ID, CaseReader
 from .messages import echo, hint, kind_of, shown
 
 __all__ = ["read_loads", "read_combinations"]
 
-_MEMBER_LOAD_KEYS = ("at", "wx", "wy", "temperature", "misfit", "fx", "fy", "mz", "from", "to")
+_MEMBER_LOAD_KEYS = ("at", "wx", "wy", "wt", "wn", "per", "temperature", "misfit", "fx", "fy",
+                     "ft", "fn", "mz", "from", "to")
 
 
 def read_loads(reader: CaseReader, nodes: dict[str, Node], members: dict[str, Member],
@@ -45,10 +47,16 @@ def read_loads(reader: CaseReader, nodes: dict[str, Node], members: dict[str, Me
         case = spec.get("case", DEFAULT_CASE)
         if not isinstance(case, str) or not case.strip():
             raise reader.err(where + ".case", f"expected a load case name, got {shown(case)}")
-        targets = [k for k in ("node", "member", "settlement") if k in spec]
+        targets = [k for k in ("node", "member", "settlement", "self_weight") if k in spec]
         if len(targets) != 1:
-            raise reader.err(where, "each load needs exactly one of node, member or settlement"
+            raise reader.err(where, "each load needs exactly one of node, member, settlement "
+                             "or self_weight"
                              + (f" (found {', '.join(targets)})" if targets else ""))
+        if "self_weight" in spec:
+            loads.extend(self_weight(reader, spec, where, members, case))
+            if case not in order:
+                order.append(case)
+            continue
         if "node" in spec:
             load = _nodal_load(reader, spec, where, nodes, case)
         elif "settlement" in spec:
@@ -136,9 +144,10 @@ def _member_load(reader: CaseReader, spec: dict, where: str, members: dict[str, 
                          "span loads; load its nodes, or make it a beam")
     if "at" in spec:
         return _point_load(reader, spec, where, mid, L, case)
-    if "wx" in spec or "wy" in spec:
+    if any(k in spec for k in ("wx", "wy", "wt", "wn")):
         return _distributed_load(reader, spec, where, mid, L, case)
-    raise reader.err(where, "a member load needs at (with fx/fy/mz), wx/wy, temperature or "
+    raise reader.err(where, "a member load needs at (with fx/fy/mz or ft/fn), wx/wy or wt/wn, "
+                     "temperature or "
                      f"misfit{' (found ' + ', '.join(kinds) + ')' if kinds else ''}; "
                      f"keys given: {echo(', '.join(spec))}"
                      + (_hint_keys(spec)))
@@ -148,20 +157,22 @@ def _point_load(reader: CaseReader, spec: dict, where: str, mid: str, L: float,
                 case: str) -> PointLoad:
     """A concentrated force and moment ``at`` a distance from the start of beam ``mid``
     (length ``L``, m)."""
-    reader.keys_known(where, spec, ("member", "at", "fx", "fy", "mz", "case"))
+    reader.keys_known(where, spec, ("member", "at", "fx", "fy", "ft", "fn", "mz", "case"))
     at = reader.quantity(spec["at"], "length", where + ".at")
     if at < -1e-12 or at > L * (1 + 1e-12):
         raise reader.err(where + ".at", f"position {shown(spec['at'])} is off the member "
                          f"(its length is {L / reader.units.factor('length'):g} "
                          f"{reader.units.length}); expected 0 to the length")
-    if not any(k in spec for k in ("fx", "fy", "mz")):
-        raise reader.err(where, "a concentrated member load needs fx, fy or mz")
+    if not any(k in spec for k in ("fx", "fy", "ft", "fn", "mz")):
+        raise reader.err(where, "a concentrated member load needs fx, fy, ft, fn or mz")
+    local = _axes(reader, spec, where, ("fx", "fy"), ("ft", "fn"))
+    keys = ("ft", "fn") if local else ("fx", "fy")
+    f1, f2 = (reader.quantity(spec.get(k, 0.0), "force", f"{where}.{k}") for k in keys)
+    fx, fy = _to_global(reader, mid, f1, f2) if local else (f1, f2)
     return PointLoad(
-        mid, min(max(at, 0.0), L),
-        fx=reader.quantity(spec.get("fx", 0.0), "force", where + ".fx"),
-        fy=reader.quantity(spec.get("fy", 0.0), "force", where + ".fy"),
+        mid, min(max(at, 0.0), L), fx=fx, fy=fy,
         mz=reader.quantity(spec.get("mz", 0.0), "moment", where + ".mz"),
-        case=case,
+        case=case, written="given as " + _written(reader, spec, keys, "force") if local else "",
     )
 
 
@@ -169,18 +180,106 @@ def _distributed_load(reader: CaseReader, spec: dict, where: str, mid: str, L: f
                       case: str) -> DistributedLoad:
     """A load per length (wx, wy; uniform or linear) ``from`` one distance ``to`` another
     along beam ``mid`` (length ``L``, m; the whole beam by default)."""
-    reader.keys_known(where, spec, ("member", "wx", "wy", "from", "to", "case"))
+    reader.keys_known(where, spec, ("member", "wx", "wy", "wt", "wn", "per", "from", "to",
+                                    "case"))
     start = reader.quantity(spec.get("from", 0.0), "length", where + ".from")
     end = reader.quantity(spec["to"], "length", where + ".to") if "to" in spec else L
     if start < -1e-12 or end > L * (1 + 1e-12) or end <= start:
         raise reader.err(where, f"from/to must satisfy 0 <= from < to <= length "
                          f"({L / reader.units.factor('length'):g} {reader.units.length})")
-    return DistributedLoad(
-        mid,
-        wx=_intensity(reader, spec.get("wx", 0.0), where + ".wx"),
-        wy=_intensity(reader, spec.get("wy", 0.0), where + ".wy"),
-        start=max(start, 0.0), end=min(end, L), case=case,
-    )
+    local = _axes(reader, spec, where, ("wx", "wy"), ("wt", "wn"))
+    per = spec.get("per", "length")
+    if per not in ("length", "projection"):
+        raise reader.err(where + ".per", 'expected "length" (per unit member length, the '
+                         'default) or "projection" (wy per unit horizontal length, wx per unit '
+                         f"vertical length), got {shown(per)}")
+    if per == "projection" and local:
+        raise reader.err(where + ".per", 'per = "projection" goes with global components '
+                         "wx/wy; wt/wn are per unit member length")
+    keys = ("wt", "wn") if local else ("wx", "wy")
+    w1, w2 = (_intensity(reader, spec.get(k, 0.0), f"{where}.{k}") for k in keys)
+    if local:
+        ends = [_to_global(reader, mid, a, b) for a, b in zip(w1, w2, strict=True)]
+        wx, wy = (ends[0][0], ends[1][0]), (ends[0][1], ends[1][1])
+    elif per == "projection":
+        c, s = _direction(reader, mid)
+        wx, wy = (abs(s) * w1[0], abs(s) * w1[1]), (abs(c) * w2[0], abs(c) * w2[1])
+    else:
+        wx, wy = w1, w2
+    written = ""
+    if local or per == "projection":
+        written = "given as " + _written(reader, spec, keys, "force/length")
+        if per == "projection":
+            written += " per unit projected length"
+    return DistributedLoad(mid, wx=wx, wy=wy, start=max(start, 0.0), end=min(end, L),
+                           case=case, written=written)
+
+
+def _axes(reader: CaseReader, spec: dict, where: str, global_keys: tuple[str, str],
+          local_keys: tuple[str, str]) -> bool:
+    """True when the load is given in member-local components (``local_keys``); giving
+    both kinds in one load is refused."""
+    g = [k for k in global_keys if k in spec]
+    loc = [k for k in local_keys if k in spec]
+    if g and loc:
+        raise reader.err(where, f"give global components ({'/'.join(global_keys)}) or "
+                         f"member-local ones ({'/'.join(local_keys)}), not both in one load "
+                         f"(found {', '.join(g + loc)})")
+    return bool(loc)
+
+
+def _direction(reader: CaseReader, mid: str) -> tuple[float, float]:
+    """Direction cosines (c, s) of member ``mid``, start to end."""
+    m = reader.members[mid]
+    a, b = reader.nodes[m.start], reader.nodes[m.end]
+    L = math.hypot(b.x - a.x, b.y - a.y)
+    return (b.x - a.x) / L, (b.y - a.y) / L
+
+
+def _to_global(reader: CaseReader, mid: str, t: float, n: float) -> tuple[float, float]:
+    """Global (x, y) components of a member-local pair: ``t`` along the member towards its
+    end node, ``n`` along local +y (local x turned 90 degrees counter-clockwise)."""
+    c, s = _direction(reader, mid)
+    return t * c - n * s, t * s + n * c
+
+
+def _written(reader: CaseReader, spec: dict, keys: tuple[str, ...], dimension: str) -> str:
+    """The values of ``keys`` as the file gave them ("wn = -0.8 kN/m"; a bare number with
+    the case unit), for the calculation sheet."""
+    u = reader.units
+    unit = {"force": u.force, "force/length": f"{u.force}/{u.length}"}[dimension]
+
+    def one(v: Any) -> str:
+        if isinstance(v, list):
+            return " to ".join(one(x) for x in v)
+        return literal(v, ECHO_LIMIT) if isinstance(v, str) else f"{v:g} {unit}"
+
+    return ", ".join(f"{k} = {one(spec[k])}" for k in keys if k in spec)
+
+
+def self_weight(reader: CaseReader, spec: dict, where: str, members: dict[str, Member],
+                case: str) -> list[Load]:
+    """Every member's own weight, downward (-y), per unit member length: on a beam as a
+    distributed load, on a bar as half its weight on each end node (a pin-ended bar's own
+    bending is not part of a truss model)."""
+    reader.keys_known(where, spec, ("self_weight", "case"))
+    if spec["self_weight"] is not True:
+        raise reader.err(where + ".self_weight", "expected true (every member's own weight "
+                         f"in this load case), got {shown(spec['self_weight'])}")
+    out: list[Load] = []
+    for mid, m in members.items():
+        if m.weight is None:
+            raise reader.err(where, f'member "{echo(mid)}" has no own weight: self_weight '
+                             "needs a density in its material and an area A in its section")
+        text = f"self-weight of {mid}"
+        if m.kind == "bar":
+            half = -0.5 * m.weight * _length_of(reader, m)
+            out += [NodalLoad(m.start, fy=half, case=case, written=text),
+                    NodalLoad(m.end, fy=half, case=case, written=text)]
+        else:
+            out.append(DistributedLoad(mid, wy=(-m.weight, -m.weight), case=case,
+                                       written=text))
+    return out
 
 
 def _intensity(reader: CaseReader, value: Any, where: str) -> tuple[float, float]:

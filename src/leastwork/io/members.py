@@ -88,6 +88,8 @@ def read_members(reader: CaseReader, specs: list[MemberSpec], nodes: dict[str, N
             alpha=mat.get("alpha") if mat else None,
             depth=sec.get("depth") if sec else None,
             hinge_start="start" in hinges, hinge_end="end" in hinges,
+            weight=(mat["unit_weight"] * sec["A"]
+                    if mat and "unit_weight" in mat and sec and "A" in sec else None),
         )
     return members
 

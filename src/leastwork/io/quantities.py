@@ -112,6 +112,10 @@ class QuantityReader:
             self._si_cache[(value, dimension)] = si
         return si
 
+    def expression(self, text: str, where: str):
+        """The pint quantity of ``text`` (units kept, no dimension asked)."""
+        return self._parse_expression(text, where)
+
     def positive(self, value: Any, dimension: str, where: str) -> float:
         """:meth:`quantity`, refused unless above zero and above 1/SI_LIMIT in SI units."""
         v = self.quantity(value, dimension, where)

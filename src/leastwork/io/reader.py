@@ -13,13 +13,14 @@ from pathlib import Path
 from typing import Any
 
 from ..model import Node, Structure
-from ..model.units import UnitSystem, check_unit
+from ..model.units import STANDARD_GRAVITY, UnitSystem, check_unit
 from .analysis import check_shear, read_analysis
 from .core import CaseReader
 from .files import parse_toml, read_case_text
 from .loads import read_combinations, read_loads
 from .members import connected_nodes, member_specs, read_members
 from .messages import echo, hint, kind_of, shown
+from .quantities import SI_LIMIT
 from .supports import read_supports
 
 __all__ = ["load_case", "loads_case", "read_structure"]
@@ -120,7 +121,7 @@ def _materials(reader: CaseReader) -> dict[str, dict[str, float]]:
         where = f"[materials.{mid}]"
         if not isinstance(spec, dict):
             raise reader.err(where, f"expected a table of E, G, alpha, got {kind_of(spec)}")
-        reader.keys_known(where, spec, ("E", "G", "alpha", "description"))
+        reader.keys_known(where, spec, ("E", "G", "alpha", "density", "description"))
         mat: dict[str, float] = {}
         for key, dim in (("E", "stress"), ("G", "stress")):
             if key in spec:
@@ -128,8 +129,30 @@ def _materials(reader: CaseReader) -> dict[str, dict[str, float]]:
         if "alpha" in spec:
             mat["alpha"] = reader.quantity(spec["alpha"], "thermal expansion coefficient",
                                            f"{where} alpha")
+        if "density" in spec:
+            mat["unit_weight"] = unit_weight(reader, spec["density"], f"{where} density")
         out[mid] = mat
     return out
+
+
+def unit_weight(reader: CaseReader, value: Any, where: str) -> float:
+    """Weight per unit volume (N/m^3) from a mass density ("7850 kg/m^3", times standard
+    gravity 9.80665 m/s^2) or a unit weight ("77 kN/m^3"). A bare number is refused: it
+    could be either."""
+    q = reader.expression(value, where) if isinstance(value, str) else None
+    if q is None or q.dimensionless:
+        raise reader.err(where, 'expected a density with its units, e.g. "7850 kg/m^3" or '
+                         f'a unit weight such as "77 kN/m^3", got {shown(value)}')
+    if q.check("[mass] / [length] ** 3"):
+        si = float(q.to("kg/m^3").magnitude) * STANDARD_GRAVITY
+        if not 1.0 / SI_LIMIT < si < SI_LIMIT:
+            raise reader.err(where, f"expected a positive density of a real material, got "
+                             f"{shown(value)}")
+        return si
+    if not q.check("[mass] / [length] ** 2 / [time] ** 2"):
+        raise reader.err(where, 'expected a mass density such as "7850 kg/m^3" or a unit '
+                         f'weight such as "77 kN/m^3", got {shown(value)}')
+    return reader.positive(value, "unit weight", where)
 
 
 def _sections(reader: CaseReader) -> dict[str, dict[str, float]]:

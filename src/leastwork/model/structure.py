@@ -66,6 +66,9 @@ class Member:
         Section depth, m (for a temperature gradient).
     hinge_start, hinge_end : bool
         Moment released at that end (beams).
+    weight : float or None
+        Own weight per unit length, N/m (unit weight of the material times the section
+        area; ``None`` where either is not given).
     """
 
     id: str
@@ -79,6 +82,7 @@ class Member:
     depth: float | None = None
     hinge_start: bool = False
     hinge_end: bool = False
+    weight: float | None = None
 
     @property
     def is_beam(self) -> bool:
@@ -156,6 +160,7 @@ class NodalLoad:
     fy: float = 0.0
     mz: float = 0.0
     case: str = DEFAULT_CASE
+    written: str = ""  #: how the file gave it when not as these values ("self-weight of AB")
 
     def scaled(self, f: float, case: str) -> NodalLoad:
         return replace(self, fx=f * self.fx, fy=f * self.fy, mz=f * self.mz, case=case)
@@ -171,6 +176,7 @@ class PointLoad:
     fy: float = 0.0
     mz: float = 0.0
     case: str = DEFAULT_CASE
+    written: str = ""  #: how the file gave it when not in global components
 
     def scaled(self, f: float, case: str) -> PointLoad:
         return replace(self, fx=f * self.fx, fy=f * self.fy, mz=f * self.mz, case=case)
@@ -188,6 +194,9 @@ class DistributedLoad:
     start: float = 0.0
     end: float = math.nan  #: nan means the member's end
     case: str = DEFAULT_CASE
+    #: how the file gave it when not per member length in global components ("per
+    #: horizontal projection: wy = -1.2 kN/m", "self-weight")
+    written: str = ""
 
     def scaled(self, f: float, case: str) -> DistributedLoad:
         return replace(self, wx=(f * self.wx[0], f * self.wx[1]),

@@ -18,7 +18,7 @@ from functools import lru_cache
 
 from ..plaintext import ECHO_LIMIT, literal
 
-__all__ = ["UnitSystem", "DIMENSIONS", "ureg", "parse_quantity", "QuantityError",
+__all__ = ["UnitSystem", "DIMENSIONS", "STANDARD_GRAVITY", "ureg", "parse_quantity", "QuantityError",
            "QUANTITY_LIMIT", "UNIT_POWER_LIMIT"]
 
 #: Longest quantity string read (characters, after stripping the ends). The longest
@@ -48,6 +48,9 @@ def ureg():
     return _registry()
 
 
+#: Standard acceleration of gravity, m/s^2 (turns a mass density into a unit weight).
+STANDARD_GRAVITY = 9.80665
+
 #: Field dimensions as exponents of (force, length, temperature, angle).
 DIMENSIONS: dict[str, tuple[int, int, int, int]] = {
     "length": (0, 1, 0, 0),
@@ -64,6 +67,7 @@ DIMENSIONS: dict[str, tuple[int, int, int, int]] = {
     "thermal expansion coefficient": (0, 0, -1, 0),
     "angle": (0, 0, 0, 1),
     "number": (0, 0, 0, 0),
+    "unit weight": (1, -3, 0, 0),
 }
 
 _PINT_DIM = {
@@ -176,6 +180,7 @@ _EXAMPLES = {
     "thermal expansion coefficient": '"1.2e-5 1/K"',
     "angle": '"30 deg"',
     "number": "3",
+    "unit weight": '"77 kN/m^3"',
 }
 
 

@@ -326,6 +326,11 @@ def read_exact(st: Structure, record, *, expand_derived: bool = False) -> ExactM
     Raises CaseError where a value cannot be represented exactly, and RuntimeError if an
     exact value disagrees with the numeric reader (a bug).
     """
+    for ld in st.loads:
+        if getattr(ld, "written", ""):
+            raise CaseError(f"symbolic mode does not take this load yet ({ld.written}): "
+                            "member-local components, loads per unit projected length and "
+                            "self-weight are solved numerically only", source=st.source)
     ev = _Evaluator(st, record, expand_derived)
     model = ExactModel(dict(ev.symbols), dict(ev.values), dict(ev.dimensions))
     values = ev.values

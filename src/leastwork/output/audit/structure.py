@@ -98,4 +98,6 @@ def _indeterminacy(ctx: Context) -> list:
 def load_row(st: Structure, u: Quantities, ld) -> tuple[str, str, str, str]:
     """(case, kind, on, values) of one load, in the output units, as its kind describes it."""
     kind = load_kind(ld)
-    return (ld.case, kind.words, *kind.describe(st, u, ld))
+    on, values = kind.describe(st, u, ld)
+    written = getattr(ld, "written", "")
+    return (ld.case, kind.words, on, f"{values} ({written})" if written else values)
