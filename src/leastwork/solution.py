@@ -411,6 +411,9 @@ class Solution:
     #: dense); "local": local self-stress states, each closing one redundant (sparse)
     basis: str = "released"
     long_range_states: int = 0  #: local basis: states found by the global step
+    #: load case -> :class:`leastwork.one_way.CaseState` when the structure has one-way
+    #: members or supports (empty otherwise)
+    states: dict = field(default_factory=dict)
 
     @property
     def units(self):

@@ -63,13 +63,33 @@ def solve(structure: Structure, redundants=None, *, where: str | None = None,
     Solution
         Redundants, forces, reactions, displacements and checks for every load case.
 
+    One-way bars and supports (``acts``) are settled per load case afterwards
+    (:mod:`leastwork.one_way`).
+
     Raises
     ------
     CaseError
         Invalid redundant names or count.
     MechanismError
-        The structure, or the released structure, is unstable.
+        The structure, or the released structure, is unstable; or a load case has no state
+        in which its one-way members and supports act as they may.
     """
+    sol = _solve_as_given(structure, redundants, where=where, verify=verify, basis=basis,
+                          progress=progress)
+    if any(m.acts != "both" for m in structure.members.values()) or any(
+            s.acts != "both" for s in structure.supports.values()):
+        from .one_way import settle
+
+        _phase(progress, "one-way states")
+        sol = settle(structure, sol, lambda st: _solve_as_given(st, None, verify=verify,
+                                                                basis=basis))
+    return sol
+
+
+def _solve_as_given(structure: Structure, redundants=None, *, where: str | None = None,
+                    verify: bool | None = None, basis: str = "auto",
+                    progress=None) -> Solution:
+    """:func:`solve` with every one-way member and support taken as acting."""
     st = structure
     names = redundants if redundants is not None else st.redundants
     basis = resolve_basis(st, names, basis, where or "[analysis] redundants")

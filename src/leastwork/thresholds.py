@@ -22,7 +22,8 @@ __all__ = [
     "SLIDING_TURN", "SOFT_SPRING_RATIO", "ZERO_STATE_ENTRY", "RELEASED_PIVOT_SINGULAR",
     "LOCAL_STATE_RESIDUAL", "LOCAL_STATE_BOUND", "STATE_ENTRY_DROP", "LONG_RANGE_PIVOT",
     "LOCAL_LEAST_SQUARES_RCOND", "LOCAL_STATE_ACCURACY", "EQUILIBRIUM_ROUND_OFF",
-    "FORCE_FLOOR", "EXTREME_TIE", "EXTREME_TIE_FLOOR",
+    "FORCE_FLOOR", "EXTREME_TIE", "EXTREME_TIE_FLOOR", "ONE_WAY_FORCE", "ONE_WAY_GAP",
+    "ONE_WAY_TRIALS_PER_ITEM", "ONE_WAY_TRIALS_MIN",
 ]
 
 # ---------------------------------------------------------------- which basis
@@ -141,3 +142,18 @@ FORCE_FLOOR = 1.0
 EXTREME_TIE = 1e-12
 #: Absolute floor of ``EXTREME_TIE`` (SI: N or N*m): a flat zero field.
 EXTREME_TIE_FLOOR = 1e-9
+
+# ---------------------------------------------------------------- one-way members and supports
+
+#: A one-way bar or support acts the wrong way when its force is past this fraction of the
+#: case's force scale (``CaseResult.equilibrium_scale``) on the wrong side: far above the
+#: round-off of a solve, far below any force an engineer would read (one_way.py).
+ONE_WAY_FORCE = 1e-9
+#: A gap of a bar or support taken out closes when it is past this fraction of the largest
+#: nodal translation (at least 1e-6 of the structure's size) on the closing side.
+ONE_WAY_GAP = 1e-9
+#: Solves allowed per one-way item (and at least ``ONE_WAY_TRIALS_MIN``) before the search
+#: for the state of a load case gives up with a message.
+ONE_WAY_TRIALS_PER_ITEM = 4
+#: Fewest solves allowed for the search of a state.
+ONE_WAY_TRIALS_MIN = 12

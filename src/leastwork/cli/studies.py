@@ -123,6 +123,11 @@ def _fitup(args, st, console) -> int:
              if tol is not None else None)
     adj = (adjustment(sol, args.adjust, args.zero, args.load_case)
            if args.adjust is not None else None)
+    verdicts = None
+    if study is not None and sol.states:
+        from ..studies.one_way_check import one_way_verdicts
+
+        verdicts = one_way_verdicts(sol, study)
     adj_warnings = list(adj.warnings) if adj is not None else []
     for w in adj_warnings:  # an adjustment outside the small-displacement range
         print(f"leastwork: WARNING: {w}", file=sys.stderr)
@@ -132,6 +137,10 @@ def _fitup(args, st, console) -> int:
             out.update(to_dict(study, units))
         if adj is not None:
             out["adjust"] = adjustment_to_dict(adj, units)
+        if verdicts is not None:
+            from ..studies.one_way_check import verdicts_to_dict
+
+            out["one_way"] = verdicts_to_dict(verdicts, units)
         out["units"] = unit_texts(units)
         out["warnings"] = list(sol.warnings) + adj_warnings
         sys.stdout.write(json.dumps(out, indent=2) + "\n")
@@ -139,6 +148,8 @@ def _fitup(args, st, console) -> int:
     _header(console, sol)
     if study is not None:
         _print_study(console, study, units)
+    if verdicts is not None:
+        _print_verdicts(console, verdicts, units)
     if adj is not None:
         _print_adjustment(console, adj, units)
     return 0
@@ -208,6 +219,29 @@ def _print_study(console, study, units) -> None:
                 f"{_g(uq.to_output(study.worst.max[q], 'force'))} {uq.force_unit}, with the "
                 f"length errors [{uq.length_unit}] {pat} (the opposite signs give the "
                 "minimum)."))
+
+
+def _print_verdicts(console, verdicts, units) -> None:
+    """Whether each one-way member and support keeps acting in each load case with the
+    locked-in forces of the tolerances added."""
+    from rich.table import Table
+
+    from ..output.quantities import quantities
+    from ..output.terminal import user_text
+
+    uq = quantities(units)
+    u = uq.force_unit
+    t = Table(title=user_text(f"One-way members and supports: load case force plus the "
+                              f"locked-in range [{u}]"), header_style="bold")
+    for head in ("item", "load case", "force", "min", "max", "verdict"):
+        t.add_column(user_text(head), justify="right" if head in ("force", "min", "max")
+                     else "left", overflow="fold")
+    for v in verdicts:
+        t.add_row(user_text(v.item), user_text(v.case),
+                  *("—" if x is None else _g(uq.to_output(x, "force"))
+                    for x in (v.force, v.low, v.high)),
+                  user_text(v.verdict))
+    console.print(t)
 
 
 def _print_adjustment(console, adj, units) -> None:
@@ -305,6 +339,10 @@ def _influence(args, st, console) -> int:
     q = parse_quantity(st, topo, args.quantity)  # refuse bad input before solving
     parse_members(st, args.along)
     sol = solve(st)
+    if sol.states:
+        sol.warnings = (*sol.warnings, "the influence line takes every one-way member and "
+                        "support as acting (a linear response); where one may go slack or "
+                        "lift off, solve the governing load positions as load cases")
     units = sol.units
     line = influence_line(sol, q, args.along, args.points, units)
     d = influence_to_dict(line, units, st.name)

@@ -16,7 +16,7 @@ __all__ = ["member_specs", "connected_nodes", "read_members"]
 MemberSpec = tuple[str, str, dict, list[str]]
 
 _BEAM_KEYS = ("nodes", "material", "section", "EI", "EA", "hinges", "description")
-_BAR_KEYS = ("nodes", "material", "section", "EA", "description")
+_BAR_KEYS = ("nodes", "material", "section", "EA", "acts", "description")
 
 
 def member_specs(reader: CaseReader, node_ids) -> list[MemberSpec]:
@@ -90,8 +90,19 @@ def read_members(reader: CaseReader, specs: list[MemberSpec], nodes: dict[str, N
             hinge_start="start" in hinges, hinge_end="end" in hinges,
             weight=(mat["unit_weight"] * sec["A"]
                     if mat and "unit_weight" in mat and sec and "A" in sec else None),
+            acts=_acts(reader, spec, where),
         )
     return members
+
+
+def _acts(reader: CaseReader, spec: dict, where: str) -> str:
+    """How a bar may act: "both" (default), "tension" or "compression"."""
+    acts = spec.get("acts", "both")
+    if acts not in ("both", "tension", "compression"):
+        raise reader.err(where + ".acts", 'expected "tension" (a tie, rod or cable that goes '
+                         'slack rather than push), "compression" (a strut that lifts off '
+                         f'rather than pull) or "both" (the default), got {shown(acts)}')
+    return acts
 
 
 def _stiffnesses(reader: CaseReader, kind: str, spec: dict, where: str, mat: dict | None,

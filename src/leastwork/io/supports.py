@@ -28,7 +28,8 @@ def read_supports(reader: CaseReader, nodes: dict[str, Node]) -> dict[str, Suppo
         if not isinstance(spec, dict):
             raise reader.err(where, 'expected "fixed", "pinned", "roller" or a table such as '
                              '{ restrain = ["x", "y"] }, got ' + kind_of(spec))
-        reader.keys_known(where, spec, ("type", "restrain", "springs", "surface_angle"))
+        reader.keys_known(where, spec, ("type", "restrain", "springs", "surface_angle",
+                                          "acts"))
         supports[nid] = _support(reader, nid, spec, where)
     if not supports:
         raise reader.err("[supports]", "no supports: a structure needs at least one")
@@ -62,7 +63,24 @@ def _support(reader: CaseReader, nid: str, spec: dict[str, Any], where: str) -> 
         restraints.append(Restraint(nid, d, _unit_vector(d), stiff))
     if not restraints:
         raise reader.err(where, "restrains nothing; give a type, restrain or springs")
-    return Support(nid, tuple(restraints), angle)
+    return Support(nid, tuple(restraints), angle, _support_acts(reader, spec, where,
+                                                                 restraints))
+
+
+def _support_acts(reader: CaseReader, spec: dict[str, Any], where: str,
+                  restraints: list[Restraint]) -> str:
+    """"compression" for a bearing that can only push (one restrained translation), else
+    "both"."""
+    acts = spec.get("acts", "both")
+    if acts not in ("both", "compression"):
+        raise reader.err(where + ".acts", 'expected "compression" (a bearing that can only '
+                         'push and lifts off instead of pulling) or "both" (the default), got '
+                         + shown(acts))
+    if acts == "compression" and (len(restraints) != 1 or restraints[0].direction == "rz"):
+        raise reader.err(where + ".acts", 'acts = "compression" needs exactly one restrained '
+                         "translation (x, y, or the normal of an inclined roller), found "
+                         + ", ".join(r.direction for r in restraints))
+    return acts
 
 
 def _rigid_directions(reader: CaseReader, spec: dict[str, Any], where: str) -> list[str]:

@@ -69,6 +69,9 @@ class Member:
     weight : float or None
         Own weight per unit length, N/m (unit weight of the material times the section
         area; ``None`` where either is not given).
+    acts : str
+        "both" (default), or for a one-way bar "tension" (a tie, rod or cable: it goes
+        slack rather than push) or "compression" (a strut that lifts off rather than pull).
     """
 
     id: str
@@ -83,6 +86,7 @@ class Member:
     hinge_start: bool = False
     hinge_end: bool = False
     weight: float | None = None
+    acts: str = "both"
 
     @property
     def is_beam(self) -> bool:
@@ -133,6 +137,10 @@ class Support:
     node: str
     restraints: tuple[Restraint, ...]
     surface_angle: float | None = None
+    #: "both" (default) or "compression": a bearing that can only push the structure along
+    #: its one restrained translation (its reaction along the restraint's vector is >= 0)
+    #: and lifts off instead of pulling
+    acts: str = "both"
 
 
 def reaction_components(support: Support, value_of) -> dict[str, float]:

@@ -59,6 +59,8 @@ def solution_to_dict(sol) -> dict:
             "displacements": n.displacements,
             "checks": n.checks,
         }
+        if name in sol.states:
+            _one_way_states(sol, name, cases[name])
     out = {
         "schema": SCHEMA,
         "name": st.name,
@@ -78,6 +80,21 @@ def solution_to_dict(sol) -> dict:
     if env is not None:
         out["envelope"] = env
     return out
+
+
+def _one_way_states(sol, name: str, case: dict) -> None:
+    """Contract 5.2: ``members.ID.state`` of every one-way bar ("acting" or "slack"),
+    ``support_states.NODE`` of every one-way support ("bearing" or "lifted"), and how the
+    state was found (``one_way``)."""
+    st, state = sol.structure, sol.states[name]
+    for mid, m in st.members.items():
+        if m.acts != "both":
+            case["members"][mid]["state"] = "slack" if mid in state.slack else "acting"
+    bearings = [s.node for s in st.supports.values() if s.acts != "both"]
+    if bearings:
+        case["support_states"] = {n: "lifted" if n in state.lifted else "bearing"
+                                  for n in bearings}
+    case["one_way"] = {"solves": state.trials, "redundants": list(state.redundants)}
 
 
 def _members_per_state(sol) -> dict:

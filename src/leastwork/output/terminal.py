@@ -169,6 +169,7 @@ def _print_load_case(console: Console, sol, name: str) -> None:
     Ff, fu = quantities(sol.units).factor("force"), sol.units.force
     console.rule(user_text(f"Load case: {name}"))
     _equilibrium_alarm(console, res, Ff, fu)
+    _print_state(console, sol, name)
     for table in (_redundants_table(sol, res), _reactions_table(sol, numbers),
                   _member_end_table(sol, numbers), _beam_extremes_table(sol, res, numbers),
                   _displacements_table(sol, res, numbers)):
@@ -436,6 +437,7 @@ def print_short_summary(console: Console, sol, case_names=None) -> None:
         res = sol.cases[name]
         console.rule(user_text(f"Load case: {name}"))
         _equilibrium_alarm(console, res, Ff, fu)
+        _print_state(console, sol, name)
         console.print(_governing_table(sol, res))
         if len(res.displacements) > NAMES_SHOWN:
             console.print(f"{len(res.displacements)} displacements asked for: in --json.")
@@ -478,6 +480,18 @@ def print_brief(console: Console, sol, case_names=None) -> None:
         c = res.stiffness
         cc = "not run" if c is None else "agrees" if c.ok else failed
         console.print(Text.assemble(f"{literal(name)}  equilibrium ", eq, ", cross-check ", cc))
+        state = sol.states.get(name)
+        if state is not None and state.changed:
+            console.print(user_text(f"{name}  slack: {', '.join(state.slack) or '-'}; "
+                                    f"lifted: {', '.join(state.lifted) or '-'}"))
+
+
+def _print_state(console: Console, sol, name: str) -> None:
+    """The one-way state of a load case, when the structure has one-way items."""
+    if name in sol.states:
+        from ..one_way import state_text
+
+        console.print(user_text(state_text(sol.structure, sol.states[name])))
 
 
 def _equilibrium_alarm(console: Console, res, Ff: float, fu: str) -> None:

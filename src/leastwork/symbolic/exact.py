@@ -326,6 +326,13 @@ def read_exact(st: Structure, record, *, expand_derived: bool = False) -> ExactM
     Raises CaseError where a value cannot be represented exactly, and RuntimeError if an
     exact value disagrees with the numeric reader (a bug).
     """
+    one_way = [m.id for m in st.members.values() if m.acts != "both"]
+    one_way += [f"support {s.node}" for s in st.supports.values() if s.acts != "both"]
+    if one_way:
+        raise CaseError(f"symbolic mode does not take one-way members and supports "
+                        f"({', '.join(one_way[:4])}{' ...' if len(one_way) > 4 else ''}): "
+                        "which of them act depends on the numbers; solve numerically",
+                        source=st.source)
     for ld in st.loads:
         if getattr(ld, "written", ""):
             raise CaseError(f"symbolic mode does not take this load yet ({ld.written}): "

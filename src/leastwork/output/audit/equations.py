@@ -31,6 +31,14 @@ def step_equations(ctx: Context) -> Step:
                               + rf" + \delta_{{{i + 1}0}} = \Delta_{i + 1}"))
     for case in ctx.cases:
         n = ctx.numbers(case)
+        state = ctx.sol.states.get(case)
+        if state is not None and state.changed:
+            blocks.append(Para(
+                f"Load case {case}: one-way members or supports were taken out "
+                f"({', '.join([*state.slack, *state.lifted])}), so the equations of the "
+                "structure as given do not hold for this case; its results come from a "
+                "solve without them (step 6).", "note"))
+            continue
         blocks.append(Para(f"Load case {case}:"))
         for i in range(nr):
             lhs = " + ".join(f"({fmt(ctx.flex[i][j])})·X{j + 1}" for j in range(nr))

@@ -5,7 +5,7 @@ combinations. Every number is the one the JSON result reports
 
 from __future__ import annotations
 
-from ..sheet import Formula, Grid, Step
+from ..sheet import Formula, Grid, Para, Step
 from .context import Context
 from .envelope import envelope_grids
 
@@ -15,11 +15,26 @@ __all__ = ["step_solution"]
 def step_solution(ctx: Context) -> Step:
     blocks: list = []
     for case in ctx.cases:
+        state = ctx.sol.states.get(case)
+        if state is not None:
+            from ...one_way import state_text
+
+            blocks.append(Para(f"Load case {case} — {state_text(ctx.st, state)}",
+                               "note" if state.changed else "plain"))
         if ctx.nred:
             blocks.append(_redundants(ctx, case))
-        blocks.append(Formula("final force = released structure under the loads + "
-                              "Σ Xi · (unit state i)"))
-        blocks.append(_superposition(ctx, case))
+        if state is not None and state.changed:
+            blocks.append(Para(
+                "The final forces of this load case are those of the solve without the "
+                "members and supports taken out (set to zero here), not the superposition "
+                "of the states above; the redundants are those forces at the redundant "
+                "columns. They satisfy equilibrium (checked below) and the compatibility of "
+                "every member and support that acts; a slack member's ends and a lifted "
+                "support move apart freely.", "note"))
+        else:
+            blocks.append(Formula("final force = released structure under the loads + "
+                                  "Σ Xi · (unit state i)"))
+            blocks.append(_superposition(ctx, case))
         blocks.append(_reactions(ctx, case))
         blocks.append(_end_forces(ctx, case))
         extremes = _moment_extremes(ctx, case)

@@ -120,6 +120,10 @@ def force_panel(pn: Panel, sol, case: str, quantity: str) -> tuple[str, str]:
     draw_supports(pn, st, faint=True)
     vmax = max(float(np.max(np.abs(d["value"]))) for d in lines.values())
     title = f"{case}: {what} [{unit}]"
+    state = sol.states.get(case)
+    if state is not None and state.changed:
+        title += "; " + ", ".join([*(f"{m} slack" for m in state.slack),
+                                   *(f"support {n} lifted" for n in state.lifted)])
     if vmax == 0.0:
         xs = [n.x for n in st.nodes.values()]
         ys = [n.y for n in st.nodes.values()]
