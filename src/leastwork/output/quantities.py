@@ -65,9 +65,13 @@ class Quantities:
                 top, bottom):
             (f1, l1), (f2, l2) = QUANTITIES[top], QUANTITIES[bottom]
             return self.power(f1 - f2, l1 - l2), self.label(f1 - f2, l1 - l2)
-        per = self.unit(bottom)
+        factor, num, per = self.factor(top) / self.factor(bottom), self.unit(top), self.unit(bottom)
+        if num == per:
+            return factor, "-"
+        if num.startswith(f"{per}*"):  # kip*ft per kip: ft
+            return factor, num[len(per) + 1:]
         per = f"({per})" if any(c in per for c in "*/") else per
-        return self.factor(top) / self.factor(bottom), f"{self.unit(top)}/{per}"
+        return factor, f"{num}/{per}"
 
     def convert(self, value, f: int, l: int):
         """An SI value (or array) of force^f · length^l in the output units."""
