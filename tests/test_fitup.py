@@ -278,7 +278,7 @@ def test_cli_json_shape_and_seed(capsys):
         assert entry["p05"] <= entry["p95"] and entry["p95"] <= w["max"]
     assert {"AB.start.m", "ED.end.m"} <= set(out["moments"])
     assert {"A.x", "A.y", "A.rz", "E.x"} <= set(out["reactions"])
-    assert out["units"] == {"force": "kN", "length": "m", "moment": "kN*m"}
+    assert out["units"] == {"force": "kN", "length": "m", "moment": "kN*m", "displacement": "m"}
     assert main(args) == 0
     assert json.loads(capsys.readouterr().out) == out  # same seed, same numbers
 

@@ -46,8 +46,15 @@ FAR = 1e12  # m: coordinates about 1e12 m from the origin
 
 
 def _shifted(st, dx: float, dy: float):
+    """``st`` moved by (dx, dy); a span load read as running to the member's end (its
+    length from the unshifted coordinates) still runs to the end of the moved member, whose
+    length differs in the last digits when the coordinates do not survive the shift."""
     nodes = {k: dataclasses.replace(n, x=n.x + dx, y=n.y + dy) for k, n in st.nodes.items()}
-    return dataclasses.replace(st, nodes=nodes)
+    moved = dataclasses.replace(st, nodes=nodes)
+    loads = tuple(dataclasses.replace(ld, end=moved.length(ld.member))
+                  if isinstance(ld, DistributedLoad) and ld.end == st.length(ld.member)
+                  else ld for ld in st.loads)
+    return dataclasses.replace(moved, loads=loads)
 
 
 def _stiffness_difference(st, res) -> float:

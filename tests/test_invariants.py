@@ -504,7 +504,8 @@ def test_json_result_shape(portal_file):
     res = json.loads(_cli("solve", str(portal_file), "--json").stdout)
     assert res["schema"] == "leastwork.result/1"
     assert {"schema", "name", "units", "indeterminacy", "redundants", "cases"} <= set(res)
-    assert res["units"] == {"force": "kN", "length": "m", "moment": "kN*m", "rotation": "rad"}
+    assert res["units"] == {"force": "kN", "length": "m", "moment": "kN*m", "rotation": "rad",
+                            "displacement": "m", "distributed": "kN/m", "stress": "kN/m^2"}
     assert {"degree", "external", "internal", "stable"} <= set(res["indeterminacy"])
     case = res["cases"]["default"]
     assert {

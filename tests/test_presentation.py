@@ -22,7 +22,8 @@ def test_units_option_converts_every_result(capsys):
     """1 kN = 1000 N, 1 m = 1000 mm, 1 kN*m = 1e6 N*mm (SI definitions)."""
     base = _json(capsys)
     other = _json(capsys, "--units", "N,mm")
-    assert other["units"] == {"force": "N", "length": "mm", "moment": "N*mm", "rotation": "rad"}
+    assert other["units"] == {"force": "N", "length": "mm", "moment": "N*mm", "rotation": "rad",
+                              "displacement": "mm", "distributed": "N/mm", "stress": "N/mm^2"}
     for name, case in base["cases"].items():
         o = other["cases"][name]
         for k, v in case["redundants"].items():

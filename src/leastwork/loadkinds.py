@@ -165,8 +165,8 @@ def _forces_text(u, fx, fy, mz) -> str:
     from .output.sheet import fmt
 
     fu, mu = u.force_unit, u.moment_unit
-    parts = [f"{k} = {fmt(u.convert(v, *d))} {lab}" for k, v, d, lab in
-             (("fx", fx, (1, 0), fu), ("fy", fy, (1, 0), fu), ("mz", mz, (1, 1), mu)) if v]
+    parts = [f"{k} = {fmt(u.to_output(v, q))} {lab}" for k, v, q, lab in
+             (("fx", fx, "force", fu), ("fy", fy, "force", fu), ("mz", mz, "moment", mu)) if v]
     return ", ".join(parts) or "0"
 
 
@@ -278,9 +278,9 @@ def _distributed_describe(st: Structure, u, ld: DistributedLoad) -> tuple[str, s
     parts = []
     for k, pair in (("wx", ld.wx), ("wy", ld.wy)):
         if any(pair):
-            a0, a1 = (fmt(u.convert(v, 1, -1)) for v in pair)
+            a0, a1 = (fmt(u.to_output(v, "distributed")) for v in pair)
             parts.append(f"{k} = {a0}" + ("" if pair[0] == pair[1] else f" to {a1}")
-                         + f" {u.label(1, -1)}")
+                         + f" {u.distributed_unit}")
     return (f"{ld.member} from {fmt(u.convert(ld.start, 0, 1))} to {fmt(u.convert(b, 0, 1))} "
             f"{u.length_unit}", ", ".join(parts) or "0")
 
@@ -336,7 +336,8 @@ register_load(LoadKind(
     apply=lambda v, ld, sink: sink.member_strain(ld.member, sink.zero, sink.zero,
                                                  v["elongation"]),
     resultant=lambda st, ld, centre: None,
-    describe=lambda st, u, ld: (ld.member, f"{_fmt(u.convert(ld.elongation, 0, 1))} {u.length_unit}"),
+    describe=lambda st, u, ld: (ld.member, f"{_fmt(u.to_output(ld.elongation, 'displacement'))} "
+                                           f"{u.displacement_unit}"),
 ))
 
 
@@ -355,6 +356,7 @@ register_load(LoadKind(
     apply=_settlement_apply,
     resultant=lambda st, ld, centre: None,
     describe=lambda st, u, ld: (ld.node, ", ".join(
-        f"d{d} = " + (f"{_fmt(v)} rad" if d == "rz" else f"{_fmt(u.convert(v, 0, 1))} {u.length_unit}")
+        f"d{d} = " + (f"{_fmt(v)} rad" if d == "rz" else
+                      f"{_fmt(u.to_output(v, 'displacement'))} {u.displacement_unit}")
         for d, v in ld.values)),
 ))

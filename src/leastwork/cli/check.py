@@ -4,7 +4,7 @@ would take, without solving."""
 from __future__ import annotations
 
 from ..errors import MechanismError
-from .common import console_for
+from .common import add_units_option, console_for, display_units
 from .parser import basis_option, command_parser
 from .progress import progress
 
@@ -16,6 +16,7 @@ def add_parsers(sub) -> None:
     c = command_parser(sub, "check", "indeterminacy, stability and suggested redundants")
     c.add_argument("case", help="case file (TOML)")
     basis_option(c)
+    add_units_option(c)
     c.add_argument("--no-color", action="store_true", help="plain text, no colours")
 
 
@@ -35,6 +36,9 @@ def run(args) -> int:
     from ..topology import build_topology, check_stable, choose_redundants
 
     st = load_case(args.case)
+    units = display_units(args.units, st.units)
+    if units is not None:  # check reads nothing more: its messages speak these units
+        st = dataclasses.replace(st, units=units)
     console = console_for(args)
     notes: list[str] = []
     basis = None

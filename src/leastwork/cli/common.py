@@ -9,8 +9,8 @@ import sys
 
 from ..errors import CaseError
 
-__all__ = ["FILE_WIDTH", "SUFFIX_FORMAT", "chosen_cases", "console_for", "display_units",
-           "document", "emit", "output_format", "sheet_meta", "split", "version"]
+__all__ = ["FILE_WIDTH", "SUFFIX_FORMAT", "add_units_option", "chosen_cases", "console_for",
+           "display_units", "document", "emit", "output_format", "sheet_meta", "split", "version"]
 
 #: Width of text written to a file (the terminal uses its own width).
 FILE_WIDTH = 100
@@ -44,22 +44,59 @@ def split(text: str | None) -> list[str] | None:
     return items
 
 
-def display_units(text: str | None):
-    """The UnitSystem of ``--units FORCE,LENGTH``, or None."""
+#: The --units help text, shared by every command that prints numbers.
+UNITS_HELP = ("report results in these units instead of the case's: QUANTITY=UNIT pairs "
+              "(force, length, displacement, moment, distributed, stress), e.g. "
+              "displacement=mm,moment=kN*m, or FORCE,LENGTH such as kN,mm (inputs, including "
+              "distances in --at, stay in the case units)")
+
+
+def add_units_option(p) -> None:
+    """``--units`` on a command that prints numbers."""
+    p.add_argument("--units", metavar="QUANTITY=UNIT,...", help=UNITS_HELP)
+
+
+def display_units(text: str | None, base=None):
+    """The UnitSystem of ``--units``, or None when not given.
+
+    ``FORCE,LENGTH`` (two bare units) replaces the whole system: every quantity follows
+    from them, as before. ``QUANTITY=UNIT`` pairs replace the named quantities of ``base``
+    (the case's units) and keep the rest; the two forms may be mixed, the bare pair first.
+    """
     if text is None:
         return None
-    from ..model.units import UnitSystem, check_unit
+    from ..model.units import OUTPUT_QUANTITIES, UnitSystem, check_unit
 
-    parts = [t.strip() for t in text.split(",")]
-    if len(parts) != 2 or not all(parts):
-        raise CaseError(f'expected FORCE,LENGTH such as "kN,mm", got "{text}"',
-                        source="command line", where="--units")
-    try:
-        check_unit(parts[0], "force")
-        check_unit(parts[1], "length")
-    except ValueError as exc:
-        raise CaseError(str(exc), source="command line", where="--units") from None
-    return UnitSystem(parts[0], parts[1])
+    def bad(message: str) -> CaseError:
+        return CaseError(message, source="command line", where="--units")
+
+    items = [t.strip() for t in text.split(",")]
+    bare = [t for t in items if "=" not in t]
+    pairs = [t for t in items if "=" in t]
+    kinds = ("force", "length", *OUTPUT_QUANTITIES)
+    if not all(items) or (bare and (len(bare) != 2 or items[:2] != bare)):
+        raise bad(f'expected QUANTITY=UNIT pairs such as "displacement=mm,moment=kN*m" or '
+                  f'FORCE,LENGTH such as "kN,mm", got "{text}"')
+    units = UnitSystem(bare[0], bare[1]) if bare else (base or UnitSystem())
+    chosen: dict[str, str] = {}
+    if bare:
+        chosen.update(force=bare[0], length=bare[1])
+    for pair in pairs:
+        kind, _, unit = (t.strip() for t in pair.partition("="))
+        if kind not in kinds:
+            raise bad(f'unknown quantity "{kind}" in "{pair}"; expected one of: '
+                      + ", ".join(kinds))
+        if not unit:
+            raise bad(f'no unit after "{kind}=" in "{text}"')
+        if kind in chosen:
+            raise bad(f'{kind} is given twice in "{text}"')
+        chosen[kind] = unit
+    for kind, unit in chosen.items():
+        try:
+            check_unit(unit, kind)
+        except ValueError as exc:
+            raise bad(f"{kind}: {exc}") from None
+    return units.with_units(**{k: u for k, u in chosen.items()})
 
 
 def chosen_cases(sol, name: str | None) -> list[str] | None:

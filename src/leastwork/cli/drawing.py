@@ -7,7 +7,7 @@ import sys
 import textwrap
 
 from ..errors import CaseError
-from .common import chosen_cases, sheet_meta, split
+from .common import add_units_option, chosen_cases, display_units, sheet_meta, split
 from .parser import DESCRIPTION, basis_option, command_parser
 from .progress import busy, progress
 
@@ -37,6 +37,7 @@ def _file_command(sub, name: str, summary: str, description: str, output_help: s
     p.add_argument("--case", dest="load_case", metavar="NAME",
                    help="only this load case (default: every case)")
     p.add_argument("--redundants", metavar="LIST", help="redundants to use (as for solve)")
+    add_units_option(p)
     basis_option(p)
     p.add_argument("--force", action="store_true", help="replace existing files")
     return p
@@ -52,6 +53,11 @@ def run(args) -> int:
     from ..solve import solve
 
     st = load_case(args.case)
+    units = display_units(args.units, st.units)
+    if units is not None:  # the drawings and the report speak the units of the structure
+        import dataclasses
+
+        st = dataclasses.replace(st, units=units)
     names = split(args.redundants)
     with progress("solving") as say:
         sol = solve(st, names, where="--redundants" if names is not None else None,

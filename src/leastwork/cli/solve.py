@@ -13,6 +13,7 @@ import sys
 from ..errors import CaseError
 from .common import (
     FILE_WIDTH,
+    add_units_option,
     chosen_cases,
     console_for,
     display_units,
@@ -65,9 +66,7 @@ def add_parsers(sub) -> None:
 
 
 def _presentation_options(p: argparse.ArgumentParser) -> None:
-    p.add_argument("--units", metavar="FORCE,LENGTH",
-                   help="report results in these units instead of the case's, e.g. kN,mm "
-                        "(inputs, including distances in --at, stay in the case units)")
+    add_units_option(p)
     p.add_argument("--no-color", action="store_true", help="plain text, no colours")
     p.add_argument("-q", "--quiet", action="store_true",
                    help="only the redundants, the checks and any warning")
@@ -100,7 +99,7 @@ def run(args) -> int:
     if args.redundants is not None and not names:
         raise CaseError("expected a comma-separated list of redundants", source="command line",
                         where="--redundants")
-    units = display_units(args.units)
+    units = display_units(args.units, st.units)
     with progress("solving") as say:
         sol = solve(st, names, where="--redundants" if names is not None else None,
                     verify=False if args.no_verify else None, basis=args.basis,

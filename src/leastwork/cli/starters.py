@@ -113,7 +113,7 @@ def _effects_table(sol, numbers: dict) -> Table:
     # headers as Text: "[kN]" would otherwise be read as rich markup and vanish
     t.add_column(user_text(f"tie rod force, tension + [{q.force_unit}]"), justify="right")
     t.add_column(user_text(f"m at the wall A, sagging + [{q.moment_unit}]"), justify="right")
-    t.add_column(user_text(f"tip B.y, up + [{q.length_unit}]"), justify="right")
+    t.add_column(user_text(f"tip B.y, up + [{q.displacement_unit}]"), justify="right")
     for c, n in numbers.items():
         t.add_row(user_text(c), f"{_rod_force(n):.4g}",
                   f"{float(n.members['AB']['start']['m']):.4g}",

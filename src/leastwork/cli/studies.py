@@ -13,7 +13,7 @@ import sys
 
 from ..errors import CaseError
 from ..plaintext import literal
-from .common import console_for
+from .common import add_units_option, console_for, display_units
 
 __all__ = ["add_parsers", "run_fitup", "run_influence"]
 
@@ -54,6 +54,7 @@ def add_parsers(sub) -> None:
                    help="member whose length is changed (shim) ...")
     f.add_argument("--zero", metavar="MEMBER",
                    help="... so that the axial force of this member is zero")
+    add_units_option(f)
     f.add_argument("--json", action="store_true", help="print only the JSON result")
     f.add_argument("--no-color", action="store_true", help="plain text, no colours")
     i = _add(sub, "influence", "influence line of a reaction or internal force",
@@ -68,6 +69,7 @@ def add_parsers(sub) -> None:
     i.add_argument("--points", type=int, default=10, metavar="N",
                    help="equal intervals per member (default 10: the ends and 9 interior "
                         "points)")
+    add_units_option(i)
     i.add_argument("--json", action="store_true", help="print only the JSON result")
     i.add_argument("-o", "--output", metavar="FILE",
                    help="also draw the influence line to a PNG or SVG file")
@@ -117,8 +119,9 @@ def _fitup(args, st, console) -> int:
         raise CaseError("--case picks the load case of --adjust; the tolerance study itself "
                         "uses no loads", source="command line", where="--case")
     tol = parse_tolerances(args.tolerance, st) if args.tolerance is not None else None
+    units = display_units(args.units, st.units) or st.units
     sol = solve(st)
-    units = sol.units
+    sol.display_units = units
     study = (fitup_study(sol, tol, args.samples, args.distribution, args.seed)
              if tol is not None else None)
     adj = (adjustment(sol, args.adjust, args.zero, args.load_case)
@@ -171,10 +174,10 @@ def _g(x: float) -> str:
 
 
 def _length(x_si: float, units) -> str:
-    """A length error (SI) in the report length unit, signed."""
+    """A length error (SI) in the report displacement unit, signed."""
     from ..output.quantities import quantities
 
-    return f"{quantities(units).to_output(x_si, 'length'):+.4g}"
+    return f"{quantities(units).to_output(x_si, 'displacement'):+.4g}"
 
 
 def _print_study(console, study, units) -> None:
@@ -185,11 +188,12 @@ def _print_study(console, study, units) -> None:
 
     uq = quantities(units)
     rep = study.quantities
-    tol = ", ".join(f"{m} ±{_g(uq.to_output(t, 'length'))}" for m, t in study.tolerances.items())
+    tol = ", ".join(f"{m} ±{_g(uq.to_output(t, 'displacement'))}"
+                    for m, t in study.tolerances.items())
     dist = ("uniform over ±t" if study.distribution == "uniform"
             else "normal, sigma = t/3")
     console.print(user_text(f"Fit-up study: forces locked in by length errors alone (no "
-                            f"loads). Tolerances [{uq.length_unit}]: {tol}"))
+                            f"loads). Tolerances [{uq.displacement_unit}]: {tol}"))
     console.print(f"Monte Carlo: {study.samples} samples, {dist}, seed {study.seed}.")
     titles = {("members", "force"): "Axial forces", ("moments", "moment"): "Beam end moments",
               ("reactions", "force"): "Reactions", ("reactions", "moment"): "Reaction couples"}
@@ -217,7 +221,7 @@ def _print_study(console, study, units) -> None:
             console.print(user_text(
                 f"Largest worst-case axial force: {rep.names[q]}, "
                 f"{_g(uq.to_output(study.worst.max[q], 'force'))} {uq.force_unit}, with the "
-                f"length errors [{uq.length_unit}] {pat} (the opposite signs give the "
+                f"length errors [{uq.displacement_unit}] {pat} (the opposite signs give the "
                 "minimum)."))
 
 
@@ -251,8 +255,8 @@ def _print_adjustment(console, adj, units) -> None:
     from ..output.terminal import user_text
 
     uq = quantities(units)
-    Ff, Lf = uq.factor("force"), uq.factor("length")
-    fu, lu = uq.force_unit, uq.length_unit
+    Ff, Lf = uq.factor("force"), uq.factor("displacement")
+    fu, lu = uq.force_unit, uq.displacement_unit
     how = "longer" if adj.change > 0 else "shorter"
     from rich.text import Text
 
@@ -338,12 +342,13 @@ def _influence(args, st, console) -> int:
     topo = build_topology(st)
     q = parse_quantity(st, topo, args.quantity)  # refuse bad input before solving
     parse_members(st, args.along)
+    units = display_units(args.units, st.units) or st.units
     sol = solve(st)
+    sol.display_units = units
     if sol.states:
         sol.warnings = (*sol.warnings, "the influence line takes every one-way member and "
                         "support as acting (a linear response); where one may go slack or "
                         "lift off, solve the governing load positions as load cases")
-    units = sol.units
     line = influence_line(sol, q, args.along, args.points, units)
     d = influence_to_dict(line, units, st.name)
     if args.output:

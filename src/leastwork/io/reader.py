@@ -13,7 +13,7 @@ from pathlib import Path
 from typing import Any
 
 from ..model import Node, Structure
-from ..model.units import STANDARD_GRAVITY, UnitSystem, check_unit
+from ..model.units import OUTPUT_QUANTITIES, STANDARD_GRAVITY, UnitSystem, check_unit
 from .analysis import check_shear, read_analysis
 from .core import CaseReader
 from .files import parse_toml, read_case_text
@@ -97,21 +97,24 @@ def _head(reader: CaseReader) -> str:
 
 
 def _units(reader: CaseReader, spec: Any) -> UnitSystem:
-    """``[structure] units``: the force and length units of the case."""
+    """``[structure] units``: the force and length units of the case (bare numbers are
+    read in them), and the output units named for displacement, moment, distributed and
+    stress (docs/case-format.md)."""
     if not isinstance(spec, dict):
         raise reader.err("[structure] units", 'expected { force = "kN", length = "m" }, got '
                          + kind_of(spec))
-    reader.keys_known("[structure] units", spec, ("force", "length"))
+    reader.keys_known("[structure] units", spec, ("force", "length", *OUTPUT_QUANTITIES))
     force = spec.get("force", "kN")
     length = spec.get("length", "m")
-    for kind, unit in (("force", force), ("length", length)):
+    named = {q: spec[q] for q in OUTPUT_QUANTITIES if q in spec}
+    for kind, unit in (("force", force), ("length", length), *named.items()):
         if not isinstance(unit, str):
             raise reader.err(f"[structure] units.{kind}", f"expected a unit name, got {kind_of(unit)}")
         try:
             check_unit(unit, kind)
         except ValueError as exc:
             raise reader.err(f"[structure] units.{kind}", str(exc)) from None
-    return UnitSystem(force=force, length=length)
+    return UnitSystem(force=force, length=length).with_units(**named)
 
 
 def _materials(reader: CaseReader) -> dict[str, dict[str, float]]:

@@ -37,10 +37,12 @@ _PROPPED_BEAM = """\
 # Any line starting with "#" is a comment and can be deleted.
 
 # [structure]: a name printed on every result, and the units of bare numbers in the file
-# and of every number in the output. Strings with their own units ("12 kN") are converted.
+# (force and length) and of every number in the output: displacement and moment name
+# their own output units (deflections in mm, moments in kN*m). Strings with their own
+# units ("12 kN") are converted.
 [structure]
 name = "Pump-platform beam, fixed in a wall, on a bracket"
-units = { force = "kN", length = "m" }
+units = { force = "kN", length = "m", displacement = "mm", moment = "kN*m" }
 
 # [parameters]: named values used below as "L", "w"... Change them here once.
 [parameters]
@@ -131,10 +133,10 @@ _CONTINUOUS_BEAM = """\
 # (DE = { nodes = ["D", "E"] }) and a support per node; every extra support adds one to the
 # degree. Unequal bays: give each node its own x.
 
-# name printed on the results; units of bare numbers and of the output
+# name printed on the results; units of bare numbers (force, length) and of the output
 [structure]
 name = "Crane-runway girder over three 6 m bays"
-units = { force = "kN", length = "m" }
+units = { force = "kN", length = "m", displacement = "mm", moment = "kN*m" }
 
 # bay length; node positions below are written with it
 [parameters]
@@ -236,10 +238,10 @@ _REDUNDANT_TRUSS = """\
 # separately, and if it is too slender to carry compression (a flat or a rod), remove it
 # and solve again.
 
-# name printed on the results; units of bare numbers and of the output
+# name printed on the results; units of bare numbers (force, length) and of the output
 [structure]
 name = "Conveyor gallery side truss, 12 m, cross-braced panels"
-units = { force = "kN", length = "m" }
+units = { force = "kN", length = "m", displacement = "mm", moment = "kN*m" }
 
 # panel length and depth: change them to resize the whole truss
 [parameters]
@@ -367,10 +369,10 @@ _PORTAL_FRAME = """\
 # needs an apex node between B and C; columns drawn upwards (A to B, D to C) put positive
 # m on the inside face of the left column but on the outside face of the right one.
 
-# name printed on the results; units of bare numbers and of the output
+# name printed on the results; units of bare numbers (force, length) and of the output
 [structure]
 name = "Lorry-wash canopy portal, 8 m span, pinned bases"
-units = { force = "kN", length = "m" }
+units = { force = "kN", length = "m", displacement = "mm", moment = "kN*m" }
 
 # span between column centre lines and height to the beam centre line
 [parameters]
@@ -456,10 +458,10 @@ _TIED_BEAM = """\
 # To adapt it: move the anchor (C) or the rod connection along the beam (split the beam
 # at a new node and point the bar there); a rod made too short has a negative misfit.
 
-# name printed on the results; units of bare numbers and of the output
+# name printed on the results; units of bare numbers (force, length) and of the output
 [structure]
 name = "Entrance canopy beam with tie rod and turnbuckle"
-units = { force = "kN", length = "m" }
+units = { force = "kN", length = "m", displacement = "mm", moment = "kN*m" }
 
 # canopy projection and anchor height: the rod geometry follows from them
 [parameters]

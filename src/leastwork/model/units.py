@@ -18,8 +18,9 @@ from functools import lru_cache
 
 from ..plaintext import ECHO_LIMIT, literal
 
-__all__ = ["UnitSystem", "DIMENSIONS", "STANDARD_GRAVITY", "ureg", "parse_quantity", "QuantityError",
-           "QUANTITY_LIMIT", "UNIT_POWER_LIMIT"]
+__all__ = ["UnitSystem", "DIMENSIONS", "OUTPUT_QUANTITIES", "TRADE_UNITS", "STANDARD_GRAVITY",
+           "ureg", "parse_quantity", "QuantityError", "QUANTITY_LIMIT", "UNIT_POWER_LIMIT",
+           "check_output_unit"]
 
 #: Longest quantity string read (characters, after stripping the ends). The longest
 #: expression a case needs is a few dozen characters; the unit parser's cost grows with the
@@ -38,9 +39,39 @@ def _registry():
     # registry about ten times cheaper to build after the first run; without a usable cache
     # folder (read-only, a half-written file of a concurrent first run) it is built afresh.
     try:
-        return pint.UnitRegistry(autoconvert_offset_to_baseunit=False, cache_folder=":auto:")
+        reg = pint.UnitRegistry(autoconvert_offset_to_baseunit=False, cache_folder=":auto:")
     except Exception:
-        return pint.UnitRegistry(autoconvert_offset_to_baseunit=False)
+        reg = pint.UnitRegistry(autoconvert_offset_to_baseunit=False)
+    _define_trade_units(reg)
+    return reg
+
+
+#: Units of US practice that pint lacks (or, for ``k``, gives another meaning: pint's ``k``
+#: is Boltzmann's constant, which no structural case needs). Each is defined in the
+#: registry, so every quantity string, ``[structure] units`` and ``--units`` accept them.
+TRADE_UNITS: tuple[tuple[str, str], ...] = (
+    ("k", "kip"),                      # 1 k = 1 kip = 1000 lbf
+    ("klf", "kip / foot"),             # kips per linear foot
+    ("plf", "force_pound / foot"),     # pounds per linear foot
+    ("psf", "force_pound / foot ** 2"),
+    ("ksf", "kip / foot ** 2"),
+)
+
+
+def _define_trade_units(reg) -> None:
+    """Add :data:`TRADE_UNITS` to ``reg`` (pint's ``kip``, ``ksi``, ``psi``, ``lbf``, ``ft``
+    and ``in`` are already there). Redefining ``k`` is intended: pint's notice of it is
+    silenced."""
+    import logging
+
+    log = logging.getLogger("pint.util")
+    level = log.level
+    log.setLevel(logging.ERROR)
+    try:
+        for name, definition in TRADE_UNITS:
+            reg.define(f"{name} = {definition}")
+    finally:
+        log.setLevel(level)
 
 
 def ureg():
@@ -74,6 +105,29 @@ _PINT_DIM = {
     "force": "[mass] * [length] / [time] ** 2",
     "length": "[length]",
     "temperature": "[temperature]",
+    "displacement": "[length]",
+    "moment": "[mass] * [length] ** 2 / [time] ** 2",
+    "distributed": "[mass] / [time] ** 2",
+    "stress": "[mass] / [length] / [time] ** 2",
+}
+
+#: The quantities whose output unit ``[structure] units`` or ``--units`` may name besides
+#: force and length, with their (force, length) exponents.
+OUTPUT_QUANTITIES: dict[str, tuple[int, int]] = {
+    "displacement": (0, 1),
+    "moment": (1, 1),
+    "distributed": (1, -1),
+    "stress": (1, -2),
+}
+
+#: Examples of each unit kind, for messages.
+_UNIT_EXAMPLES = {
+    "force": "kN, N, kip, lbf",
+    "length": "m, mm, ft, in",
+    "displacement": "mm, m, in",
+    "moment": "kN*m, kN*mm, kip*ft, kip*in",
+    "distributed": "kN/m, N/mm, klf, plf",
+    "stress": "MPa, N/mm^2, ksi, psf",
 }
 
 
@@ -89,10 +143,27 @@ class UnitSystem:
 
     force: str = "kN"
     length: str = "m"
+    #: output units named for other quantities, as (quantity, unit) pairs in the order of
+    #: :data:`OUTPUT_QUANTITIES`; bare numbers are still read in force and length units
+    named: tuple[tuple[str, str], ...] = ()
 
     @property
     def moment(self) -> str:
-        return f"{self.force}*{self.length}"
+        """The moment unit of the output: named, or force*length."""
+        return self.output_unit("moment") or f"{self.force}*{self.length}"
+
+    def output_unit(self, quantity: str) -> str | None:
+        """The unit named for ``quantity`` ("displacement", "moment"...), or None."""
+        return dict(self.named).get(quantity)
+
+    def with_units(self, **units: str) -> UnitSystem:
+        """This system with the given units replaced: ``force``, ``length`` and the keys of
+        :data:`OUTPUT_QUANTITIES` (each already checked, see :func:`check_output_unit`)."""
+        force = units.pop("force", self.force)
+        length = units.pop("length", self.length)
+        merged = {**dict(self.named), **units}
+        return UnitSystem(force, length, tuple((q, merged[q]) for q in OUTPUT_QUANTITIES
+                                               if q in merged))
 
     def factor(self, dimension: str) -> float:
         """SI value of one case unit of ``dimension`` (e.g. kN*m -> 1000.0)."""
@@ -149,20 +220,35 @@ def _length_si(unit: str) -> float:
 
 
 def check_unit(unit: str, kind: str) -> None:
-    """Raise ValueError unless ``unit`` is a unit of ``kind`` ('force' or 'length')."""
+    """Raise ValueError unless ``unit`` is a unit of ``kind`` ('force', 'length' or a key of
+    :data:`OUTPUT_QUANTITIES`)."""
     reg = ureg()
     shown = f"'{literal(unit, ECHO_LIMIT)}'"
+    first = _UNIT_EXAMPLES[kind].split(",")[0]
     try:
         parse_quantity(unit)  # the same steps as the unit parser below, checked
         q = reg.Quantity(1.0, unit)
     except QuantityError as exc:
         raise ValueError(f"unknown unit {shown} ({exc}); expected a {kind} unit such as "
-                         f"{'kN' if kind == 'force' else 'm'}") from None
+                         f"{first}") from None
     except Exception:
         raise ValueError(f"unknown unit {shown}; expected a {kind} unit such as "
-                         f"{'kN' if kind == 'force' else 'm'}") from None
+                         f"{first}") from None
     if not q.check(_PINT_DIM[kind]):
-        raise ValueError(f"{shown} is not a {kind} unit (e.g. {'kN, N, lbf' if kind == 'force' else 'm, mm, ft'})")
+        raise ValueError(f"{shown} is not a {kind} unit (e.g. {_UNIT_EXAMPLES[kind]})")
+
+
+def check_output_unit(unit: str, quantity: str) -> None:
+    """Raise ValueError unless ``unit`` is a unit of the output quantity ``quantity``."""
+    check_unit(unit, quantity)
+
+
+@lru_cache(maxsize=64)
+def unit_si(unit: str, quantity: str) -> float:
+    """SI value (N, m, N*m, N/m, Pa) of one ``unit`` of an output ``quantity``."""
+    f, l = OUTPUT_QUANTITIES.get(quantity) or {"force": (1, 0), "length": (0, 1)}[quantity]
+    reg = ureg()
+    return float(reg.Quantity(1.0, unit).to(reg.newton ** f * reg.meter ** l).magnitude)
 
 
 _EXAMPLES = {

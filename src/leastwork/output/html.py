@@ -201,8 +201,11 @@ def summary_grids(sol, cases: list[str]) -> list[Grid]:
 def _inputs(sol) -> str:
     st = sol.structure
     lu = st.units.length
-    out = [f"<p>Units of the case: forces in {_e(st.units.force)}, lengths in {_e(lu)}; "
-           "every number below is in these units.</p>"]
+    q = quantities(sol.units)
+    named = "".join(f", {k}s in {_e(q.unit(k))}" for k in ("displacement", "moment")
+                    if q.named(k))
+    out = [f"<p>Units of the case: forces in {_e(st.units.force)}, lengths in {_e(lu)}"
+           f"{named}; every number below is in these units.</p>"]
     lf = quantities(st.units).factor("length")
     rows = tuple((n.id, n.x / lf, n.y / lf,
                   "yes" if n.id in st.supports else "-") for n in st.nodes.values())

@@ -64,8 +64,7 @@ def solution_to_dict(sol) -> dict:
     out = {
         "schema": SCHEMA,
         "name": st.name,
-        "units": {"force": u.force, "length": u.length, "moment": f"{u.force}*{u.length}",
-                  "rotation": "rad"},
+        "units": quantities(u).table(),
         "indeterminacy": {"degree": topo.degree, "external": topo.external,
                           "internal": topo.internal, "stable": topo.stable},
         "redundants": sol.redundant_names,

@@ -3,16 +3,20 @@ of a basic force or redundant by its column kind, and the unit texts.
 
 Inside, every number is SI (N, m, rad). An output divides a value by the factor of its
 quantity in the :class:`~leastwork.model.units.UnitSystem` it reports in (the case's, or
-``--units``). A factor is ``F**f * L**l``, with F and L the SI values of one force and one
-length unit, computed as :meth:`UnitSystem.factor` does, so that every output turns a
-value into the same float.
+``--units``). A quantity the units do not name (displacement, moment, distributed, stress)
+has the factor ``F**f * L**l``, with F and L the SI values of one force and one length
+unit, computed as :meth:`UnitSystem.factor` does, so that every output turns a value into
+the same float; a named one has the SI value of its own unit. A ratio of two quantities (a
+flexibility coefficient: displacement per force) is :meth:`Quantities.ratio`; a combination
+no unit names (EI, a spring stiffness) stays in force and length units
+(:meth:`Quantities.convert`, :meth:`Quantities.label`).
 """
 
 from __future__ import annotations
 
 from functools import lru_cache
 
-from ..model.units import UnitSystem
+from ..model.units import UnitSystem, unit_si
 
 __all__ = ["QUANTITIES", "Quantities", "quantities"]
 
@@ -41,10 +45,33 @@ class Quantities:
         """SI value of one output unit of force^f · length^l."""
         return self.F ** f * self.L ** l
 
+    def named(self, quantity: str) -> str | None:
+        """The unit the case or ``--units`` named for ``quantity``, or None."""
+        return self.units.output_unit(quantity)
+
     def factor(self, quantity: str) -> float:
         """SI value of one output unit of ``quantity`` (a key of ``QUANTITIES``; 1.0 for a
         rotation, reported in rad)."""
+        unit = self.named(quantity)
+        if unit is not None:
+            return unit_si(unit, quantity)
         return self.power(*QUANTITIES[quantity])
+
+    def ratio(self, top: str, bottom: str) -> tuple[float, str]:
+        """SI value and text of one output unit of ``top`` per ``bottom`` (quantities, e.g.
+        a flexibility coefficient "displacement" per "force": m/kN, or mm/kN when the
+        displacement unit is named)."""
+        if self.named(top) is None and self.named(bottom) is None and "rotation" not in (
+                top, bottom):
+            (f1, l1), (f2, l2) = QUANTITIES[top], QUANTITIES[bottom]
+            return self.power(f1 - f2, l1 - l2), self.label(f1 - f2, l1 - l2)
+        factor, num, per = self.factor(top) / self.factor(bottom), self.unit(top), self.unit(bottom)
+        if num == per:
+            return factor, "-"
+        if num.startswith(f"{per}*"):  # kip*ft per kip: ft
+            return factor, num[len(per) + 1:]
+        per = f"({per})" if any(c in per for c in "*/") else per
+        return factor, f"{num}/{per}"
 
     def convert(self, value, f: int, l: int):
         """An SI value (or array) of force^f · length^l in the output units."""
@@ -101,11 +128,33 @@ class Quantities:
 
     @property
     def moment_unit(self) -> str:
-        return self.label(1, 1)
+        return self.unit("moment")
+
+    @property
+    def displacement_unit(self) -> str:
+        return self.unit("displacement")
+
+    @property
+    def distributed_unit(self) -> str:
+        return self.unit("distributed")
+
+    @property
+    def stress_unit(self) -> str:
+        return self.unit("stress")
 
     def unit(self, quantity: str) -> str:
-        """Unit text of ``quantity``: "kN", "m", "kN*m", "rad", "kN/m", "kN/m^2"..."""
-        return "rad" if quantity == "rotation" else self.label(*QUANTITIES[quantity])
+        """Unit text of ``quantity``: "kN", "m", "kN*m", "rad", "kN/m", "kN/m^2"..., or the
+        unit named for it, as written."""
+        if quantity == "rotation":
+            return "rad"
+        return self.named(quantity) or self.label(*QUANTITIES[quantity])
+
+    def table(self) -> dict[str, str]:
+        """Every output unit by quantity (the JSON result's ``units``)."""
+        return {"force": self.force_unit, "length": self.length_unit,
+                "moment": self.moment_unit, "rotation": "rad",
+                "displacement": self.displacement_unit, "distributed": self.distributed_unit,
+                "stress": self.stress_unit}
 
     def label(self, f: int, l: int) -> str:
         """Unit text of force^f · length^l: "kN*m^2", "m/kN", "1/(kN*m)", "-" for none."""

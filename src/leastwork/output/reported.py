@@ -76,7 +76,8 @@ def _members(sol, res) -> dict[str, dict]:
     deflection, in the output units."""
     st, topo = sol.structure, sol.topology
     r = _RoundOff(sol, res)
-    Lf = quantities(sol.units).factor("length")
+    q = quantities(sol.units)
+    Lf, Df = q.factor("length"), q.factor("displacement")
     out = {}
     for mid, mr in res.members.items():
         out[mid] = {
@@ -88,14 +89,14 @@ def _members(sol, res) -> dict[str, dict]:
         }
         if st.members[mid].is_beam:
             w, at = deflection_extreme(st, topo, res, mid)
-            out[mid]["deflection_max"] = {"value": number(w / Lf), "at": number(at / Lf)}
+            out[mid]["deflection_max"] = {"value": number(w / Df), "at": number(at / Lf)}
     return out
 
 
 def _displacements(sol, res) -> dict[str, float | None]:
-    """The displacements asked for: lengths in the output unit, rotations in rad; those
-    within round-off of the case's largest nodal movement (rotation) as zero."""
-    Lf = quantities(sol.units).factor("length")
+    """The displacements asked for: translations in the output displacement unit, rotations
+    in rad; those within round-off of the case's largest nodal movement (rotation) as zero."""
+    Lf = quantities(sol.units).factor("displacement")
     moved = np.abs(res.nodal_displacements)
     rot = np.array([d.endswith(".rz") for d in sol.topology.dofs], dtype=bool)
     u_tol = ROUND_OFF * float(np.max(moved[~rot], initial=0.0))

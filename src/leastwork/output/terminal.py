@@ -195,7 +195,8 @@ def _redundants_table(sol, res) -> Table | None:
 
 def _reactions_table(sol, numbers) -> Table:
     """The support reactions, component by component."""
-    fu, mu = sol.units.force, sol.units.moment
+    q = quantities(sol.units)
+    fu, mu = q.force_unit, q.moment_unit
     t = Table(title="Reactions (force the support applies to the structure)",
               header_style="bold")
     t.add_column("support")
@@ -211,7 +212,8 @@ def _reactions_table(sol, numbers) -> Table:
 
 def _member_end_table(sol, numbers) -> Table:
     """The section forces n, v, m at both ends of every member."""
-    fu, mu = sol.units.force, sol.units.moment
+    q = quantities(sol.units)
+    fu, mu = q.force_unit, q.moment_unit
     t = Table(title="Member end forces (section forces: n tension +, m sagging +, v = dm/dx)",
               header_style="bold")
     t.add_column("member")
@@ -219,7 +221,7 @@ def _member_end_table(sol, numbers) -> Table:
               f"v end [{fu}]", f"m end [{mu}]"):
         t.add_column(user_text(h), justify="right")
     for mid, mj in numbers.members.items():
-        t.add_row(user_text(mid), *[_g(mj[e][q]) for e in ("start", "end") for q in "nvm"])
+        t.add_row(user_text(mid), *[_g(mj[e][c]) for e in ("start", "end") for c in "nvm"])
     return t
 
 
@@ -229,7 +231,8 @@ def _beam_extremes_table(sol, res, numbers) -> Table | None:
     beams = [mid for mid in res.members if sol.structure.members[mid].is_beam]
     if not beams:
         return None
-    mu, lu = sol.units.moment, sol.units.length
+    q = quantities(sol.units)
+    mu, lu, du = q.moment_unit, q.length_unit, q.displacement_unit
     t = Table(title="Bending moment extremes and largest deflection along beams",
               header_style="bold")
     t.add_column("beam")
@@ -237,7 +240,7 @@ def _beam_extremes_table(sol, res, numbers) -> Table | None:
     t.add_column(user_text(f"at [{lu}]"), justify="right")
     t.add_column(user_text(f"m min [{mu}]"), justify="right")
     t.add_column(user_text(f"at [{lu}]"), justify="right")
-    t.add_column(user_text(f"deflection [{lu}]"), justify="right")
+    t.add_column(user_text(f"deflection [{du}]"), justify="right")
     t.add_column(user_text(f"at [{lu}]"), justify="right")
     for mid in beams:  # as the JSON gives them (deflection found once)
         mj = numbers.members[mid]
@@ -252,7 +255,7 @@ def _displacements_table(sol, res, numbers) -> Table | None:
     """The displacements asked for (None when none were)."""
     if not res.displacements:
         return None
-    lu = sol.units.length
+    lu = quantities(sol.units).displacement_unit
     t = Table(title="Displacements (global; rotations counter-clockwise +)",
               header_style="bold")
     t.add_column("where")
@@ -359,7 +362,8 @@ def _governing_table(sol, res) -> Table:
     named."""
     q = quantities(sol.units)
     Ff, Lf, Mf = q.factor("force"), q.factor("length"), q.factor("moment")
-    fu, mu, lu = sol.units.force, f"{sol.units.force}*{sol.units.length}", sol.units.length
+    Df, du = q.factor("displacement"), q.displacement_unit
+    fu, mu, lu = q.force_unit, q.moment_unit, q.length_unit
     lmax = max((sol.structure.length(m) for m in sol.structure.members), default=1.0)
     f_tol = ROUND_OFF * res.equilibrium_scale
     t = Table(title="Governing values (largest magnitude)", header_style="bold",
@@ -370,7 +374,7 @@ def _governing_table(sol, res) -> Table:
     for g in governing_values(sol, res):
         kind, _, d = g.quantity.partition(" ")
         if kind == "displacement":
-            f, un, tol = (1.0, "rad", 0.0) if d == "rz" else (Lf, lu, 0.0)
+            f, un, tol = (1.0, "rad", 0.0) if d == "rz" else (Df, du, 0.0)
             label, where = f"joint displacement {d}", f"joint {g.where}"
         elif kind == "reaction":
             f, un, tol = (Mf, mu, f_tol * lmax) if d == "rz" else (Ff, fu, f_tol)
@@ -387,8 +391,8 @@ def _governing_table(sol, res) -> Table:
     if len(res.displacements) <= NAMES_SHOWN:
         for k, v in res.displacements.items():
             rot = k.endswith(".rz")
-            t.add_row("displacement asked for", _g(v if rot else v / Lf),
-                      user_text("rad" if rot else lu), user_text(k), "")
+            t.add_row("displacement asked for", _g(v if rot else v / Df),
+                      user_text("rad" if rot else du), user_text(k), "")
     return t
 
 

@@ -495,10 +495,10 @@ def _change_warnings(sol, member: str, target: str, change: float) -> tuple[str,
     if not abs(change) > SMALL_CHANGE_FRACTION * L:
         return ()
     q = quantities(sol.units)
-    lu = q.length_unit
+    du, lu = q.displacement_unit, q.length_unit
     how = "longer" if change > 0 else "shorter"
     m_name = literal(member, ECHO_LIMIT)
-    return (f"making {m_name} {q.to_output(abs(change), 'length'):.4g} {lu} {how} "
+    return (f"making {m_name} {q.to_output(abs(change), 'displacement'):.4g} {du} {how} "
             f"({100 * abs(change) / L:.3g}% of its length, {q.to_output(L, 'length'):.4g} "
             f"{lu}) is outside "
             "the small-displacement range this analysis assumes (length changes up to "
@@ -515,9 +515,10 @@ def _num(x: float) -> float:
 
 def study_to_dict(study: FitupStudy, units: UnitSystem) -> dict:
     """The JSON of ``leastwork fitup`` (see docs/studies.md), in the report units: forces in
-    the force unit, moments in force*length, tolerances and patterns in the length unit."""
+    the force unit, moments in the moment unit, tolerances and patterns (length errors) in
+    the displacement unit."""
     uq = quantities(units)
-    Lf = uq.factor("length")
+    Lf = uq.factor("displacement")
     members = list(study.tolerances)
     rep = study.quantities
     out: dict = {
@@ -552,9 +553,10 @@ def study_to_dict(study: FitupStudy, units: UnitSystem) -> dict:
 
 
 def adjustment_to_dict(adj: Adjustment, units: UnitSystem) -> dict:
-    """The ``"adjust"`` entry of the JSON, in the report units."""
+    """The ``"adjust"`` entry of the JSON, in the report units (the length change in the
+    displacement unit, the force per displacement unit of length change)."""
     uq = quantities(units)
-    Ff, Lf = uq.factor("force"), uq.factor("length")
+    Ff, Lf = uq.factor("force"), uq.factor("displacement")
     top = max([abs(v) for v in (*adj.before.values(), *adj.after.values())] + [0.0])
 
     def force(v: float) -> float:
@@ -576,4 +578,5 @@ def adjustment_to_dict(adj: Adjustment, units: UnitSystem) -> dict:
 def unit_texts(units: UnitSystem) -> dict:
     """The unit texts of the JSON (:mod:`leastwork.output.quantities`)."""
     uq = quantities(units)
-    return {"force": uq.force_unit, "length": uq.length_unit, "moment": uq.moment_unit}
+    return {"force": uq.force_unit, "length": uq.length_unit, "moment": uq.moment_unit,
+            "displacement": uq.displacement_unit}

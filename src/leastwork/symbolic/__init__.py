@@ -274,8 +274,11 @@ def _solve(text: str, source: str, redundants, extra: tuple[str, ...], expand_de
     params = dict(model.parameters)
     return SymbolicSolution(
         name=st.name, source=source,
+        # closed forms stay in the case's force and length units, whatever output units
+        # the case names for displacements or moments (docs/json-result.md)
         units={"force": st.units.force, "length": st.units.length,
-               "moment": f"{st.units.force}*{st.units.length}", "rotation": "rad"},
+               "moment": f"{st.units.force}*{st.units.length}", "rotation": "rad",
+               "displacement": st.units.length},
         parameters=params,
         values={sym: float(model.values[sym]) for sym in params.values()},
         exact_values={sym: model.values[sym] for sym in params.values()},

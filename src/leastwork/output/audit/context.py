@@ -52,6 +52,9 @@ class Context:
         self.s0 = {k: self.denoise(r.s0[:, None])[:, 0] for k, r in sol.cases.items()}
         self.xdim = [self.u.column_dims(c) for c in self.rcols]
         self.ddim = [self.u.conjugate_dims(c) for c in self.rcols]
+        #: quantity of each redundant ("force", "moment") and of its conjugate displacement
+        self.xq = [self.u.column_quantity(c) for c in self.rcols]
+        self.dq = [self.u.conjugate_quantity(c) for c in self.rcols]
         self.sources: dict[str, dict] = {}  #: load-term contributions per case (contributions.py)
         self._numbers: dict[str, CaseNumbers] = {}
 
@@ -78,7 +81,7 @@ class Context:
         return f"X{i + 1}"
 
     def unit_of_x(self, i: int) -> str:
-        return self.u.label(*self.xdim[i])
+        return self.u.unit(self.xq[i])
 
     def delta_dim(self, i: int, j: int) -> tuple[int, int]:
         """(force, length) exponents of delta_ij: displacement at i per unit X_j."""
@@ -86,22 +89,19 @@ class Context:
 
     def unit_state(self, k: int, i: int) -> float:
         """Force in column k per unit X_i, in output units."""
-        f, l = self.u.column_dims(self.cols[k])
-        return self.u.convert(self.B[k, i], f - self.xdim[i][0], l - self.xdim[i][1])
+        factor, _ = self.u.ratio(self.u.column_quantity(self.cols[k]), self.xq[i])
+        return self.B[k, i] / factor
 
     def delta_label(self, i: int, j: int) -> str:
         """Unit of delta_ij: displacement (or rotation) at i per unit X_j."""
-        if self.ddim[i] != (0, 0):
-            return self.u.label(*self.delta_dim(i, j))
-        per = self.u.label(*self.xdim[j])
-        return f"rad/({per})" if "*" in per else f"rad/{per}"
+        return self.u.ratio(self.dq[i], self.xq[j])[1]
 
     def load_label(self, i: int) -> str:
         """Unit of the load term delta_i0 (the displacement at redundant i)."""
-        return "rad" if self.ddim[i] == (0, 0) else self.u.length_unit
+        return self.u.unit(self.dq[i])
 
     def delta_case(self, value_si: float, i: int, j: int) -> float:
-        return self.u.convert(value_si, *self.delta_dim(i, j))
+        return value_si / self.u.ratio(self.dq[i], self.xq[j])[0]
 
     def load_term_case(self, value_si: float, i: int) -> float:
-        return self.u.convert(value_si, *self.ddim[i])
+        return self.u.to_output(value_si, self.dq[i])

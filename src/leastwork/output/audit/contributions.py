@@ -61,21 +61,21 @@ def displacement_contributions(ctx: Context, case: str, s_u: np.ndarray,
     virtual work on each energy term, each initial deformation and each settlement; zero
     contributions are left out."""
     res = ctx.sol.cases[case]
-    u = ctx.u
+    unit = ctx.u.factor("rotation" if dim == (0, 0) else "displacement")
     s_final = ctx.denoise(res.s[:, None])[:, 0]
     rows = []
     for t in ctx.terms:
         cols = list(t.columns)
-        v = u.convert(float(s_u[cols] @ t.block @ s_final[cols]), *dim)
+        v = float(s_u[cols] @ t.block @ s_final[cols]) / unit
         if v != 0.0:
             rows.append((t.owner, t.term, v))
     for d in ctx.deformations(case):
-        v = u.convert(s_u[d.column] * d.value, *dim)
+        v = s_u[d.column] * d.value / unit
         if v != 0.0:
             rows.append((d.owner, d.effect, v))
     c = res.loading.settlement
     for j in np.flatnonzero(c):
-        v = u.convert(-s_u[j] * c[j], *dim)
+        v = -s_u[j] * c[j] / unit
         if v != 0.0:
             rows.append((ctx.cols[j].name, "settlement", v))
     return rows

@@ -30,10 +30,10 @@ def step_displacements(ctx: Context) -> Step:
         defl = [(mid, mj["deflection_max"]["value"], mj["deflection_max"]["at"])
                 for mid, mj in numbers.members.items() if "deflection_max" in mj]
         if defl:
-            lu = ctx.u.length_unit
+            lu, du = ctx.u.length_unit, ctx.u.displacement_unit
             blocks.append(Grid(f"Load case {case}: largest deflection along each beam "
                                "(perpendicular to the beam)",
-                               ("beam", f"deflection [{lu}]", f"at [{lu}]"), tuple(defl)))
+                               ("beam", f"deflection [{du}]", f"at [{lu}]"), tuple(defl)))
     if not any_target:
         blocks.append(Para("No displacements were asked for ([analysis] displacements "
                            "or --at)."))
@@ -44,7 +44,7 @@ def _displacement(ctx: Context, case: str, target: str, value) -> Para | Grid:
     """The contributions to displacement ``target`` of load case ``case`` summing to
     ``value`` (as reported); a point inside a member gets its total only."""
     s_u, dim = _virtual_state(ctx.st, ctx.topo, ctx.sol.cases[case], target)
-    lab = "rad" if dim == (0, 0) else ctx.u.length_unit
+    lab = "rad" if dim == (0, 0) else ctx.u.displacement_unit
     if s_u is None:
         return Para(f"Load case {case}: {target} = {fmt(value)} {lab} (a point inside a "
                     "member: the unit load's own span field is included; see the total).")

@@ -52,7 +52,7 @@ def _unit_fields(ctx: Context, m, i: int) -> dict:
 def _unit_axial(ctx: Context, pairs) -> Grid:
     st, u, nr = ctx.st, ctx.u, ctx.nred
     heads = ["member", f"L [{u.length_unit}]", f"EA [{u.force_unit}]"]
-    heads += [f"n{i + 1} [{u.label(1 - ctx.xdim[i][0], -ctx.xdim[i][1])}]" for i in range(nr)]
+    heads += [f"n{i + 1} [{u.ratio('force', ctx.xq[i])[1]}]" for i in range(nr)]
     heads += [f"n{i + 1}·n{j + 1}·L/EA [{ctx.delta_label(i, j)}]" for i, j in pairs]
     rows, tot = [], np.zeros(len(pairs))
     axial_terms = {t.owner: t for t in ctx.terms if t.term == "axial"}
@@ -77,13 +77,11 @@ def _unit_moments(ctx: Context) -> Grid:
         polys = []
         for i in range(nr):
             moment = _unit_fields(ctx, m, i)["m"]
-            coef = scaled_poly([*moment, 0.0][:2], u.L, u.F ** (
-                1 - ctx.xdim[i][0]) * u.L ** (1 - ctx.xdim[i][1]))
+            coef = scaled_poly([*moment, 0.0][:2], u.L, u.ratio("moment", ctx.xq[i])[0])
             polys.append(poly_text(coef))
         rows.append((m.id, u.convert(L, 0, 1), u.convert(m.EI, 1, 2), *polys))
     heads = ["beam", f"L [{u.length_unit}]", f"EI [{u.label(1, 2)}]"]
-    heads += [f"m{i + 1}(x) [{u.label(1 - ctx.xdim[i][0], 1 - ctx.xdim[i][1])}]"
-              for i in range(nr)]
+    heads += [f"m{i + 1}(x) [{u.ratio('moment', ctx.xq[i])[1]}]" for i in range(nr)]
     return Grid(f"Bending moments of the released structure per unit redundant (x from the "
                 f"start node, in {u.length_unit})", tuple(heads), tuple(rows))
 
@@ -131,7 +129,7 @@ def _moments_under_loads(ctx: Context, case: str) -> Grid:
     st, topo, u, nr = ctx.st, ctx.topo, ctx.u, ctx.nred
     res = ctx.sol.cases[case]
     heads = ["beam", f"from [{u.length_unit}]", f"to [{u.length_unit}]",
-             f"M0(x) [{u.label(1, 1)}]"]
+             f"M0(x) [{u.moment_unit}]"]
     heads += [f"∫ M0·m{i + 1} dx/EI [{ctx.load_label(i)}]" for i in range(nr)]
     rows, tot = [], np.zeros(nr)
     for m in (m for m in st.members.values() if has_bending(m)):
@@ -147,7 +145,7 @@ def _moments_under_loads(ctx: Context, case: str) -> Grid:
                 vals.append(ctx.load_term_case(f / EI, i))
             tot += vals
             rows.append((m.id, u.convert(a, 0, 1), u.convert(b, 0, 1),
-                         poly_text(scaled_poly(coef, u.L, u.F * u.L)), *vals))
+                         poly_text(scaled_poly(coef, u.L, u.factor("moment"))), *vals))
     return Grid(f"Load case {case}: bending moments of the released structure under the "
                 f"loads (x from the start node, in {u.length_unit})", tuple(heads),
                 tuple(rows), total=("total", "", "", "", *tot) if nr else None)

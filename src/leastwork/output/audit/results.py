@@ -57,7 +57,7 @@ def _redundants(ctx: Context, case: str) -> Grid:
         X = _unknowns(ctx, case)
         return Grid(f"Load case {case}: amplitudes of the states and the redundants they "
                     "close", ("X", "closes", "amplitude", "redundant force", "unit"),
-                    tuple((ctx.x_label(i), c.name, ctx.u.convert(X[i], *ctx.xdim[i]),
+                    tuple((ctx.x_label(i), c.name, ctx.u.to_output(X[i], ctx.xq[i]),
                            values[c.name], ctx.unit_of_x(i))
                           for i, c in enumerate(ctx.rcols)))
     return Grid(f"Load case {case}: the redundants", ("X", "redundant", "value", "unit"),
@@ -73,10 +73,9 @@ def _superposition(ctx: Context, case: str) -> Grid:
     heads += [f"X{i + 1}·(state {i + 1})" for i in range(ctx.nred)] + ["final"]
     rows = []
     for k, c in enumerate(ctx.cols):
-        f, l = u.column_dims(c)
-        parts = [u.convert(X[i] * ctx.B[k, i], f, l) for i in range(ctx.nred)]
-        rows.append((c.name, u.label(f, l), u.convert(ctx.s0[res.name][k], f, l), *parts,
-                     u.convert(res.s[k], f, l)))
+        parts = [u.column(X[i] * ctx.B[k, i], c) for i in range(ctx.nred)]
+        rows.append((c.name, u.column_unit(c), u.column(ctx.s0[res.name][k], c), *parts,
+                     u.column(res.s[k], c)))
     return Grid(f"Load case {case}: superposition of the basic forces", tuple(heads),
                 tuple(rows), keys=2)
 

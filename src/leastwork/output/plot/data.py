@@ -130,12 +130,12 @@ def diagram_amplitude(st: Structure) -> float:
 
 
 def deflection_scale(sol, case: str, samples: int = 81) -> tuple[float, float, str]:
-    """(magnification, largest displacement in case length units, where it is) of the
+    """(magnification, largest displacement in the output displacement unit, where it is) of the
     deflected shape of ``case``: the magnification is a 1-2-5 number chosen so that the
     largest displacement is drawn at most :data:`DEFLECTION_SHARE` (and at least half of
     it) of the structure size."""
     factor, umax, where, _ = deflection(sol, sol.cases[case_names(sol, case)[0]], samples)
-    return factor, umax / case_units(sol.structure)["length"][0], where
+    return factor, umax / case_units(sol.structure)["displacement"][0], where
 
 
 def deflection(sol, res, samples: int):

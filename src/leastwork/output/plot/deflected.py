@@ -17,7 +17,7 @@ def deflected_panel(pn: Panel, sol, case: str) -> tuple[str, str]:
     """The deflected shape of load case ``case``: (title, note)."""
     st = sol.structure
     res = sol.cases[case]
-    lf, lu = case_units(st)["length"]
+    lf, lu = case_units(st)["displacement"]
     factor, umax, where, shapes = deflection(sol, res, 81)
     umax /= lf
     draw_members(pn, st, faint=True)

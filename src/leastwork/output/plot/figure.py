@@ -111,7 +111,9 @@ def _arrange(fig, gs, panels, st: Structure, ncols: int, w: float, heights: np.n
     nrows = len(heights)
     title_h = title_lines * 7.0 * 1.25 / 72 + 0.12
     uf = case_units(st)
-    sub = (f"lengths in {uf['length'][1]}, forces in {uf['force'][1]}, moments in "
+    moved = ("" if uf["displacement"][1] == uf["length"][1]
+             else f", displacements in {uf['displacement'][1]}")
+    sub = (f"lengths in {uf['length'][1]}{moved}, forces in {uf['force'][1]}, moments in "
            f"{uf['moment'][1]}; sign conventions as in the panel notes")
     if thinned:
         sub += "; v and m are zero (every member is a pin-ended bar)"

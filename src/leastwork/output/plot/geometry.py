@@ -35,12 +35,12 @@ def structure_size(st: Structure) -> float:
 
 
 def case_units(st: Structure) -> dict[str, tuple[float, str]]:
-    """(SI value of one case unit, its name) of force, length and moment (the factors of
-    :mod:`leastwork.output.quantities`; the moment unit written with a middle dot)."""
+    """(SI value of one output unit, its name) of force, length, moment, displacement and
+    distributed load (the factors of :mod:`leastwork.output.quantities`; products written
+    with a middle dot)."""
     q = quantities(st.units)
-    return {"force": (q.factor("force"), q.force_unit),
-            "length": (q.factor("length"), q.length_unit),
-            "moment": (q.factor("moment"), f"{q.force_unit}·{q.length_unit}")}
+    return {k: (q.factor(k), q.unit(k).replace("*", "·"))
+            for k in ("force", "length", "moment", "displacement", "distributed")}
 
 
 def xy(st: Structure, node: str) -> np.ndarray:

@@ -106,8 +106,7 @@ def _distributed(sk: LoadSketch, ld: DistributedLoad) -> None:
     """A row of arrows on the loaded length with a line along their tails, on the side the
     load comes from, further out for each earlier span load on the member."""
     pn, st, la = sk.pn, sk.st, sk.la
-    ff, fu = sk.uf["force"]
-    lf, lu = sk.uf["length"]
+    wf, wu = sk.uf["distributed"]
     o, ex, ey = member_axes(st, ld.member)
     L = st.length(ld.member)
     a, b = ld.start, (L if math.isnan(ld.end) else ld.end)
@@ -134,7 +133,7 @@ def _distributed(sk: LoadSketch, ld: DistributedLoad) -> None:
         if np.hypot(*w) > 0.05:
             pn.arrow(tail, tip, color=LOAD, lw=0.6, head=0.35 * pn.h)
     pn.line(tails, color=LOAD, lw=0.8, z=5)
-    parts = [_range_text(nm, pr, ff / lf, f"{fu}/{lu}")
+    parts = [_range_text(nm, pr, wf, wu)
              for nm, pr in (("wx", ld.wx), ("wy", ld.wy)) if any(pr)]
     mid = len(tails) // 2
     pn.label(tails[mid], ", ".join(parts), direction=out, color=LOAD, must=True)
@@ -164,7 +163,7 @@ def _temperature(sk: LoadSketch, ld: TemperatureLoad) -> None:
 def _misfit(sk: LoadSketch, ld: Misfit) -> None:
     """Two strokes across the member with the length error."""
     pn, st = sk.pn, sk.st
-    lf, lu = sk.uf["length"]
+    lf, lu = sk.uf["displacement"]
     o, ex, ey = member_axes(st, ld.member)
     c = o + ex * 0.3 * st.length(ld.member)  # clear of a cut at mid-length
     for s in (-0.18, 0.18):
@@ -178,7 +177,7 @@ def _misfit(sk: LoadSketch, ld: Misfit) -> None:
 def _settlement(sk: LoadSketch, ld: Settlement) -> None:
     """An arrow (or a turning arrow) beside the support for each imposed component."""
     pn, st = sk.pn, sk.st
-    lf, lu = sk.uf["length"]
+    lf, lu = sk.uf["displacement"]
     p = xy(st, ld.node)
     side = -perp(support_side(st, st.supports[ld.node]))
     base = p + side * 2.2 * pn.h
