@@ -174,8 +174,55 @@ def _print_load_case(console: Console, sol, name: str) -> None:
                   _member_end_table(sol, numbers), _beam_extremes_table(sol, res, numbers),
                   _displacements_table(sol, res, numbers)):
         if table is not None:
-            console.print(table)
+            print_fitted(console, table)
     _print_checks(console, res, Ff, fu)
+
+
+def _cell_width(cell) -> int:
+    return len(cell.plain) if isinstance(cell, Text) else len(str(cell))
+
+
+def print_fitted(console: Console, table: Table) -> None:
+    """Print ``table`` whole when it fits the console; otherwise as parts with the first
+    column repeated, each part as wide as the console allows, so that no number is ever
+    cut short. A header may wrap at its spaces; a cell never does (a number alone wider
+    than the console folds onto the next line rather than lose digits)."""
+    cols = table.columns
+    width, natural = [], []
+    for c in cols:
+        header = str(c.header.plain if isinstance(c.header, Text) else c.header)
+        cells = max([_cell_width(x) for x in c._cells] + [1])
+        natural.append(max(cells, len(header)) + 3)  # padding either side and a rule
+        need = max([cells] + [len(w) for w in header.split()])
+        c.overflow = "fold"
+        width.append(need + 3)
+    if sum(natural) + 1 <= console.width:
+        console.print(table)
+        return
+    for c, w in zip(cols, width, strict=True):
+        c.width = w - 3  # headers wrap at their spaces; cells are never narrower
+    if sum(width) + 1 <= console.width or len(cols) <= 2:
+        console.print(table)
+        return
+    groups: list[list[int]] = []
+    for k in range(1, len(cols)):
+        if groups and width[0] + sum(width[j] for j in groups[-1]) + width[k] + 1 \
+                <= console.width:
+            groups[-1].append(k)
+        else:
+            groups.append([k])
+    title = table.title.plain if isinstance(table.title, Text) else str(table.title or "")
+    for n, group in enumerate(groups, 1):
+        short = title if n == 1 else title.split(" (")[0]
+        part = Table(title=user_text(f"{short} (part {n} of {len(groups)})"),
+                     header_style=table.header_style)
+        for k in (0, *group):
+            c = cols[k]
+            part.add_column(c.header, justify=c.justify, overflow=c.overflow,
+                            width=c.width)
+        for r in range(table.row_count):
+            part.add_row(*(cols[k]._cells[r] for k in (0, *group)))
+        console.print(part)
 
 
 def _redundants_table(sol, res) -> Table | None:
