@@ -6,8 +6,9 @@ Basic forces: the axial force ``ID.n`` and the section moments at the ends
 n = 1; m = 1 - xi, v = -1/L for the start moment; m = xi, v = 1/L for the end moment.
 Integrating them against each other gives the closed-form flexibility ``L/EA``,
 ``L/(3EI)`` on the diagonal and ``L/(6EI)`` off it, and ``1/(L GAs)`` times
-[[1, -1], [-1, 1]] for shear; a temperature gradient's free curvature kappa gives
-``kappa L/2`` at each end moment.
+[[1, -1], [-1, 1]] for shear; a semi-rigid joint of rotational stiffness k at an end adds
+``1/k`` to that end moment's flexibility (energy M^2/(2k)); a temperature gradient's free
+curvature kappa gives ``kappa L/2`` at each end moment.
 """
 
 from __future__ import annotations
@@ -93,6 +94,9 @@ class Beam(KindBase):
             sh = one / (L * sec.GAs)
             block = [[sh, -sh], [-sh, sh]]
             out.append(EnergyTerm("shear", cols, [[block[a][b] for b in keep] for a in keep]))
+        for col, k in zip(cols, keep, strict=True):  # semi-rigid joint: M^2/(2 k)
+            if m.end_springs[k] is not None:  # its stiffness in the pipeline's numbers
+                out.append(EnergyTerm("joint spring", (col,), [[one / sec.end_springs[k]]]))
         return out
 
     def initial_deformations(self, m, sec, L, shear: bool, integral, imposed, one):

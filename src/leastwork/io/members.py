@@ -15,7 +15,8 @@ __all__ = ["member_specs", "connected_nodes", "read_members"]
 #: (kind, id, table, end nodes) of one member as written
 MemberSpec = tuple[str, str, dict, list[str]]
 
-_BEAM_KEYS = ("nodes", "material", "section", "EI", "EA", "hinges", "description")
+_BEAM_KEYS = ("nodes", "material", "section", "EI", "EA", "hinges", "end_springs",
+              "description")
 _BAR_KEYS = ("nodes", "material", "section", "EA", "acts", "description")
 
 
@@ -91,8 +92,34 @@ def read_members(reader: CaseReader, specs: list[MemberSpec], nodes: dict[str, N
             weight=(mat["unit_weight"] * sec["A"]
                     if mat and "unit_weight" in mat and sec and "A" in sec else None),
             acts=_acts(reader, spec, where),
+            end_springs=_end_springs(reader, spec, where, hinges) if kind == "beam"
+            else (None, None),
         )
     return members
+
+
+def _end_springs(reader: CaseReader, spec: dict, where: str,
+                 hinges: list) -> tuple[float | None, float | None]:
+    """Rotational stiffness (N*m/rad) of the joint at each end of a beam: ``end_springs =
+    { start = ..., end = ... }``; an end may not be both hinged and sprung."""
+    table = spec.get("end_springs")
+    if table is None:
+        return (None, None)
+    key = where + ".end_springs"
+    if not isinstance(table, dict) or not table:
+        raise reader.err(key, 'expected { start = "5000 kN*m/rad", end = "5000 kN*m/rad" } '
+                         f"(either end or both), got {kind_of(table)}")
+    reader.keys_known(key, table, ("start", "end"))
+    out: list[float | None] = []
+    for end in ("start", "end"):
+        if end not in table:
+            out.append(None)
+            continue
+        if end in hinges:
+            raise reader.err(f"{key}.{end}", f"the {end} is hinged (no moment): it cannot also "
+                             "have a joint spring; give one or the other")
+        out.append(reader.positive(table[end], "rotational stiffness", f"{key}.{end}"))
+    return (out[0], out[1])
 
 
 def _acts(reader: CaseReader, spec: dict, where: str) -> str:

@@ -69,6 +69,9 @@ class Member:
     weight : float or None
         Own weight per unit length, N/m (unit weight of the material times the section
         area; ``None`` where either is not given).
+    end_springs : (float or None, float or None)
+        Rotational stiffness (N*m/rad) of a semi-rigid joint between the beam's start / end
+        and its node; None: rigidly joined (or hinged, see ``hinge_start``).
     acts : str
         "both" (default), or for a one-way bar "tension" (a tie, rod or cable: it goes
         slack rather than push) or "compression" (a strut that lifts off rather than pull).
@@ -87,6 +90,7 @@ class Member:
     hinge_end: bool = False
     weight: float | None = None
     acts: str = "both"
+    end_springs: tuple[float | None, float | None] = (None, None)
 
     @property
     def is_beam(self) -> bool:

@@ -333,6 +333,11 @@ def read_exact(st: Structure, record, *, expand_derived: bool = False) -> ExactM
                         f"({', '.join(one_way[:4])}{' ...' if len(one_way) > 4 else ''}): "
                         "which of them act depends on the numbers; solve numerically",
                         source=st.source)
+    sprung = [m.id for m in st.members.values() if any(k is not None for k in m.end_springs)]
+    if sprung:
+        raise CaseError(f"symbolic mode does not take semi-rigid joints yet (end_springs on "
+                        f"{', '.join(sprung[:4])}{' ...' if len(sprung) > 4 else ''}): solve "
+                        "numerically", source=st.source)
     for ld in st.loads:
         if getattr(ld, "written", ""):
             raise CaseError(f"symbolic mode does not take this load yet ({ld.written}): "

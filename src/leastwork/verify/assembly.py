@@ -14,7 +14,7 @@ import numpy as np
 import scipy.sparse as sp
 
 from ..model import Structure, rotational_nodes
-from .elements import condense, element, element_map, local_stiffness
+from .elements import condense, element, element_map, joint_springs, local_stiffness
 from .loads import CaseLoads, member_loading
 
 __all__ = ["dof_index", "restraint_row", "spring_data", "Assembly", "assemble"]
@@ -83,7 +83,7 @@ def assemble(st: Structure, index: dict[str, int], loads: CaseLoads) -> Assembly
         el = element(st, mid)
         ml = member_loading(st, el, loads.by_member[mid])
         k = local_stiffness(el)
-        kc, fc = condense(k, ml.f0, el.hinged)
+        kc, fc = condense(*joint_springs(k, ml.f0, el.springs), el.hinged)
         T = el.transform()
         g = element_map(el, index)
         live = g >= 0

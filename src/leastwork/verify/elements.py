@@ -8,7 +8,9 @@ counter-clockwise).
   axial energy n^2/(2 EA) and, when ``Structure.shear`` is on and GAs is given, shear energy
   v^2/(2 GAs) with unit shear factor (Timoshenko kinematics: m = EI phi', v = dm/dx =
   GAs (phi - w')). The homogeneous solution (cubic w, quadratic phi) is solved for each unit
-  end displacement; a moment hinge is removed by static condensation of that end rotation;
+  end displacement; a moment hinge is removed by static condensation of that end rotation,
+  and a semi-rigid joint (an end spring) by condensing the member-end rotation tied to the
+  node's rotation by the spring;
 * bars: axial stiffness only.
 """
 
@@ -20,7 +22,8 @@ import numpy as np
 
 from ..model import Member, Structure
 
-__all__ = ["Element", "element", "unit_fields", "local_stiffness", "condense", "element_map"]
+__all__ = ["Element", "element", "unit_fields", "local_stiffness", "condense", "element_map",
+           "joint_springs", "member_end_rotations"]
 
 
 @dataclass(frozen=True)
@@ -36,6 +39,15 @@ class Element:
     GAs: float | None  #: None: no shear deformation
     coef: np.ndarray | None  #: (4, 4) w(xi) coefficients for unit (w1, phi1, w2, phi2)
     b: float  #: 6 EI / (GAs L^2), 0 without shear
+
+    @property
+    def springs(self) -> list[tuple[int, float]]:
+        """(local index of the member-end rotation, rotational stiffness N*m/rad) of each
+        semi-rigid joint: the member end turns apart from its node's rotation."""
+        if self.EI is None:
+            return []
+        return [(i, k) for i, k in zip((2, 5), self.member.end_springs, strict=True)
+                if k is not None]
 
     @property
     def hinged(self) -> list[int]:
@@ -130,6 +142,53 @@ def condense(k: np.ndarray, f0: np.ndarray, hinged: list[int]):
     kc[np.ix_(c, c)] = k[np.ix_(c, c)] - k[np.ix_(c, h)] @ khh_inv @ k[np.ix_(h, c)]
     fc[c] = f0[c] - k[np.ix_(c, h)] @ khh_inv @ f0[h]
     return 0.5 * (kc + kc.T), fc
+
+
+def joint_springs(k: np.ndarray, f0: np.ndarray, springs: list[tuple[int, float]]):
+    """The element seen from its nodes through semi-rigid joints: each sprung member-end
+    rotation becomes an inner dof tied to the node's rotation by a spring of stiffness k_j
+    (energy k_j (phi_member - phi_node)^2 / 2) and is condensed out; the node's rotation
+    takes its local slot. Returns (k, f0) on the six local dofs with node rotations."""
+    if not springs:
+        return k, f0
+    n = 6 + len(springs)
+    K = np.zeros((n, n))
+    K[:6, :6] = k
+    f = np.zeros(n)
+    f[:6] = f0
+    for j, (i, kj) in enumerate(springs):
+        a = 6 + j
+        K[i, i] += kj
+        K[a, a] += kj
+        K[i, a] -= kj
+        K[a, i] -= kj
+    h = [i for i, _ in springs]
+    c = [x for x in range(n) if x not in h]
+    coupling = K[np.ix_(c, h)] @ np.linalg.inv(K[np.ix_(h, h)])
+    kc = K[np.ix_(c, c)] - coupling @ K[np.ix_(h, c)]
+    fc = f[c] - coupling @ f[h]
+    slot = [x if x < 6 else springs[x - 6][0] for x in c]
+    out_k = np.zeros((6, 6))
+    out_f = np.zeros(6)
+    out_k[np.ix_(slot, slot)] = kc
+    out_f[slot] = fc
+    return 0.5 * (out_k + out_k.T), out_f
+
+
+def member_end_rotations(k: np.ndarray, f0: np.ndarray, springs: list[tuple[int, float]],
+                         d: np.ndarray) -> np.ndarray:
+    """Local end displacements of the member itself from those of its nodes ``d`` (node
+    rotations in the sprung slots): each sprung member-end rotation from the balance of
+    moments at it (member end moment = spring moment)."""
+    if not springs:
+        return d
+    h = [i for i, _ in springs]
+    c = [i for i in range(6) if i not in h]
+    A = k[np.ix_(h, h)] + np.diag([kj for _, kj in springs])
+    rhs = -(k[np.ix_(h, c)] @ d[c] + f0[h]) + np.array([kj * d[i] for i, kj in springs])
+    out = d.copy()
+    out[h] = np.linalg.solve(A, rhs)
+    return out
 
 
 def element_map(el: Element, index: dict[str, int]) -> np.ndarray:

@@ -20,6 +20,7 @@ from ..errors import CaseError, MechanismError
 from ..model import Structure, reaction_components
 from .assembly import assemble, dof_index
 from .constraints import Elimination, constraint_forces, eliminate, rigid_constraints
+from .elements import member_end_rotations
 from .loads import case_loads
 
 __all__ = ["StiffnessResult", "solve_stiffness", "stiffness_dofs"]
@@ -190,7 +191,8 @@ def _end_forces(U: np.ndarray, elements: dict[str, tuple], force_of: dict[str, f
     """Section forces (n, v, m) at both ends of every member from its end displacements."""
     out = {}
     for mid, (el, k, f0, T, g) in elements.items():
-        d = T @ np.array([U[i] if i >= 0 else 0.0 for i in g])
+        d = member_end_rotations(k, f0, el.springs,
+                                 T @ np.array([U[i] if i >= 0 else 0.0 for i in g]))
         h = el.hinged
         if h:
             c = [i for i in range(6) if i not in h]

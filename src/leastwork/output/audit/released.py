@@ -28,6 +28,8 @@ def step_released(ctx: Context) -> Step:
         blocks.append(_pair_table(ctx, "bending", "∫ m{i}·m{j} dx / EI", pairs))
         if st.shear:
             blocks.append(_pair_table(ctx, "shear", "∫ v{i}·v{j} dx / GAs", pairs))
+    if nr and any(t.term == "joint spring" for t in ctx.terms):
+        blocks.append(_pair_table(ctx, "joint spring", "M{i}·M{j} / k", pairs))
     if nr and any(t.term == "spring" for t in ctx.terms):
         blocks.append(_pair_table(ctx, "spring", "r{i}·r{j} / k", pairs))
     for case in ctx.cases:
@@ -94,7 +96,8 @@ def _pair_table(ctx: Context, term: str, pattern: str, pairs) -> Grid:
     heads = ["member" if term != "spring" else "restraint"]
     heads += [pattern.format(i=i + 1, j=j + 1) + f" [{ctx.delta_label(i, j)}]"
               for i, j in pairs]
-    what = {"bending": "Bending", "shear": "Shear", "spring": "Support spring"}[term]
+    what = {"bending": "Bending", "shear": "Shear", "spring": "Support spring",
+            "joint spring": "Semi-rigid joint (end moment at the joint)"}[term]
     return Grid(f"{what} products of the unit states", tuple(heads), tuple(rows),
                 total=("total", *tot))
 
