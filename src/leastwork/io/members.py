@@ -91,8 +91,21 @@ def read_members(reader: CaseReader, specs: list[MemberSpec], nodes: dict[str, N
             weight=(mat["unit_weight"] * sec["A"]
                     if mat and "unit_weight" in mat and sec and "A" in sec else None),
             acts=_acts(reader, spec, where),
+            area=sec.get("A") if sec else None,
+            section_modulus=_section_modulus(sec),
         )
     return members
+
+
+def _section_modulus(sec: dict | None) -> float | None:
+    """Elastic section modulus (m^3): the section's S, else I / (depth / 2)."""
+    if not sec:
+        return None
+    if "S" in sec:
+        return sec["S"]
+    if "I" in sec and "depth" in sec:
+        return sec["I"] / (0.5 * sec["depth"])
+    return None
 
 
 def _acts(reader: CaseReader, spec: dict, where: str) -> str:
