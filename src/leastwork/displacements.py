@@ -239,11 +239,10 @@ def _extreme(pieces, ws, theta, xs, w) -> tuple[float, float]:
     return best, best_x
 
 
-def deflection_extreme(st: Structure, topo, res, mid: str) -> tuple[float, float]:
-    """Largest transverse (local y) displacement along a beam and its distance from the
-    start node (SI): the same deflection polynomials as :func:`member_shape`, integrated in
-    plain floats, maximised over the piece ends and the roots of the slope (exact, with no
-    sampling: a polynomial's extreme on an interval is at an end or a critical point)."""
+def _deflection_pieces(st: Structure, topo, res, mid: str):
+    """(pieces (a, b, w_rel polynomial), ws, we, theta): the transverse displacement of a
+    beam is w(x) = ws + theta x + w_rel(x), w_rel from the curvature (and shear strain) with
+    w_rel(0) = w_rel'(0) = 0, in plain floats (SI)."""
     mem = st.members[mid]
     mr = res.members[mid]
     L = mr.length
@@ -269,10 +268,15 @@ def deflection_extreme(st: Structure, topo, res, mid: str) -> tuple[float, float
             wpoly = poly_add((w0,), poly_antiderivative(slope, a))
         pieces.append((float(a), float(b), wpoly))
         slope0, w0 = poly_eval(slope, b), poly_eval(wpoly, b)
-    theta = (we - ws - w0) / L
-    best, best_x = ws, 0.0  # w at the start node
+    return pieces, ws, we, (we - ws - w0) / L
+
+
+def _largest(pieces, line: tuple, start: tuple[float, float]) -> tuple[float, float]:
+    """Largest |w_rel(x) + line(x)| over the pieces (value with its sign, x), from
+    ``start`` (value, x at the start node): piece ends and the roots of the slope."""
+    best, best_x = start
     for a, b, wpoly in pieces:
-        total = poly_add(wpoly, (ws, theta))
+        total = poly_add(wpoly, line)
         cand = [b]
         der = [i * t for i, t in enumerate(total)][1:]
         while len(der) > 1 and der[-1] == 0.0:
@@ -287,3 +291,52 @@ def deflection_extreme(st: Structure, topo, res, mid: str) -> tuple[float, float
                 if abs(val) > abs(best):
                     best, best_x = val, x
     return float(best), float(best_x)
+
+
+def deflection_extreme(st: Structure, topo, res, mid: str) -> tuple[float, float]:
+    """Largest transverse (local y) displacement along a beam and its distance from the
+    start node (SI): the same deflection polynomials as :func:`member_shape`, integrated in
+    plain floats, maximised over the piece ends and the roots of the slope (exact, with no
+    sampling: a polynomial's extreme on an interval is at an end or a critical point)."""
+    pieces, ws, _, theta = _deflection_pieces(st, topo, res, mid)
+    return _largest(pieces, (ws, theta), (ws, 0.0))
+
+
+def cantilever_root(st: Structure, mid: str) -> str | None:
+    """"start" or "end": the end a cantilever member is built in at, when its other end is
+    free (no support, no other member) and this end takes a moment; else None."""
+    m = st.members[mid]
+    if not m.is_beam:
+        return None
+    count: dict[str, int] = {}
+    for other in st.members.values():
+        for n in (other.start, other.end):
+            count[n] = count.get(n, 0) + 1
+    free = [n not in st.supports and count.get(n, 0) == 1 for n in (m.start, m.end)]
+    if free[1] and not free[0] and not m.hinge_start:
+        return "start"
+    if free[0] and not free[1] and not m.hinge_end:
+        return "end"
+    return None
+
+
+def relative_deflection(st: Structure, topo, res, mid: str) -> tuple[float, float, str]:
+    """The largest deflection of a beam that a limit L/N is compared with: (value >= 0 (m),
+    at (m from the start node), "span" or "cantilever"). A span: relative to the chord
+    joining its displaced ends. A cantilever (:func:`cantilever_root`): relative to the
+    tangent of its axis at the built-in end."""
+    pieces, _, _, _ = _deflection_pieces(st, topo, res, mid)
+    L = res.members[mid].length
+    root = cantilever_root(st, mid)
+    if root == "start":  # w_rel(0) = 0: less its own slope at 0 (the shear strain there)
+        slope0 = poly_eval([i * t for i, t in enumerate(pieces[0][2])][1:] or [0.0], 0.0)
+        line: tuple = (0.0, -slope0)
+    elif root == "end":
+        a, b, last = pieces[-1]
+        wl = poly_eval(last, b)
+        sl = poly_eval([i * t for i, t in enumerate(last)][1:] or [0.0], b)
+        line = (-wl + sl * L, -sl)
+    else:
+        line = (0.0, -poly_eval(pieces[-1][2], pieces[-1][1]) / L)
+    value, at = _largest(pieces, line, (line[0], 0.0))
+    return abs(value), at, "cantilever" if root else "span"

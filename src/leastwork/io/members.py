@@ -94,6 +94,8 @@ def read_members(reader: CaseReader, specs: list[MemberSpec], nodes: dict[str, N
             acts=_acts(reader, spec, where),
             end_springs=_end_springs(reader, spec, where, hinges) if kind == "beam"
             else (None, None),
+            area=sec.get("A") if sec else None,
+            section_modulus=_section_modulus(sec),
         )
     return members
 
@@ -120,6 +122,15 @@ def _end_springs(reader: CaseReader, spec: dict, where: str,
                              "have a joint spring; give one or the other")
         out.append(reader.positive(table[end], "rotational stiffness", f"{key}.{end}"))
     return (out[0], out[1])
+def _section_modulus(sec: dict | None) -> float | None:
+    """Elastic section modulus (m^3): the section's S, else I / (depth / 2)."""
+    if not sec:
+        return None
+    if "S" in sec:
+        return sec["S"]
+    if "I" in sec and "depth" in sec:
+        return sec["I"] / (0.5 * sec["depth"])
+    return None
 
 
 def _acts(reader: CaseReader, spec: dict, where: str) -> str:

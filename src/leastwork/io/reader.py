@@ -66,13 +66,14 @@ def read_structure(reader: CaseReader) -> Structure:
     supports = read_supports(reader, nodes)
     loads, case_order = read_loads(reader, nodes, members, supports)
     combinations = read_combinations(reader, loads, case_order)
-    redundants, displacements, shear = read_analysis(reader)
+    redundants, displacements, shear, limits = read_analysis(reader)
     if shear:
         check_shear(reader, members)
     return Structure(
         name=name, nodes=nodes, members=members, supports=supports, loads=tuple(loads),
         units=reader.units, redundants=redundants, displacements=displacements, shear=shear,
         source=reader.source, case_order=tuple(case_order), combinations=combinations,
+        deflection_limits=limits,
     )
 
 
@@ -162,7 +163,7 @@ def _sections(reader: CaseReader) -> dict[str, dict[str, float]]:
     """``[sections]``: A, I, depth and shear_area of each section (SI)."""
     out: dict[str, dict[str, float]] = {}
     dims = {"A": "area", "I": "second moment of area", "depth": "length",
-            "shear_area": "area"}
+            "shear_area": "area", "S": "section modulus"}
     for sid, spec in reader.table("sections").items():
         where = f"[sections.{sid}]"
         if not isinstance(spec, dict):

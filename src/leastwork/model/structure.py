@@ -91,6 +91,8 @@ class Member:
     weight: float | None = None
     acts: str = "both"
     end_springs: tuple[float | None, float | None] = (None, None)
+    area: float | None = None  #: cross-section area A (m^2), for stresses
+    section_modulus: float | None = None  #: elastic section modulus S (m^3), for stresses
 
     @property
     def is_beam(self) -> bool:
@@ -277,6 +279,9 @@ class Structure:
     redundants: tuple[str, ...] | None = None  #: the user's choice, or None for automatic
     displacements: tuple[str, ...] = ()  #: displacement targets, e.g. "B.y"
     shear: bool = False  #: include shear energy of beams
+    #: ``[analysis] deflection_limits``: (span N, cantilever N) for limits L/N, None where
+    #: not given
+    deflection_limits: tuple[float | None, float | None] = (None, None)
     source: str = "<structure>"  #: file the case came from, for messages
     case_order: tuple[str, ...] = ()  #: load case names in order of first appearance
     #: load combinations: (name, ((case, factor), ...)); their factored loads are among

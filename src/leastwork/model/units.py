@@ -99,6 +99,7 @@ DIMENSIONS: dict[str, tuple[int, int, int, int]] = {
     "angle": (0, 0, 0, 1),
     "number": (0, 0, 0, 0),
     "unit weight": (1, -3, 0, 0),
+    "section modulus": (0, 3, 0, 0),
 }
 
 _PINT_DIM = {
@@ -267,6 +268,7 @@ _EXAMPLES = {
     "angle": '"30 deg"',
     "number": "3",
     "unit weight": '"77 kN/m^3"',
+    "section modulus": '"557e3 mm^3"',
 }
 
 

@@ -15,7 +15,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from ..displacements import deflection_extreme
+from ..displacements import deflection_extreme, relative_deflection
+from ..stresses import stress_extremes
 from .quantities import quantities
 
 __all__ = ["ROUND_OFF", "CaseNumbers", "case_numbers", "flexibility_rows", "envelope_numbers",
@@ -87,10 +88,31 @@ def _members(sol, res) -> dict[str, dict]:
             "m_max": {"value": r.moment(mr.m_max[0]), "at": number(mr.m_max[1] / Lf)},
             "m_min": {"value": r.moment(mr.m_min[0]), "at": number(mr.m_min[1] / Lf)},
         }
-        if st.members[mid].is_beam:
+        member = st.members[mid]
+        if member.is_beam:
             w, at = deflection_extreme(st, topo, res, mid)
             out[mid]["deflection_max"] = {"value": number(w / Df), "at": number(at / Lf)}
+            out[mid]["deflection"] = _limit_check(st, topo, res, mid, q)
+        stress = stress_extremes(member, mr)
+        if stress is not None:
+            Sf = q.factor("stress")
+            (hi, at_hi), (lo, at_lo) = stress
+            out[mid]["stress"] = {"max": {"value": number(hi / Sf), "at": number(at_hi / Lf)},
+                                  "min": {"value": number(lo / Sf), "at": number(at_lo / Lf)}}
     return out
+
+
+def _limit_check(st, topo, res, mid: str, q) -> dict:
+    """Contract 5.3: the deflection a limit L/N is compared with (relative to the chord, or
+    to the tangent at the root of a cantilever), the limit and the ratio (None without
+    ``[analysis] deflection_limits`` for this kind of member)."""
+    value, at, kind = relative_deflection(st, topo, res, mid)
+    N = st.deflection_limits[0 if kind == "span" else 1]
+    Df, Lf = q.factor("displacement"), q.factor("length")
+    limit = None if N is None else st.length(mid) / N
+    return {"value": number(value / Df), "at": number(at / Lf),
+            "limit": None if limit is None else number(limit / Df),
+            "ratio": None if limit is None else number(value / limit), "measured": kind}
 
 
 def _displacements(sol, res) -> dict[str, float | None]:

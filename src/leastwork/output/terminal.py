@@ -172,7 +172,7 @@ def _print_load_case(console: Console, sol, name: str) -> None:
     _print_state(console, sol, name)
     for table in (_redundants_table(sol, res), _reactions_table(sol, numbers),
                   _member_end_table(sol, numbers), _beam_extremes_table(sol, res, numbers),
-                  _displacements_table(sol, res, numbers)):
+                  _stress_table(sol, numbers), _displacements_table(sol, res, numbers)):
         if table is not None:
             print_fitted(console, table)
     _print_checks(console, res, Ff, fu)
@@ -273,15 +273,18 @@ def _member_end_table(sol, numbers) -> Table:
 
 
 def _beam_extremes_table(sol, res, numbers) -> Table | None:
-    """Largest and smallest bending moment and largest deflection along each beam, with
-    where they occur (None when there are no beams)."""
+    """Largest and smallest bending moment and the deflection a limit is compared with
+    along each beam, with where they occur, and the limit and ratio when the case gives
+    deflection limits (None when there are no beams)."""
     beams = [mid for mid in res.members if sol.structure.members[mid].is_beam]
     if not beams:
         return None
     q = quantities(sol.units)
     mu, lu, du = q.moment_unit, q.length_unit, q.displacement_unit
-    t = Table(title="Bending moment extremes and largest deflection along beams",
-              header_style="bold")
+    limits = any(n is not None for n in sol.structure.deflection_limits)
+    t = Table(title="Bending moment extremes and deflections along beams (deflection: from "
+              "the chord between the beam's displaced ends; a cantilever's from the tangent "
+              "at its root)", header_style="bold")
     t.add_column("beam")
     t.add_column(user_text(f"m max [{mu}]"), justify="right")
     t.add_column(user_text(f"at [{lu}]"), justify="right")
@@ -289,12 +292,40 @@ def _beam_extremes_table(sol, res, numbers) -> Table | None:
     t.add_column(user_text(f"at [{lu}]"), justify="right")
     t.add_column(user_text(f"deflection [{du}]"), justify="right")
     t.add_column(user_text(f"at [{lu}]"), justify="right")
+    if limits:
+        t.add_column(user_text(f"limit L/N [{du}]"), justify="right")
+        t.add_column("ratio", justify="right")
     for mid in beams:  # as the JSON gives them (deflection found once)
         mj = numbers.members[mid]
-        t.add_row(user_text(mid), _g(mj["m_max"]["value"]), _g(mj["m_max"]["at"]),
-                  _g(mj["m_min"]["value"]), _g(mj["m_min"]["at"]),
-                  _g(mj["deflection_max"]["value"], 4),
-                  _g(mj["deflection_max"]["at"], 4))
+        d = mj["deflection"]
+        row = [user_text(mid), _g(mj["m_max"]["value"]), _g(mj["m_max"]["at"]),
+               _g(mj["m_min"]["value"]), _g(mj["m_min"]["at"]), _g(d["value"], 4),
+               _g(d["at"], 4)]
+        if limits:
+            over = d["ratio"] is not None and d["ratio"] > 1.0
+            row += ["—" if d["limit"] is None else _g(d["limit"], 4),
+                    "—" if d["ratio"] is None else Text(
+                        _g(d["ratio"], 3) + (" OVER" if over else ""),
+                        style="bold red" if over else "")]
+        t.add_row(*row)
+    return t
+
+
+def _stress_table(sol, numbers) -> Table | None:
+    """Extreme-fibre stresses of the members with an area (and a section modulus, beams)."""
+    rows = [(mid, mj["stress"]) for mid, mj in numbers.members.items() if "stress" in mj]
+    if not rows:
+        return None
+    q = quantities(sol.units)
+    su, lu = q.unit("stress"), q.length_unit
+    t = Table(title="Extreme-fibre stresses (N/A ± M/S, tension +; largest and smallest "
+              "along the member)", header_style="bold")
+    t.add_column("member")
+    for head in (f"max [{su}]", f"at [{lu}]", f"min [{su}]", f"at [{lu}]"):
+        t.add_column(user_text(head), justify="right")
+    for mid, s in rows:
+        t.add_row(user_text(mid), _g(s["max"]["value"]), _g(s["max"]["at"]),
+                  _g(s["min"]["value"]), _g(s["min"]["at"]))
     return t
 
 

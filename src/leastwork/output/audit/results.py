@@ -5,6 +5,7 @@ combinations. Every number is the one the JSON result reports
 
 from __future__ import annotations
 
+from ..quantities import quantities
 from ..sheet import Formula, Grid, Para, Step
 from .context import Context
 from .envelope import envelope_grids
@@ -37,9 +38,10 @@ def step_solution(ctx: Context) -> Step:
             blocks.append(_superposition(ctx, case))
         blocks.append(_reactions(ctx, case))
         blocks.append(_end_forces(ctx, case))
-        extremes = _moment_extremes(ctx, case)
-        if extremes is not None:
-            blocks.append(extremes)
+        for grid in (_moment_extremes(ctx, case), _deflections(ctx, case),
+                     _stresses(ctx, case)):
+            if grid is not None:
+                blocks.append(grid)
     blocks.extend(envelope_grids(ctx.sol))
     return Step(6, "Solution, superposition and reactions", tuple(blocks))
 
@@ -109,4 +111,39 @@ def _moment_extremes(ctx: Context, case: str) -> Grid | None:
         return None
     return Grid(f"Load case {case}: bending moment extremes along beams",
                 ("beam", f"m max [{ml}]", f"at [{lu}]", f"m min [{ml}]", f"at [{lu}]"),
+                tuple(rows))
+
+
+def _deflections(ctx: Context, case: str) -> Grid | None:
+    """The deflection each beam's limit L/N is compared with, the limit and the ratio."""
+    q = quantities(ctx.sol.units)
+    du, lu = q.displacement_unit, ctx.u.length_unit
+    rows = []
+    for mid, mj in ctx.numbers(case).members.items():
+        d = mj.get("deflection")
+        if d is None:
+            continue
+        rows.append((mid, "from the tangent at the root" if d["measured"] == "cantilever"
+                     else "from the chord", d["value"], d["at"],
+                     "-" if d["limit"] is None else d["limit"],
+                     "-" if d["ratio"] is None else d["ratio"]))
+    if not rows:
+        return None
+    return Grid(f"Load case {case}: deflections along beams (largest, measured as said; "
+                "limit L/N from [analysis] deflection_limits)",
+                ("beam", "measured", f"deflection [{du}]", f"at [{lu}]", f"limit [{du}]",
+                 "ratio"), tuple(rows), keys=1)
+
+
+def _stresses(ctx: Context, case: str) -> Grid | None:
+    """Extreme-fibre stresses N/A ± M/S along the members that have them."""
+    q = quantities(ctx.sol.units)
+    su, lu = q.unit("stress"), ctx.u.length_unit
+    rows = [(mid, s["max"]["value"], s["max"]["at"], s["min"]["value"], s["min"]["at"])
+            for mid, mj in ctx.numbers(case).members.items()
+            if (s := mj.get("stress")) is not None]
+    if not rows:
+        return None
+    return Grid(f"Load case {case}: extreme-fibre stresses σ = N/A ± M/S (tension +)",
+                ("member", f"max [{su}]", f"at [{lu}]", f"min [{su}]", f"at [{lu}]"),
                 tuple(rows))
