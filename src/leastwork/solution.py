@@ -461,6 +461,13 @@ class Solution:
 
         return combination_envelope(self)
 
+    @cached_property
+    def group_envelopes(self) -> dict[str, dict]:
+        """The envelope of each ``[envelopes]`` group (SI), found once on first use."""
+        from .studies.envelope import group_envelopes
+
+        return group_envelopes(self)
+
     def to_dict(self) -> dict:
         """The JSON result (contract section 4), every number in the case units."""
         from .output.json_result import solution_to_dict

@@ -342,7 +342,9 @@ def _length_of(reader: CaseReader, member: Member) -> float:
     return math.hypot(b.x - a.x, b.y - a.y)
 
 
-def read_combinations(reader: CaseReader, loads: list, case_order: list) -> tuple:
+def read_combinations(reader: CaseReader, loads: list, case_order: list,
+                      patterns: dict[str, tuple[str, ...]] | None = None,
+                      variants: dict[str, list[str]] | None = None) -> tuple:
     """``[combinations]``: NAME = { CASE = factor, ... }. Each combination's factored
     loads are appended to ``loads`` under its name (and the name to ``case_order``), so
     that it solves like a load case."""
@@ -365,8 +367,37 @@ def read_combinations(reader: CaseReader, loads: list, case_order: list) -> tupl
                                  f"{hint(case, cases)}; the cases are: "
                                  + echo(", ".join(cases)))
             factors.append((case, reader.quantity(value, "number", f"{where}.{case}")))
-        for case, f in factors:
-            loads.extend(scaled_load(ld, f, name) for ld in list(loads) if ld.case == case)
-        case_order.append(name)
-        out.append((name, tuple(factors)))
+        for variant, parts_v in _variants(reader, where, name, factors, patterns or {}):
+            for case, f in parts_v:
+                loads.extend(scaled_load(ld, f, variant) for ld in list(loads)
+                             if ld.case == case)
+            case_order.append(variant)
+            out.append((variant, tuple(parts_v)))
+            if variants is not None:
+                variants.setdefault(name, []).append(variant)
     return tuple(out)
+
+
+def _variants(reader: CaseReader, where: str, name: str, factors: list,
+              patterns: dict[str, tuple[str, ...]]) -> list[tuple[str, list]]:
+    """The combination itself and, when it uses patterned load cases ([patterns]), one
+    variant per arrangement (per combination of arrangements), named ``NAME[AB+CD]``."""
+    from itertools import product
+
+    from .patterns import PATTERN_VARIANTS_LIMIT
+
+    choices = [[case, *patterns.get(case, ())] for case, _ in factors]
+    count = 1
+    for c in choices:
+        count *= len(c)
+    if count > PATTERN_VARIANTS_LIMIT:
+        raise reader.err(where, f"its patterned load cases make {count} arrangements, more "
+                         f"than {PATTERN_VARIANTS_LIMIT}; pattern fewer cases or split the "
+                         "structure")
+    out = []
+    for pick in product(*choices):
+        tags = [p[len(case) + 1:-1] for p, (case, _) in zip(pick, factors, strict=True)
+                if p != case]
+        label = name if not tags else f"{name}[{'|'.join(tags)}]"
+        out.append((label, [(p, f) for p, (_, f) in zip(pick, factors, strict=True)]))
+    return out

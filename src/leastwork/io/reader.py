@@ -20,6 +20,7 @@ from .files import parse_toml, read_case_text
 from .loads import read_combinations, read_loads
 from .members import connected_nodes, member_specs, read_members
 from .messages import echo, hint, kind_of, shown
+from .patterns import read_envelopes, read_patterns
 from .quantities import SI_LIMIT
 from .supports import read_supports
 
@@ -27,7 +28,7 @@ __all__ = ["load_case", "loads_case", "read_structure"]
 
 _TABLES = (
     "structure", "parameters", "materials", "sections", "defaults", "nodes", "beams",
-    "bars", "supports", "loads", "combinations", "analysis",
+    "bars", "supports", "loads", "combinations", "analysis", "patterns", "envelopes",
 )
 
 
@@ -65,7 +66,10 @@ def read_structure(reader: CaseReader) -> Structure:
     reader.members = members
     supports = read_supports(reader, nodes)
     loads, case_order = read_loads(reader, nodes, members, supports)
-    combinations = read_combinations(reader, loads, case_order)
+    patterns = read_patterns(reader, members, loads, case_order)
+    variants: dict[str, list[str]] = {}
+    combinations = read_combinations(reader, loads, case_order, dict(patterns), variants)
+    groups = read_envelopes(reader, combinations, variants)
     redundants, displacements, shear, limits = read_analysis(reader)
     if shear:
         check_shear(reader, members)
@@ -74,6 +78,7 @@ def read_structure(reader: CaseReader) -> Structure:
         units=reader.units, redundants=redundants, displacements=displacements, shear=shear,
         source=reader.source, case_order=tuple(case_order), combinations=combinations,
         deflection_limits=limits,
+        patterns=patterns, envelope_groups=groups,
     )
 
 

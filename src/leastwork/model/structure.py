@@ -287,6 +287,10 @@ class Structure:
     #: load combinations: (name, ((case, factor), ...)); their factored loads are among
     #: ``loads`` under the combination's name, so a combination solves like a load case
     combinations: tuple[tuple[str, tuple[tuple[str, float], ...]], ...] = ()
+    #: ``[patterns]``: (load case, the load cases of its other arrangements)
+    patterns: tuple[tuple[str, tuple[str, ...]], ...] = ()
+    #: ``[envelopes]``: (group, the combinations it covers, pattern variants included)
+    envelope_groups: tuple[tuple[str, tuple[str, ...]], ...] = ()
 
     def length(self, member_id: str) -> float:
         m = self.members[member_id]

@@ -78,6 +78,8 @@ def solution_to_dict(sol) -> dict:
     env = envelope_numbers(sol)
     if env is not None:
         out["envelope"] = env
+    if sol.group_envelopes:
+        out["envelopes"] = {g: envelope_numbers(sol, e) for g, e in sol.group_envelopes.items()}
     return out
 
 

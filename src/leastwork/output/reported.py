@@ -187,11 +187,12 @@ def flexibility_rows(sol) -> list[list[float | None]]:
             for i in range(n)]
 
 
-def envelope_numbers(sol) -> dict | None:
-    """The envelope over the load combinations (``sol.combination_envelope``) in the output
-    units: per member and quantity (n, v, m) the max and min with where and the governing
-    combination, per support and direction the max and min; None without combinations."""
-    env = sol.combination_envelope
+def envelope_numbers(sol, env: dict | None = None) -> dict | None:
+    """An envelope (default: over all the load combinations, ``sol.combination_envelope``;
+    or one of ``sol.group_envelopes``) in the output units: per member and quantity (n, v,
+    m) the max and min with where and the governing combination, per support and direction
+    the max and min; None without combinations."""
+    env = sol.combination_envelope if env is None else env
     if env is None:
         return None
     q = quantities(sol.units)

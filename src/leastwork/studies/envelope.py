@@ -6,7 +6,7 @@ sheet, the summary); ``Solution.combination_envelope`` keeps it once found."""
 
 from __future__ import annotations
 
-__all__ = ["envelope", "combination_envelope"]
+__all__ = ["envelope", "combination_envelope", "group_envelopes"]
 
 
 def envelope(sol, names) -> dict:
@@ -48,3 +48,11 @@ def combination_envelope(sol) -> dict | None:
     if not names:
         return None
     return {"combinations": names, **envelope(sol, names)}
+
+
+def group_envelopes(sol) -> dict[str, dict]:
+    """:func:`envelope` of each ``[envelopes]`` group (strength apart from serviceability,
+    say), with its combinations under ``"combinations"``; empty without groups. Use
+    ``sol.group_envelopes``, which finds them once."""
+    return {group: {"combinations": list(names), **envelope(sol, names)}
+            for group, names in sol.structure.envelope_groups}

@@ -326,6 +326,9 @@ def read_exact(st: Structure, record, *, expand_derived: bool = False) -> ExactM
     Raises CaseError where a value cannot be represented exactly, and RuntimeError if an
     exact value disagrees with the numeric reader (a bug).
     """
+    if st.patterns:
+        raise CaseError("symbolic mode does not take [patterns] yet: solve numerically",
+                        source=st.source)
     one_way = [m.id for m in st.members.values() if m.acts != "both"]
     one_way += [f"support {s.node}" for s in st.supports.values() if s.acts != "both"]
     if one_way:
