@@ -413,3 +413,25 @@ def test_commands_not_wired_yet_are_listed(doc_outcomes):
     if not_wired or depends:
         warnings.warn("doc commands not run yet:\n  " + "\n  ".join(not_wired + depends),
                       stacklevel=1)
+
+
+def test_us_propped_beam_meets_handbook_values():
+    # propped cantilever under w (handbook, from memory): prop 3wL/8, wall moment wL^2/8,
+    # largest deflection about wL^4/185EI; the prop does not move; all in kip, ft, in
+    d = _result("us-propped-beam")["cases"]["service"]
+    w, L = 1.05, 22.0
+    assert _close(d["reactions"]["B"]["y"], 3 * w * L / 8, w * L)
+    assert _close(d["reactions"]["A"]["rz"], w * L**2 / 8, w * L**2)
+    EI = 29000.0 * 204.0  # kip*in^2
+    defl = w / 12 * (L * 12) ** 4 / (185 * EI)
+    assert abs(d["members"]["AB"]["deflection"]["value"] - defl) <= 2e-3 * defl
+    assert d["displacements"]["B.y"] == 0.0
+
+
+def test_tension_only_starter_slackens_the_pushed_rod():
+    # wind from the left pushes the rod from B up to D (it would shorten): it goes slack
+    # and the other rod carries the bracing (statics of the sway direction)
+    d = _result("tension-only-bracing")["cases"]
+    assert d["wind_left"]["members"]["R2"]["state"] == "slack"
+    assert d["wind_left"]["members"]["R1"]["start"]["n"] > 0
+    assert d["wind_right"]["members"]["R1"]["state"] == "slack"

@@ -188,3 +188,26 @@ def test_bad_deflection_limits(tmp_path, limits, words):
     out = subprocess.run([sys.executable, "-m", "leastwork", "solve", str(path)],
                          capture_output=True, text=True)
     assert out.returncode == 2 and words in out.stderr, out.stderr
+
+
+def test_a_support_that_does_not_move_reports_zero():
+    # round-off is shown as 0: a propped cantilever's prop does not move (it is a support)
+    # even when every translation of the structure is round-off and only rotations are real
+    text = _case("""
+[nodes]
+A = [0, 0]
+B = [6, 0]
+[beams]
+AB = { nodes = ["A", "B"], section = "ipe300" }
+[supports]
+A = "fixed"
+B = "roller"
+[[loads]]
+member = "AB"
+wy = -4
+[analysis]
+displacements = ["B.y", "B.rz"]
+""")
+    d = _solve(text)["cases"]["default"]["displacements"]
+    assert d["B.y"] == 0.0
+    check(d["B.rz"], 4 * 6**3 / (48 * EI), 1e-3, "end slope wL^3/48EI (handbook)")

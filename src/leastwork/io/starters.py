@@ -15,6 +15,7 @@ from __future__ import annotations
 import difflib
 
 from ..errors import CaseError
+from .starter_texts import BRACED_BAY_TENSION_ONLY, US_PROPPED_BEAM
 
 __all__ = ["STARTERS", "starter_text", "starter_kinds"]
 
@@ -544,6 +545,11 @@ STARTERS: dict[str, tuple[str, str]] = {
                      "wind cases", _PORTAL_FRAME),
     "tied-beam": ("a cantilever beam held up by an inclined tie rod (degree 1), with a "
                   "turnbuckle misfit", _TIED_BEAM),
+    "tension-only-bracing": ("a braced bay whose crossed rods go slack rather than push "
+                             "(degree 3), wind both ways and drawn-up rods",
+                             BRACED_BAY_TENSION_ONLY),
+    "us-propped-beam": ("a floor beam built in and propped, in kip, ft, in, ksi, with a "
+                        "deflection limit L/360", US_PROPPED_BEAM),
 }
 
 

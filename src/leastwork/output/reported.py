@@ -121,7 +121,12 @@ def _displacements(sol, res) -> dict[str, float | None]:
     Lf = quantities(sol.units).factor("displacement")
     moved = np.abs(res.nodal_displacements)
     rot = np.array([d.endswith(".rz") for d in sol.topology.dofs], dtype=bool)
-    u_tol = ROUND_OFF * float(np.max(moved[~rot], initial=0.0))
+    # a translation's scale is the largest translation or rotation x the longest member
+    # (a beam that only turns about its supports moves nothing but by round-off)
+    st = sol.structure
+    lmax = max((st.length(m) for m in st.members), default=1.0)
+    u_tol = ROUND_OFF * max(float(np.max(moved[~rot], initial=0.0)),
+                            lmax * float(np.max(moved[rot], initial=0.0)))
     r_tol = ROUND_OFF * float(np.max(moved[rot], initial=0.0))
     out = {}
     for t, v in res.displacements.items():
