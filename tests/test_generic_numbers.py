@@ -1,6 +1,7 @@
 """The core is generic over the number type: the same topology, statics and energy
 functions give the closed forms exactly over the rationals (Python's ``Fraction``, a number
-type defined only here) and the same values in floats."""
+type defined only here) and the same values in floats; the exact pipeline calls those same
+functions instead of copies."""
 
 from __future__ import annotations
 
@@ -9,7 +10,7 @@ from types import SimpleNamespace
 
 import numpy as np
 
-from leastwork import energy, statics, topology
+from leastwork import displacements, energy, model, solution, statics, superposition, topology
 from leastwork.arithmetic import FloatNumbers
 from leastwork.fields import ParticularFields, span_fields
 from leastwork.loadkinds import load_kind
@@ -155,3 +156,16 @@ def test_initial_deformations_of_a_uniform_load_exactly():
     for name, value in by_column.items():
         assert abs(floats[topo.column_index[name]] - float(value)) <= 1e-15 * abs(float(slope))
 
+
+def test_the_exact_pipeline_calls_the_shared_core():
+    """The exact pipeline imports the core's functions themselves, not copies of them."""
+    from leastwork.symbolic import backend, pipeline
+
+    assert pipeline.case_state is superposition.case_state
+    assert pipeline.equilibrium_columns is topology.equilibrium_columns
+    assert pipeline.evaluate_target is displacements.evaluate_target
+    assert pipeline.reaction_components is model.reaction_components
+    assert pipeline.basic_force_fields is solution.basic_force_fields
+    assert issubclass(backend.ExactReleased, statics.ReleasedStructure)
+    assert superposition.case_loading is statics.case_loading
+    assert superposition.initial_deformations is energy.initial_deformations
