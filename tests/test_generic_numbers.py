@@ -129,6 +129,7 @@ def test_equilibrium_entries_and_loading_are_the_same_in_both_types():
     cols_q = topology.equilibrium_columns(st, FractionNumbers(st))[5]
     cols_f = topology.equilibrium_columns(st, FloatNumbers(st))[5]
     assert [[(i, float(v)) for i, v in c] for c in cols_q] == cols_f
+    assert all(isinstance(v, Fraction) for c in cols_q for _, v in c)
     p_q = statics.case_loading(st, topo, "default", FractionNumbers(st)).p
     p_f = statics.case_loading(st, topo, "default").p
     # statics: half the total load Q L at each end node

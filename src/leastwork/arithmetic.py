@@ -99,15 +99,10 @@ class FloatNumbers:
 
     def __init__(self, st: Structure):
         self.st = st
-
-    def length(self, mid: str) -> float:
-        return self.st.length(mid)
-
-    def direction(self, mid: str) -> tuple[float, float]:
-        return self.st.direction(mid)
-
-    def section(self, mid: str):
-        return self.st.members[mid]
+        # the structure's own accessors, bound once (no extra call per member)
+        self.length = st.length
+        self.direction = st.direction
+        self.section = st.members.__getitem__
 
     @staticmethod
     def restraint_vector(r) -> tuple[float, float, float]:

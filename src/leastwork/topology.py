@@ -122,8 +122,8 @@ def member_graph_counts(st: Structure) -> tuple[int, int]:
 def equilibrium_columns(st: Structure, nums: Numbers):
     """Rows (nodal directions), columns (basic forces and reactions), restraints, dropped
     rz restraints, and the entries of each column of the equilibrium matrix ``A``
-    (``A s + p = 0``) as (row, value) pairs without zeros, in the number type of ``nums``
-    (:mod:`leastwork.arithmetic`)."""
+    (``A s + p = 0``) as (row name, value) pairs, zeros included, in the number type of
+    ``nums`` (:mod:`leastwork.arithmetic`)."""
     rot = rotational_nodes(st.members.values())
     dofs: list[str] = []
     for nid in st.nodes:
@@ -155,9 +155,7 @@ def equilibrium_columns(st: Structure, nums: Numbers):
             if vr:
                 e.append((f"{sup.node}.rz", vr))
             entries.append(e)
-    cols = [[(dof_index[dof], val) for dof, val in col_entries if val]
-            for col_entries in entries]
-    return dofs, dof_index, columns, restraints, dropped, cols
+    return dofs, dof_index, columns, restraints, dropped, entries
 
 
 def assemble_equilibrium(st: Structure):
@@ -165,15 +163,16 @@ def assemble_equilibrium(st: Structure):
     rz restraints and the sparse equilibrium matrix ``A`` (CSC, SI) with ``A s + p = 0``."""
     import scipy.sparse as sp
 
-    dofs, dof_index, columns, restraints, dropped, cols = equilibrium_columns(
+    dofs, dof_index, columns, restraints, dropped, entries = equilibrium_columns(
         st, FloatNumbers(st))
-    rows, at, vals = [], [], []
-    for j, col in enumerate(cols):
-        for i, val in col:
-            rows.append(i)
-            at.append(j)
-            vals.append(val)
-    A = sp.csc_matrix((vals, (rows, at)), shape=(len(dofs), len(columns)))
+    rows, cols, vals = [], [], []
+    for j, col_entries in enumerate(entries):
+        for dof, val in col_entries:
+            if val:
+                rows.append(dof_index[dof])
+                cols.append(j)
+                vals.append(val)
+    A = sp.csc_matrix((vals, (rows, cols)), shape=(len(dofs), len(columns)))
     A.sum_duplicates()
     return dofs, dof_index, columns, restraints, dropped, A
 

@@ -174,7 +174,9 @@ class _Pipeline:
     def run(self) -> ExactSolution:
         """The generic core on the exact basis: states, F, delta, every load case."""
         st, topo, nums = self.st, self.topo, self.nums
-        cols = equilibrium_columns(st, nums)[5]
+        di = topo.dof_index
+        cols = [[(di[dof], v) for dof, v in col if v]
+                for col in equilibrium_columns(st, nums)[5]]
         try:
             released = ExactReleased(topo, self.red, cols, nums, self.tick)
         except ZeroDivisionError:
