@@ -20,9 +20,9 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.polynomial import polynomial as P
 
+from .arithmetic import FloatNumbers, Numbers
 from .elements import kind_of
 from .errors import CaseError
-from .fields import gauss_integral
 from .model import Structure
 from .polynomials import poly_add, poly_antiderivative, poly_eval, poly_scale
 
@@ -40,6 +40,7 @@ class Target:
     b: str = ""
     direction: str = ""
     at: float = 0.0  #: m, for member points
+    distance: str = ""  #: the distance as written, in the case's length unit
 
 
 def parse_target(st: Structure, topo, text: str, where: str) -> Target:
@@ -69,7 +70,7 @@ def parse_target(st: Structure, topo, text: str, where: str) -> Target:
             raise CaseError(f'"{text}": distance is off the member (length '
                             f"{L / st.units.factor('length'):g} {st.units.length})",
                             source=st.source, where=where)
-        return Target("member", mid, direction=d, at=min(at, L))
+        return Target("member", mid, direction=d, at=min(at, L), distance=dist)
     m = _PAIR.match(text)
     if m:
         a, b = m.groups()
@@ -86,81 +87,71 @@ def parse_target(st: Structure, topo, text: str, where: str) -> Target:
 
 
 def evaluate_target(st: Structure, topo, res, text: str, where: str = "[analysis] "
-                    "displacements") -> float:
-    """The displacement named ``text`` in case ``res`` (SI: m or rad)."""
+                    "displacements", nums: Numbers | None = None):
+    """The displacement named ``text`` in case ``res`` (SI floats: m or rad; or in the
+    number type of ``nums``). ``res`` gives ``nodal_displacements``, and for a point of a
+    member what :func:`member_point_displacement` reads."""
+    nums = nums or FloatNumbers(st)
     t = parse_target(st, topo, text, where)
     u = res.nodal_displacements
     di = topo.dof_index
     if t.kind == "node":
-        return float(u[di[f"{t.a}.{t.direction}"]])
+        return nums.scalar(u[di[f"{t.a}.{t.direction}"]])
     if t.kind == "pair":
-        na, nb = st.nodes[t.a], st.nodes[t.b]
-        dx, dy = nb.x - na.x, nb.y - na.y
-        L = float(np.hypot(dx, dy))
+        dx, dy, L = nums.pair(t.a, t.b)
         du = u[di[f"{t.b}.x"]] - u[di[f"{t.a}.x"]]
         dv = u[di[f"{t.b}.y"]] - u[di[f"{t.a}.y"]]
-        return float((du * dx + dv * dy) / L)
-    return member_point_displacement(st, topo, res, t.a, t.at, t.direction)
+        return nums.scalar((du * dx + dv * dy) / L)
+    return member_point_displacement(st, topo, res, t.a, nums.member_position(t),
+                                     t.direction, nums)
 
 
 def member_point_displacement(st: Structure, topo, res, mid: str, at: float,
-                              direction: str) -> float:
-    """Global x or y displacement of the point ``at`` m along member ``mid`` by a unit
-    load there on the released structure."""
+                              direction: str, nums: Numbers | None = None):
+    """Global x or y displacement of the point ``at`` (m) along member ``mid`` by a unit
+    load there on the released structure: ``res`` gives ``released``, ``deformations``,
+    ``loading`` (settlements, free strains) and the member's final fields
+    (``member_fields``). Floats, or the number type of ``nums``."""
+    nums = nums or FloatNumbers(st)
     released = res.released if hasattr(res, "released") and res.released else None
     if released is None:
         raise RuntimeError("case result has no released structure attached")
-    L = st.length(mid)
-    fx, fy = (1.0, 0.0) if direction == "x" else (0.0, 1.0)
+    one, zero = nums.one, nums.zero
+    fx, fy = (one, zero) if direction == "x" else (zero, one)
     mem = st.members[mid]
-    p = np.zeros(len(topo.dofs))
+    p = nums.vector(len(topo.dofs))
     di = topo.dof_index
-    tol = 1e-12 * max(L, 1.0)
+    end = nums.end_of(at, nums.length(mid))
     pf = None
-    if at <= tol or at >= L - tol:
-        node = mem.start if at <= tol else mem.end
+    if end is not None:
+        node = mem.start if end == "start" else mem.end
         p[di[f"{node}.x"]] += fx
         p[di[f"{node}.y"]] += fy
     else:
-        pf = kind_of(mem).particular(mem, L, st.direction(mid), [(at, fx, fy, 0.0)], [])
+        pf = nums.particular(mem, [(at, fx, fy, zero)], [])
         p[di[f"{mem.start}.x"]] += pf.start_force[0]
         p[di[f"{mem.start}.y"]] += pf.start_force[1]
         p[di[f"{mem.end}.x"]] += pf.end_force[0]
         p[di[f"{mem.end}.y"]] += pf.end_force[1]
     s_u = released.forces(p)[:, 0]
-    d = res.deformations
-    value = float(s_u @ (d - res.loading.settlement))
-    if pf is not None:
-        mr = res.members[mid]
-        sec, free = _section(st, res, mid)
-        brk = np.union1d(pf.m.breaks, mr.m.breaks)
-        for f in ("n", "m", "v"):  # virtual work of the unit load's fields on the strains
-            K, extra = sec.get(f), free.get(f, [])
-            if K is None and not any(extra):
-                continue
-            unit, real = getattr(pf, f), getattr(mr, f)
-            if f == "v":
-                value += gauss_integral(brk, lambda x, u=unit, r=real, K=K: u(x) * r(x) / K)
-                continue
-
-            def strain(x, r=real, K=K, extra=extra):
-                acc = r(x) / K if K is not None else 0.0
-                for e in extra:
-                    acc = acc + e
-                return acc
-
-            value += gauss_integral(brk, lambda x, u=unit, strain=strain: u(x) * strain(x))
-    return value
+    value = nums.scalar(s_u @ (res.deformations - res.loading.settlement))
+    if pf is None:
+        return value
+    # virtual work of the unit load's fields on the strains
+    return nums.span_work(value, pf, res.member_fields(mid), *_section(st, res, mid, nums))
 
 
-def _section(st: Structure, res, mid: str) -> tuple[dict, dict]:
+def _section(st: Structure, res, mid: str, nums: Numbers | None = None) -> tuple[dict, dict]:
     """The section stiffness per field and the free strains per field of member ``mid``
-    in case ``res``, as its kind gives them."""
+    in case ``res``, as its kind gives them (in the number type of ``nums``)."""
     mem = st.members[mid]
     kind = kind_of(mem)
-    imposed = res.loading.imposed.get(mid, (0.0, 0.0, 0.0))
-    return (kind.section(mem, mem, st.shear),
-            kind.free_strains(mem, mem, st.length(mid), imposed))
+    if nums is None:
+        sec, L, zero = mem, st.length(mid), 0.0
+    else:
+        sec, L, zero = nums.section(mid), nums.length(mid), nums.zero
+    imposed = res.loading.imposed.get(mid, (zero, zero, zero))
+    return kind.section(mem, sec, st.shear), kind.free_strains(mem, sec, L, imposed)
 
 
 def member_shape(st: Structure, topo, res, mid: str, samples: int = 41,

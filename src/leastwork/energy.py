@@ -14,6 +14,9 @@ For basic forces s (see :mod:`leastwork.topology`) the complementary energy is
 
 Castigliano's second theorem (Menabrea's least-work theorem) on these terms gives the
 compatibility equations; see :mod:`leastwork.solve`.
+
+Every function takes an optional number type (:mod:`leastwork.arithmetic`; default SI
+floats), so that the exact pipeline of :mod:`leastwork.symbolic` sums the same terms.
 """
 
 from __future__ import annotations
@@ -22,9 +25,9 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from .arithmetic import FloatNumbers, Numbers
 from .elements import kind_of
-from .elements.base import integrate
-from .fields import ParticularFields, gauss_integral
+from .fields import ParticularFields
 from .model import Structure
 from .topology import Topology
 
@@ -40,7 +43,8 @@ __all__ = [
 
 @dataclass(frozen=True)
 class FlexibilityTerm:
-    """One energy term of F: ``block`` (SI) couples the basic forces of ``columns``.
+    """One energy term of F: ``block`` (SI floats: an array; exact: nested lists) couples
+    the basic forces of ``columns``.
 
     ``owner`` is a member id or a restraint name; ``term`` is "axial", "bending", "shear" or
     "spring".
@@ -49,7 +53,7 @@ class FlexibilityTerm:
     owner: str
     term: str
     columns: tuple[int, ...]
-    block: np.ndarray
+    block: np.ndarray | list
 
 
 def member_columns(topo: Topology) -> dict[str, list[int]]:
@@ -62,31 +66,35 @@ def member_columns(topo: Topology) -> dict[str, list[int]]:
     return out
 
 
-def flexibility_terms(st: Structure, topo: Topology) -> list[FlexibilityTerm]:
+def flexibility_terms(st: Structure, topo: Topology,
+                      nums: Numbers | None = None) -> list[FlexibilityTerm]:
     """The energy terms of every member (as its kind gives them) and spring, in member
-    order then springs."""
+    order then springs, in the number type of ``nums`` (default SI floats)."""
+    nums = nums or FloatNumbers(st)
     out: list[FlexibilityTerm] = []
     columns = member_columns(topo)
     for m in st.members.values():
         cols = columns[m.id]
-        for t in kind_of(m).flexibility(m, m, st.length(m.id), st.shear, 1.0):
+        for t in kind_of(m).flexibility(m, nums.section(m.id), nums.length(m.id), st.shear,
+                                        nums.one):
             out.append(FlexibilityTerm(m.id, t.term, tuple([cols[i] for i in t.forces]),
-                                       np.array(t.block)))
+                                       nums.block(t.block)))
     for j, c in enumerate(topo.columns):
         if c.kind == "reaction":
             r = topo.restraints[c.restraint_index]
             if r.is_spring:
                 out.append(FlexibilityTerm(c.name, "spring", (j,),
-                                           np.array([[1.0 / r.stiffness]])))
+                                           nums.block([[nums.spring_flexibility(r)]])))
     return out
 
 
-def flexibility_blocks(st: Structure, topo: Topology) -> np.ndarray:
-    """Flexibility F of all columns (ncol x ncol), SI units; rigid reactions have zero."""
-    n = len(topo.columns)
-    F = np.zeros((n, n))
-    for t in flexibility_terms(st, topo):
-        F[np.ix_(t.columns, t.columns)] += t.block
+def flexibility_blocks(st: Structure, topo: Topology, nums: Numbers | None = None):
+    """Flexibility F of all columns (ncol x ncol; SI floats: a dense array); rigid
+    reactions have zero."""
+    nums = nums or FloatNumbers(st)
+    F = nums.matrix(len(topo.columns))
+    for t in flexibility_terms(st, topo, nums):
+        nums.add_block(F, t.columns, t.block)
     return F
 
 
@@ -101,7 +109,7 @@ class DeformationTerm:
     owner: str
     effect: str
     column: int
-    value: float
+    value: float  #: or an exact element
 
 
 def initial_deformation_terms(
@@ -109,8 +117,11 @@ def initial_deformation_terms(
     topo: Topology,
     particulars: dict[str, ParticularFields],
     imposed: dict[str, tuple[float, float, float]],
+    nums: Numbers | None = None,
 ) -> list[DeformationTerm]:
-    """The initial deformations of one load case, member by member and effect by effect."""
+    """The initial deformations of one load case, member by member and effect by effect,
+    in the number type of ``nums`` (default SI floats)."""
+    nums = nums or FloatNumbers(st)
     out: list[DeformationTerm] = []
     columns = member_columns(topo)
     for m in st.members.values():
@@ -118,39 +129,13 @@ def initial_deformation_terms(
         if pf is None and strains is None:
             continue
         cols = columns[m.id]
-        L = st.length(m.id)
-        integral = None if pf is None else _span_integral(pf, L)
+        L = nums.length(m.id)
+        integral = None if pf is None else nums.span_integral(pf, L)
         for effect, i, value in kind_of(m).initial_deformations(
-                m, m, L, st.shear, integral, strains, 1.0):
-            if value != 0.0:
-                out.append(DeformationTerm(m.id, effect, cols[i], float(value)))
+                m, nums.section(m.id), L, st.shear, integral, strains, nums.one):
+            if value:
+                out.append(DeformationTerm(m.id, effect, cols[i], nums.scalar(value)))
     return out
-
-
-def _span_integral(pf: ParticularFields, L: float):
-    """``integral(f, weight)``: int_0^L weight(x) f0(x) dx of the span-load field ``f``
-    ("n", "v", "m"), ``weight`` a polynomial in x/L (evaluated as written, so that 1 - x/L
-    and x/L round as they always did) or a function of x; Gauss–Legendre on each piece,
-    exact for the polynomial fields of span loads."""
-    br = pf.m.breaks
-
-    def integral(f: str, weight) -> float:
-        field = getattr(pf, f)
-        if callable(weight):
-            return sum(integrate(lambda x: weight(x) * float(field(x)), float(a), float(b))
-                       for a, b in zip(br[:-1], br[1:], strict=True) if b > a)
-        if len(weight) == 1 and weight[0] == 1.0:
-            return gauss_integral(br, field)
-
-        def w(x):
-            acc = weight[-1]
-            for c in reversed(weight[:-1]):
-                acc = c + acc * x / L
-            return acc
-
-        return gauss_integral(br, lambda x: w(x) * field(x))
-
-    return integral
 
 
 def initial_deformations(
@@ -158,9 +143,11 @@ def initial_deformations(
     topo: Topology,
     particulars: dict[str, ParticularFields],
     imposed: dict[str, tuple[float, float, float]],
-) -> np.ndarray:
+    nums: Numbers | None = None,
+):
     """Initial deformations e (ncol,) of one load case: m or rad per basic force."""
-    e = np.zeros(len(topo.columns))
-    for t in initial_deformation_terms(st, topo, particulars, imposed):
+    nums = nums or FloatNumbers(st)
+    e = nums.vector(len(topo.columns))
+    for t in initial_deformation_terms(st, topo, particulars, imposed, nums):
         e[t.column] += t.value
     return e

@@ -21,7 +21,8 @@ from .thresholds import (
     LOCAL_STATE_ACCURACY,
 )
 
-__all__ = ["MemberResult", "CaseResult", "Solution", "EquilibriumCheck", "member_result"]
+__all__ = ["MemberResult", "CaseResult", "Solution", "EquilibriumCheck", "member_result",
+           "basic_force_fields", "end_action"]
 
 #: Machine epsilon of double precision (the unit round-off is half of it).
 EPS = float(np.finfo(float).eps)
@@ -46,11 +47,8 @@ class MemberResult:
 def member_result(st: Structure, topo, mid: str, s: np.ndarray, pf) -> MemberResult:
     """Section-force fields of member ``mid`` for basic forces ``s`` (SI) plus the span-load
     fields ``pf`` (or None): the final member result, or the released structure's."""
-    m = st.members[mid]
     L = st.length(mid)
-    ci = topo.column_index
-    kind = kind_of(m)
-    fields = kind.force_fields(m, L, [s[ci[bf.name]] for bf in kind.basic_forces(m)], 0.0)
+    fields = basic_force_fields(topo, st.members[mid], L, s, 0.0)
     if pf is None:
         return _unloaded_member_result(mid, L, fields)
     cn, cv, cm = pf.n.coef.copy(), pf.v.coef.copy(), pf.m.coef.copy()
@@ -63,6 +61,22 @@ def member_result(st: Structure, topo, mid: str, s: np.ndarray, pf) -> MemberRes
     end = (float(n(L, "left")), float(v(L, "left")), float(mm(L, "left")))
     m_max, m_min = mm.extremes()
     return MemberResult(mid, L, n, v, mm, start, end, m_max, m_min)
+
+
+def basic_force_fields(topo, m, L, s, zero) -> dict:
+    """Section-force fields (coefficients in x, from the start) of member ``m`` of length
+    ``L`` for the basic forces ``s`` (ncol, any number type; ``zero`` its zero), as its
+    kind gives them."""
+    kind = kind_of(m)
+    ci = topo.column_index
+    return kind.force_fields(m, L, [s[ci[bf.name]] for bf in kind.basic_forces(m)], zero)
+
+
+def end_action(sign, n, v, m, c, s) -> tuple:
+    """Force (global x, y) and moment that a member end with section forces n, v, m
+    applies to its joint: ``sign`` +1 at the start (n ex - v ey, with ex = (c, s),
+    ey = (-s, c); +m), -1 at the end. Numbers or arrays of any number type."""
+    return sign * (n * c + v * s), sign * (n * s - v * c), sign * m
 
 
 def _unloaded_member_result(mid: str, L: float, fields: dict) -> MemberResult:
@@ -121,6 +135,10 @@ class CaseResult:
         """The governing equation, and so every equation, is within its tolerance (False
         for a residual that is not a number)."""
         return bool(self.equilibrium_residual <= self.equilibrium_tolerance)
+
+    def member_fields(self, mid: str) -> MemberResult:
+        """The final section-force fields (n, v, m) of member ``mid``."""
+        return self.members[mid]
 
     @staticmethod
     def term_sizes(s0: np.ndarray, size_B, X: np.ndarray, local: bool) -> np.ndarray:
@@ -297,9 +315,10 @@ def _equilibrium(st: Structure, topo, loading, members, reactions,
         for at, sign, (n, v, m), (zn, zv, zm), (wn, wv, wm) in (
                 (start, 1.0, (n0, v0, m0), size[:, :3].T, states[:, :3].T),
                 (end, -1.0, (nL, vL, mL), size[:, 3:].T, states[:, 3:].T)):
-            fx.add(at, sign * (n * c + v * s), zn * ac + zv * as_, wn * ac + wv * as_)
-            fy.add(at, sign * (n * s - v * c), zn * as_ + zv * ac, wn * as_ + wv * ac)
-            mz.add(at, sign * m, zm, wm)
+            ax, ay, am = end_action(sign, n, v, m, c, s)
+            fx.add(at, ax, zn * ac + zv * as_, wn * ac + wv * as_)
+            fy.add(at, ay, zn * as_ + zv * ac, wn * as_ + wv * ac)
+            mz.add(at, am, zm, wm)
         scale = float(np.max(np.abs(ends[:, [0, 1, 3, 4]]), initial=0.0))
         lref = float(max(mr.length for mr in members.values()))
     if loading.nodal_loads:

@@ -13,8 +13,8 @@ from dataclasses import dataclass
 import numpy as np
 from scipy.linalg import lu_factor, lu_solve
 
+from .arithmetic import FloatNumbers, Numbers
 from .basis import Basis
-from .elements import kind_of
 from .errors import MechanismError
 from .fields import ParticularFields
 from .loadkinds import CaseEffects, load_kind
@@ -37,32 +37,29 @@ class CaseLoading:
     loads: tuple  #: every load of the case as given
 
 
-def case_loading(st: Structure, topo: Topology, case: str) -> CaseLoading:
+def case_loading(st: Structure, topo: Topology, case: str,
+                 nums: Numbers | None = None) -> CaseLoading:
     """Assemble the nodal load vector, span-load fields, imposed deformations and
-    settlements of load case ``case``: each load puts its effects on a
-    :class:`leastwork.loadkinds.CaseEffects` through its kind."""
-    loads = tuple(ld for ld in st.loads if ld.case == case)
-    sink = CaseEffects(st, topo, case, 0.0, np.zeros, lambda mid: st.members[mid], st.length,
-                       _end_of)
-    for ld in loads:
-        kind = load_kind(ld)
-        kind.apply(kind.values(ld), ld, sink)
+    settlements of load case ``case`` in the number type of ``nums`` (default SI floats):
+    each load puts its effects on a :class:`leastwork.loadkinds.CaseEffects` through its
+    kind."""
+    nums = nums or FloatNumbers(st)
+    zero = nums.zero
+    loads = tuple((i, ld) for i, ld in enumerate(st.loads) if ld.case == case)
+    sink = CaseEffects(st, topo, case, zero, nums.vector, nums.section, nums.length,
+                       nums.end_of)
+    for i, ld in loads:
+        load_kind(ld).apply(nums.load_values(i, ld), ld, sink)
     particulars: dict[str, ParticularFields] = {}
     for mid in dict.fromkeys([*sink.point, *sink.dist]):
         m = st.members[mid]
-        pf = kind_of(m).particular(m, st.length(mid), st.direction(mid),
-                                   sink.point.get(mid, []), sink.dist.get(mid, []))
+        pf = nums.particular(m, sink.point.get(mid, []), sink.dist.get(mid, []))
         particulars[mid] = pf
-        sink.add_nodal(m.start, *pf.start_force, 0.0)
-        sink.add_nodal(m.end, *pf.end_force, 0.0)
+        sink.add_nodal(m.start, *pf.start_force, zero)
+        sink.add_nodal(m.end, *pf.end_force, zero)
     imposed = {k: (v[0], v[1], v[2]) for k, v in sink.strains.items()}
-    return CaseLoading(case, sink.p, particulars, imposed, sink.c, tuple(sink.nodal), loads)
-
-
-def _end_of(at: float, length: float) -> str | None:
-    """A position within round-off of a member's end is at it."""
-    tol = 1e-12 * max(length, 1.0)
-    return "start" if at <= tol else "end" if at >= length - tol else None
+    return CaseLoading(case, sink.p, particulars, imposed, sink.c, tuple(sink.nodal),
+                       tuple(ld for _, ld in loads))
 
 
 class ReleasedStructure(Basis):
@@ -77,6 +74,12 @@ class ReleasedStructure(Basis):
     """
 
     kind = "released"
+    one = 1.0  #: the unit redundant, in the number type of the basis
+
+    @property
+    def A(self) -> np.ndarray:
+        """The equilibrium matrix (ndof, ncol)."""
+        return self.topo.A
 
     def __init__(self, topo: Topology, redundants: list[int]):
         self.topo = topo
@@ -108,10 +111,9 @@ class ReleasedStructure(Basis):
 
     def unit_redundant_states(self) -> np.ndarray:
         """B (ncol, nred): column i is the state for X_i = 1 with no loads."""
-        A = self.topo.A
-        B = self.forces(A[:, self.redundants])
+        B = self.forces(self.A[:, self.redundants])
         for i, j in enumerate(self.redundants):
-            B[j, i] = 1.0
+            B[j, i] = self.one
         return B
 
     states = unit_redundant_states

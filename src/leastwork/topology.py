@@ -18,10 +18,11 @@ leaves a square non-singular A0.
 from __future__ import annotations
 
 from dataclasses import dataclass
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
+from .arithmetic import FloatNumbers, Numbers
 from .elements import has_bending, kind_of
 from .errors import CaseError, MechanismError
 from .model import Structure, rotational_nodes
@@ -33,7 +34,7 @@ from .thresholds import RANK_ROUND_OFF as _ROUND_OFF
 if TYPE_CHECKING:
     import networkx as nx
 
-__all__ = ["Column", "Topology", "build_topology", "sparse_topology", "assemble_equilibrium", "choose_redundants", "structure_graph",
+__all__ = ["Column", "Topology", "build_topology", "sparse_topology", "assemble_equilibrium", "equilibrium_columns", "choose_redundants", "structure_graph",
            "member_graph_counts", "rank_tolerance", "check_stable"]
 
 
@@ -118,11 +119,11 @@ def member_graph_counts(st: Structure) -> tuple[int, int]:
     return parts, len(st.members) - len(parent) + parts
 
 
-def assemble_equilibrium(st: Structure):
+def equilibrium_columns(st: Structure, nums: Numbers):
     """Rows (nodal directions), columns (basic forces and reactions), restraints, dropped
-    rz restraints and the sparse equilibrium matrix ``A`` (CSC, SI) with ``A s + p = 0``."""
-    import scipy.sparse as sp
-
+    rz restraints, and the entries of each column of the equilibrium matrix ``A``
+    (``A s + p = 0``) as (row name, value) pairs, zeros included, in the number type of
+    ``nums`` (:mod:`leastwork.arithmetic`)."""
     rot = rotational_nodes(st.members.values())
     dofs: list[str] = []
     for nid in st.nodes:
@@ -131,12 +132,13 @@ def assemble_equilibrium(st: Structure):
             dofs.append(f"{nid}.rz")
     dof_index = {d: i for i, d in enumerate(dofs)}
     columns: list[Column] = []
-    entries: list[list[tuple[str, float]]] = []
+    entries: list[list[tuple[str, Any]]] = []
     for m in st.members.values():
         kind = kind_of(m)
         forces = kind.basic_forces(m)
-        for bf, col in zip(forces, kind.equilibrium(m, st.length(m.id), *st.direction(m.id),
-                                                    1.0), strict=True):
+        for bf, col in zip(forces, kind.equilibrium(m, nums.length(m.id),
+                                                    *nums.direction(m.id), nums.one),
+                           strict=True):
             columns.append(Column(bf.name, bf.role, m.id))
             entries.append(col)
     restraints = []
@@ -148,11 +150,21 @@ def assemble_equilibrium(st: Structure):
                 continue
             columns.append(Column(r.name, "reaction", sup.node, len(restraints)))
             restraints.append(r)
-            vx, vy, vr = r.vector
+            vx, vy, vr = nums.restraint_vector(r)
             e = [(f"{sup.node}.x", vx), (f"{sup.node}.y", vy)]
             if vr:
                 e.append((f"{sup.node}.rz", vr))
             entries.append(e)
+    return dofs, dof_index, columns, restraints, dropped, entries
+
+
+def assemble_equilibrium(st: Structure):
+    """Rows (nodal directions), columns (basic forces and reactions), restraints, dropped
+    rz restraints and the sparse equilibrium matrix ``A`` (CSC, SI) with ``A s + p = 0``."""
+    import scipy.sparse as sp
+
+    dofs, dof_index, columns, restraints, dropped, entries = equilibrium_columns(
+        st, FloatNumbers(st))
     rows, cols, vals = [], [], []
     for j, col_entries in enumerate(entries):
         for dof, val in col_entries:

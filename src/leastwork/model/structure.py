@@ -149,19 +149,22 @@ class Support:
     acts: str = "both"
 
 
-def reaction_components(support: Support, value_of) -> dict[str, float]:
+def reaction_components(support: Support, value_of, vector_of=None,
+                        zero=0.0) -> dict[str, float]:
     """The reaction a support applies, in the result's components: ``value_of(restraint)``
     (N, N*m) summed into x, y, rz; an inclined roller's normal force adds its x and y
-    parts and is also given as "n" (its value along the surface normal)."""
+    parts (``vector_of(restraint)``, default its ``vector``) and is also given as "n" (its
+    value along the surface normal). Any number type: ``zero`` is its zero."""
     out: dict[str, float] = {}
     for r in support.restraints:
         val = value_of(r)
         if r.direction == "n":
-            out["x"] = out.get("x", 0.0) + val * r.vector[0]
-            out["y"] = out.get("y", 0.0) + val * r.vector[1]
+            vector = r.vector if vector_of is None else vector_of(r)
+            out["x"] = out.get("x", zero) + val * vector[0]
+            out["y"] = out.get("y", zero) + val * vector[1]
             out["n"] = val
         else:
-            out[r.direction] = out.get(r.direction, 0.0) + val
+            out[r.direction] = out.get(r.direction, zero) + val
     return out
 
 

@@ -16,8 +16,6 @@ import pathlib
 from dataclasses import dataclass, field
 from typing import Any
 
-from ..errors import CaseError
-
 __all__ = ["solve_symbolic", "SymbolicSolution", "SymbolicCase", "SCHEMA"]
 
 SCHEMA = "leastwork.result/1"
@@ -202,18 +200,9 @@ def solve_symbolic(
                "solve it numerically or fix more parameters as numbers")
 
     def work(tick):
-        body = text
-        if body is None:
-            p = pathlib.Path(structure_source)
-            try:
-                body = p.read_text(encoding="utf-8")
-            except FileNotFoundError:
-                raise CaseError("no such file", source=source) from None
-            except IsADirectoryError:
-                raise CaseError("is a folder, expected a case file (.toml)",
-                                source=source) from None
-            except (OSError, UnicodeDecodeError) as exc:
-                raise CaseError(f"cannot be read ({exc})", source=source) from None
+        from ..io.files import read_case_text
+
+        body = read_case_text(structure_source) if text is None else text
         return _solve(body, source, redundants, tuple(extra_displacements), expand_derived,
                       tick, numeric_redundants)
 

@@ -20,6 +20,7 @@ from dataclasses import dataclass
 from typing import Any
 
 import mpmath
+import numpy as np
 import sympy
 from sympy import QQ
 from sympy.polys.fields import field as frac_field
@@ -32,10 +33,11 @@ __all__ = [
     "Piecewise",
     "SparseLU",
     "cramer",
-    "dot",
     "factors",
     "Lin",
     "Closure",
+    "SparseMatrix",
+    "objects",
 ]
 
 _DPS = 60
@@ -349,7 +351,8 @@ class Lin:
             raise TypeError("a product of two values linear in the redundants")
         if isinstance(other, int) and other == 1:
             return self
-        return Lin(a * other for a in self.c)
+        # a unit coefficient (a unit redundant) takes ``other`` as it is: no cancelling
+        return Lin(other if a == 1 else a * other for a in self.c)
 
     __rmul__ = __mul__
 
@@ -498,12 +501,34 @@ def _canonical(K, N, den):
     return K.raw_new(p, q)
 
 
-def dot(a: list, b: list):
-    """sum a_i b_i over the nonzero products (a zero of the type of ``a`` when none)."""
-    total = None
-    for x, y in zip(a, b):
-        if x and y:
-            total = x * y if total is None else total + x * y
-    if total is None:
-        return a[0] - a[0] if a else 0
-    return total
+def objects(shape, fill) -> np.ndarray:
+    """An object array of ``shape`` holding ``fill`` (an element of K) everywhere: the
+    vectors and matrices of the generic core in exact numbers."""
+    out = np.empty(shape, dtype=object)
+    out.fill(fill)
+    return out
+
+
+class SparseMatrix:
+    """A square matrix over K kept by its nonzero entries (the flexibility F), with
+    ``F @ v`` for a vector or a matrix (object arrays) that skips zero products."""
+
+    def __init__(self, n: int, zero):
+        self.n, self.zero = n, zero
+        self.entries: dict[tuple[int, int], Any] = {}
+
+    def add(self, a: int, b: int, v) -> None:
+        """F[a, b] += v."""
+        self.entries[(a, b)] = self.entries.get((a, b), self.zero) + v
+
+    def __matmul__(self, v: np.ndarray) -> np.ndarray:
+        if v.ndim == 2:
+            out = objects(v.shape, self.zero)
+            for k in range(v.shape[1]):
+                out[:, k] = self @ v[:, k]
+            return out
+        out = objects(self.n, self.zero)
+        for (a, b), f in self.entries.items():
+            if v[b]:
+                out[a] = out[a] + f * v[b]
+        return out

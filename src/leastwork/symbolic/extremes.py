@@ -17,11 +17,11 @@ import mpmath
 
 from ..errors import CaseError
 from ..polynomials import poly_derivative, poly_divmod, poly_eval, poly_trim
+from ..thresholds import EXTREME_TIE
 from .algebra import Algebra, Closure, Piecewise
 
 __all__ = ["RootValue", "QuadraticValue", "member_result"]
 
-_TIE = 1e-12  # relative tie of moment extremes, as the numeric solver
 #: a moment at a root of dm/dx is made one fraction when its parts have at most this many
 #: terms (beyond, the exact fraction costs much more than it helps reading)
 _COMBINE_TERMS = 12
@@ -72,9 +72,9 @@ def member_result(alg: Algebra, closure: Closure, L, n: Piecewise, v: Piecewise,
     vals = [cv[2] for cv in cands]
     scale = max(max(abs(v) for v in vals), mpmath.mpf("1e-300"))
     top, bot = max(vals), min(vals)
-    imax = min((i for i, v in enumerate(vals) if v >= top - _TIE * scale),
+    imax = min((i for i, v in enumerate(vals) if v >= top - EXTREME_TIE * scale),
                key=lambda i: cands[i][1])
-    imin = min((i for i, v in enumerate(vals) if v <= bot + _TIE * scale),
+    imin = min((i for i, v in enumerate(vals) if v <= bot + EXTREME_TIE * scale),
                key=lambda i: cands[i][1])
     xmax, vmax = cands[imax][0]()
     xmin, vmin = cands[imin][0]()
