@@ -200,15 +200,21 @@ def envelope_numbers(sol, env: dict | None = None) -> dict | None:
     env = sol.combination_envelope if env is None else env
     if env is None:
         return None
-    q = quantities(sol.units)
-    Ff, Lf, Mf = q.factor("force"), q.factor("length"), q.factor("moment")
-    fac = {"n": Ff, "v": Ff, "m": Mf}
+    Lf = quantities(sol.units).factor("length")
+    rounding: dict[str, _RoundOff] = {}
+
+    def out(v: float, c: str, moment: bool) -> float | None:
+        """In the output units, round-off of the governing combination as zero."""
+        r = rounding.get(c) or rounding.setdefault(c, _RoundOff(sol, sol.cases[c]))
+        return r.moment(v) if moment else r.force(v)
+
     members = {
-        mid: {k: {side: {"value": number(v / fac[k]), "at": number(at / Lf), "combination": c}
+        mid: {k: {side: {"value": out(v, c, k == "m"), "at": number(at / Lf),
+                         "combination": c}
                   for side, (v, at, c) in e.items()} for k, e in qs.items()}
         for mid, qs in env["members"].items()}
     reactions_ = {
-        node: {d: {side: {"value": number(v / (Mf if d == "rz" else Ff)), "combination": c}
+        node: {d: {side: {"value": out(v, c, d == "rz"), "combination": c}
                    for side, (v, c) in e.items()} for d, e in ds.items()}
         for node, ds in env["reactions"].items()}
     return {"combinations": list(env["combinations"]), "members": members,
