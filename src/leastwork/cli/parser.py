@@ -20,8 +20,9 @@ Solve statically indeterminate 2D beams, trusses, frames and beam-and-tie struct
 least-work (force) method, showing every step.
 
 Assumptions: linear elastic material, small displacements, plane structure; the energy of
-bending and axial force (shear only when asked) and of springs. Results must be checked by
-a qualified engineer against the governing local codes before use.
+bending and axial force (shear only when asked), of springs and semi-rigid joints; one-way
+ties, struts and bearings found by repeated linear solves, one state per load case. Results
+must be checked by a qualified engineer against the governing local codes before use.
 """
 
 

@@ -32,7 +32,14 @@ def energy_terms(st: Structure) -> str:
         terms.append("shear (beams)")
     if any(r.is_spring for s in st.supports.values() for r in s.restraints):
         terms.append("support springs")
+    if any(k is not None for m in members for k in m.end_springs):
+        terms.append("semi-rigid joints (M²/2k)")
     text = "Energy terms included: " + ", ".join(terms) + "."
+    if any(m.acts != "both" for m in members) or any(
+            s.acts != "both" for s in st.supports.values()):
+        text += (" One-way members and supports (acts): each load case and combination is "
+                 "solved again until every one acts as it may; results are not superposed "
+                 "across states.")
     rigid = [m.id for m in members if m.is_beam and m.EA is None]
     if rigid:
         text += f" Axially rigid (no area given): {', '.join(rigid)}."
