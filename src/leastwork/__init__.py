@@ -23,17 +23,20 @@ Results must be checked by a qualified engineer against the governing local code
 """
 
 from .errors import CaseError, LeastworkError, MechanismError
-from .io.reader import load_case, loads_case
+from .io.reader import load_case, loads_case, structure
 from .model import Structure
 from .solution import Solution
 from .solve import solve
 from .studies.reanalysis import reanalyse
+from .studies.sweep import sweep
 
 __all__ = [
     "load_case",
     "loads_case",
+    "structure",
     "solve",
     "reanalyse",
+    "sweep",
     "Structure",
     "Solution",
     "CaseError",

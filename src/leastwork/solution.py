@@ -492,3 +492,74 @@ class Solution:
         from .output.json_result import solution_to_dict
 
         return solution_to_dict(self)
+
+    # ------------------------------------------------------------------ from Python
+    # Each method below hands the solution to the output layer (imported when called).
+
+    def __repr__(self) -> str:
+        from .output.notebook import short_repr
+
+        return short_repr(self)
+
+    def _repr_html_(self) -> str:
+        from .output.notebook import html_repr
+
+        return html_repr(self)
+
+    def to_frames(self, case: str | None = None) -> dict:
+        """pandas DataFrames of a load case in the output units: ``"reactions"`` (index:
+        node; columns: directions), ``"members"`` (index: member; columns ``start.n`` ...
+        ``end.m``, ``m_max``, ``m_max.at`` ...), ``"displacements"``, ``"redundants"``.
+        ``case=None``: the only load case, or all with the case as the first index level.
+        Needs pandas (``pip install leastwork[frames]``).
+
+        >>> import leastwork
+        >>> sol = leastwork.solve(leastwork.load_case("cases/canopy-prop.toml"))
+        >>> f = sol.to_frames()  # doctest: +SKIP
+        """
+        from .output.frames import solution_frames
+
+        return solution_frames(self, case)
+
+    def reaction(self, node: str, direction: str, case: str | None = None) -> float:
+        """Reaction ``direction`` ("x", "y", "rz", "n") at ``node``, output units."""
+        from .output.accessors import reaction
+
+        return reaction(self, node, direction, case)
+
+    def section_force(self, member: str, quantity: str, at: float,
+                      case: str | None = None) -> float:
+        """Section force ``quantity`` ("n", "v", "m") of ``member`` at ``at`` (case length
+        unit from its start node), output units."""
+        from .output.accessors import section_force
+
+        return section_force(self, member, quantity, at, case)
+
+    def displacement(self, target: str, case: str | None = None) -> float:
+        """Displacement ``target`` (``B.y``, ``AB@2.5.y``, ``A-C``...), output units."""
+        from .output.accessors import displacement
+
+        return displacement(self, target, case)
+
+    def plot(self, case: str | None = None, diagrams=("structure", "n", "v", "m",
+                                                        "deflected")):
+        """The diagrams of a load case (default: the only or first one) as a matplotlib
+        Figure."""
+        from .output.plot import parse_diagrams
+        from .output.plot.figure import figure
+
+        name = case if case is not None else next(iter(self.cases))
+        return figure(self, [name], parse_diagrams(diagrams))
+
+    def report(self, path, case: str | None = None, *, force: bool = False) -> None:
+        """Write the calculation sheet to ``path``: HTML (``.html``) or Markdown (``.md``,
+        with its images beside it). An existing file is replaced only with ``force``."""
+        from .output.sheet_files import write_report
+
+        write_report(self, path, None if case is None else [case], force=force)
+
+    def steps(self, case: str | None = None) -> str:
+        """The whole audit trail as Markdown text."""
+        from .output.sheet_files import steps_markdown
+
+        return steps_markdown(self, None if case is None else [case])

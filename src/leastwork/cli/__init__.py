@@ -18,7 +18,7 @@ import sys
 from collections.abc import Callable
 
 from ..errors import CaseError, MechanismError
-from . import check, drawing, solve, starters, studies
+from . import check, drawing, solve, starters, studies, sweep
 from .common import version
 from .parser import DESCRIPTION, Parser
 from .progress import PhaseDisplay
@@ -33,7 +33,7 @@ def build_parser() -> argparse.ArgumentParser:
                formatter_class=argparse.RawDescriptionHelpFormatter)
     p.add_argument("--version", action="version", version=version())
     sub = p.add_subparsers(dest="command", parser_class=Parser)
-    for family in (solve, check, starters, drawing, studies):
+    for family in (solve, check, starters, drawing, studies, sweep):
         family.add_parsers(sub)
     return p
 
@@ -49,6 +49,7 @@ COMMANDS: dict[str, Callable[[argparse.Namespace], int]] = {
     "report": drawing.run,
     "fitup": studies.run_fitup,
     "influence": studies.run_influence,
+    "sweep": sweep.run,
 }
 
 

@@ -24,7 +24,7 @@ from .patterns import read_envelopes, read_patterns
 from .quantities import SI_LIMIT
 from .supports import read_supports
 
-__all__ = ["load_case", "loads_case", "read_structure"]
+__all__ = ["load_case", "loads_case", "read_structure", "structure"]
 
 _TABLES = (
     "structure", "parameters", "materials", "sections", "defaults", "nodes", "beams",
@@ -47,6 +47,35 @@ def load_case(path: str | Path) -> Structure:
 def loads_case(text: str, source: str = "<string>") -> Structure:
     """Read a case from TOML text; ``source`` names it in error messages."""
     return read_structure(CaseReader(parse_toml(text, source), source))
+
+
+def structure(source: str = "<python>", **tables) -> Structure:
+    """A structure built in code: each keyword is a table of a case file, with the same
+    keys, units and checks (docs/case-format.md); ``loads`` is the list of ``[[loads]]``
+    entries. A bad value is a CaseError naming the table and key.
+
+    Parameters
+    ----------
+    source : str
+        Its name in messages.
+    **tables
+        ``structure``, ``parameters``, ``materials``, ``sections``, ``defaults``, ``nodes``,
+        ``beams``, ``bars``, ``supports``, ``loads``, ``combinations``, ``analysis``...
+
+    Examples
+    --------
+    >>> import leastwork
+    >>> st = leastwork.structure(
+    ...     structure={"name": "lintel", "units": {"force": "kN", "length": "m"}},
+    ...     nodes={"A": [0, 0], "B": [4.8, 0]},
+    ...     beams={"AB": {"nodes": ["A", "B"], "EI": "8500 kN*m^2"}},
+    ...     supports={"A": "fixed", "B": "roller"},
+    ...     loads=[{"member": "AB", "wy": "-14 kN/m"}])
+    >>> sol = leastwork.solve(st)
+    >>> round(sol.reaction("B", "y"), 6)  # 3wL/8
+    25.2
+    """
+    return read_structure(CaseReader(dict(tables), source))
 
 
 def read_structure(reader: CaseReader) -> Structure:

@@ -80,7 +80,15 @@ def reanalyse(previous: Solution, structure: Structure, *, verify: bool | None =
     layout = layout_warnings(st, topo, released.stability_basis(B))
     notes = [*layout, *soft_spring_warnings(st, topo, B),
              *cross_check(st, results, solver.cond, verify)]
-    return Solution(st, topo, red, previous.chosen_by_user, B, F, delta, results,
-                    warnings=tuple(solver.warnings + notes), released=previous.released,
-                    condition=solver.cond, flexibility_solver=solver, basis=previous.basis,
-                    long_range_states=previous.long_range_states)
+    sol = Solution(st, topo, red, previous.chosen_by_user, B, F, delta, results,
+                   warnings=tuple(solver.warnings + notes), released=previous.released,
+                   condition=solver.cond, flexibility_solver=solver, basis=previous.basis,
+                   long_range_states=previous.long_range_states)
+    if any(m.acts != "both" for m in st.members.values()) or any(
+            s.acts != "both" for s in st.supports.values()):
+        from ..one_way import settle
+        from ..solve import _solve_as_given
+
+        sol = settle(st, sol, lambda s: _solve_as_given(s, None, verify=verify,
+                                                        basis=previous.basis))
+    return sol

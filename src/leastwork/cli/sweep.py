@@ -1,0 +1,156 @@
+"""``leastwork sweep``: a case solved for every combination of parameter values, one row of
+results per combination (:mod:`leastwork.studies.sweep`)."""
+
+from __future__ import annotations
+
+import argparse
+import json
+import sys
+
+from ..errors import CaseError
+from .common import console_for
+from .parser import DESCRIPTION
+
+__all__ = ["add_parsers", "run"]
+
+_HELP = DESCRIPTION + """
+Every combination of the values given by --vary (COUNT values from START to STOP, both
+included; each NAME a [parameters] name) is solved; each row gives the values and the
+quantities asked for, in the case's output units. Samples that change only sections,
+springs or loads reuse the previous sample's structure; a moved node is solved afresh.
+Quantities: B.y (reaction), BC (a member's axial force), AB.start.m / AB.end.n,
+AB.m_max / AB.m_min, d:B.y or d:AB@2.5.y (displacements, the --at names).
+"""
+
+
+def add_parsers(sub) -> None:
+    """Add the ``sweep`` subcommand to ``sub``."""
+    s = sub.add_parser("sweep", help="solve a case over ranges of its parameters",
+                       description=_HELP, formatter_class=argparse.RawDescriptionHelpFormatter)
+    s.add_argument("case", help="case file (TOML) with [parameters]")
+    s.add_argument("--vary", action="append", required=True, metavar="NAME=START..STOP:COUNT",
+                   help="a parameter and its values, e.g. k=1000..5000:5 (repeat for more)")
+    s.add_argument("--quantity", required=True, metavar="Q[,Q...]",
+                   help="results to report, e.g. B.y,AB.start.m,d:B.y")
+    s.add_argument("--case", dest="load_case", metavar="NAME",
+                   help="load case (default: the first one)")
+    s.add_argument("--json", action="store_true", help="print the rows as JSON")
+    s.add_argument("-o", "--output", metavar="FILE",
+                   help="write the rows to FILE.csv (or FILE.parquet with pyarrow)")
+    s.add_argument("--force", action="store_true", help="replace FILE if it exists")
+    s.add_argument("--workers", type=int, default=1, metavar="N",
+                   help="local worker processes (default 1)")
+    s.add_argument("--scheduler", metavar="ADDRESS",
+                   help="run the samples on the Dask cluster at ADDRESS (tcp://host:8786)")
+    s.add_argument("--no-color", action="store_true", help="plain text, no colours")
+
+
+def run(args) -> int:
+    """``leastwork sweep``; returns the exit status (errors are raised as CaseError)."""
+    from ..io.files import read_case_text
+    from ..studies.sweep import parse_vary, plan, quantity_units, run_plan
+
+    if not 1 <= args.workers <= 256:
+        raise CaseError(f"expected 1 to 256 workers, got {args.workers}",
+                        source="command line", where="--workers")
+    vary = dict(parse_vary(v) for v in args.vary)
+    quantities = [q.strip() for q in args.quantity.split(",") if q.strip()]
+    p = plan(read_case_text(args.case), args.case, vary, quantities, args.load_case)
+    with _bar(len(p.samples)) as tick:
+        rows = run_plan(p, workers=args.workers, scheduler=args.scheduler, progress=tick)
+    if args.output:
+        _write(rows, args)
+    units = quantity_units(p)
+    if args.json:
+        sys.stdout.write(json.dumps({"rows": rows, "units": units}, indent=2) + "\n")
+        return 0
+    _table(console_for(args), rows, p, units)
+    return 0
+
+
+class _bar:
+    """A progress bar of the samples on standard error, only on a terminal."""
+
+    def __init__(self, total: int):
+        self.total, self._bar, self._task = total, None, None
+
+    def __enter__(self):
+        if sys.stderr.isatty():
+            from rich.console import Console
+            from rich.progress import Progress
+
+            self._bar = Progress(console=Console(stderr=True), transient=True)
+            self._bar.__enter__()
+            self._task = self._bar.add_task("samples", total=self.total)
+        return self.tick
+
+    def tick(self, done: int, total: int) -> None:
+        if self._bar is not None:
+            self._bar.update(self._task, completed=done)
+
+    def __exit__(self, *exc):
+        if self._bar is not None:
+            self._bar.__exit__(*exc)
+        return False
+
+
+def _write(rows: list[dict], args) -> None:
+    import io
+    import pathlib
+
+    from ..io.writing import write_files
+
+    out = pathlib.Path(args.output)
+    suffix = out.suffix.lower()
+    if suffix == ".csv":
+        import csv
+
+        keys = list(dict.fromkeys(k for r in rows for k in r))
+        buf = io.StringIO()
+        w = csv.DictWriter(buf, fieldnames=keys)
+        w.writeheader()
+        w.writerows(rows)
+        data: str | bytes = buf.getvalue()
+    elif suffix == ".parquet":
+        try:
+            import pandas as pd
+            import pyarrow  # noqa: F401
+        except ImportError:
+            raise CaseError("a .parquet file needs pandas and pyarrow (pip install pyarrow); "
+                            "or write .csv", source="command line", where="--output") from None
+        buf = io.BytesIO()
+        pd.DataFrame(rows).to_parquet(buf)
+        data = buf.getvalue()
+    else:
+        raise CaseError(f'cannot write rows to "{out.name}": name it .csv or .parquet',
+                        source="command line", where="--output")
+    write_files({out: data}, force=args.force, case=args.case)
+
+
+def _table(console, rows: list[dict], p, units: dict[str, str]) -> None:
+    from rich.table import Table
+
+    from ..output.terminal import print_fitted, user_text
+
+    t = Table(title=user_text(f"Sweep of {', '.join(p.names)}: {len(rows)} samples"),
+              header_style="bold")
+    keys = [*p.names, *p.quantities]
+    for k in keys:
+        t.add_column(user_text(f"{k} [{units[k]}]" if k in units else k), justify="right")
+    failed = [r for r in rows if "error" in r]
+    for r in rows:
+        t.add_row(*(user_text(_cell(r.get(k))) for k in keys))
+    print_fitted(console, t)
+    for r in failed[:5]:
+        console.print(user_text(f"FAILED {', '.join(f'{n}={r[n]}' for n in p.names)}: "
+                                f"{r['error']}", "red"))
+    console.print("Results must be checked by a qualified engineer against the governing "
+                  "codes.")
+
+
+def _cell(v) -> str:
+    if v is None:
+        return "-"
+    if isinstance(v, float):
+        return f"{v:.5g}"
+    return str(v)
