@@ -118,3 +118,56 @@ def test_bad_sweeps_are_one_line(case_file, args, words):
                          capture_output=True, text=True)
     assert out.returncode == 2 and words in out.stderr, out.stderr
     assert len(out.stderr.strip().splitlines()) == 1
+
+
+BAY = """
+[structure]
+name = "braced bay"
+units = { force = "kN", length = "m" }
+[nodes]
+A = [0, 0]
+B = [4, 0]
+C = [4, 3]
+D = [0, 3]
+[bars]
+AD = { nodes = ["A", "D"], EA = "400000 kN" }
+BC = { nodes = ["B", "C"], EA = "400000 kN" }
+CD = { nodes = ["C", "D"], EA = "400000 kN" }
+AC = { nodes = ["A", "C"], EA = "60000 kN" }
+BD = { nodes = ["B", "D"], EA = "60000 kN" }
+[supports]
+A = "pinned"
+B = "pinned"
+"""
+
+
+def test_random_lengths_spread_as_the_linear_theory(tmp_path):
+    # lengths within +-1 mm, uniform, no loads: the locked-in force of a diagonal has mean
+    # 0 and the standard deviation of the linear fit-up theory, sqrt(sum (G_k t_k)^2 / 3)
+    # (exact_std); 1500 samples estimate a spread to about 2 % (1/sqrt(2N))
+    from leastwork.studies.fitup import fitup_study
+
+    path = tmp_path / "bay.toml"
+    path.write_text(BAY)
+    frame = leastwork.random_study(path, ["AC"], 1500, lengths="*=1mm", seed=7)
+    sol = leastwork.solve(leastwork.load_case(path))
+    study = fitup_study(sol, {m: 0.001 for m in sol.structure.members}, samples=10, seed=1)
+    q = study.quantities.names.index("AC")
+    theory = study.std_exact[q] / 1000.0  # kN
+    assert frame["AC"].std() == pytest.approx(theory, rel=0.08)
+    assert abs(frame["AC"].mean()) < 4 * theory / 1500**0.5
+    assert frame.attrs["seed"] == 7
+
+
+def test_random_positions_scatter_about_the_nominal_answer(tmp_path):
+    # nodes within +-0.05 mm on a loaded bay: the responses stay within a hair of the
+    # nominal solve (linear for small changes) and differ from sample to sample
+    path = tmp_path / "bay.toml"
+    path.write_text(BAY + '\n[[loads]]\nnode = "D"\nfx = "10 kN"\n')
+    nominal = leastwork.solve(leastwork.load_case(path)).to_dict()["cases"]["default"]
+    frame = leastwork.random_study(path, ["A.x", "AC"], 40, positions="*=0.05mm", seed=3)
+    assert frame["AC"].std() > 0
+    assert abs(frame["AC"].mean() - nominal["members"]["AC"]["start"]["n"]) < 1e-3 * 10
+    same = leastwork.random_study(path, ["A.x", "AC"], 40, positions="*=0.05mm", seed=3,
+                                  workers=2)
+    assert same.equals(frame)

@@ -28,7 +28,7 @@ from .model import Structure
 from .solution import Solution
 from .solve import solve
 from .studies.reanalysis import reanalyse
-from .studies.sweep import sweep
+from .studies.sweep import random_study, sweep
 
 __all__ = [
     "load_case",
@@ -37,6 +37,7 @@ __all__ = [
     "solve",
     "reanalyse",
     "sweep",
+    "random_study",
     "Structure",
     "Solution",
     "CaseError",

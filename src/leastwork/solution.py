@@ -507,22 +507,58 @@ class Solution:
         return html_repr(self)
 
     def to_frames(self, case: str | None = None) -> dict:
-        """pandas DataFrames of a load case in the output units: ``"reactions"`` (index:
-        node; columns: directions), ``"members"`` (index: member; columns ``start.n`` ...
-        ``end.m``, ``m_max``, ``m_max.at`` ...), ``"displacements"``, ``"redundants"``.
-        ``case=None``: the only load case, or all with the case as the first index level.
-        Needs pandas (``pip install leastwork[frames]``).
+        """pandas DataFrames of a load case in the output units.
 
+        Parameters
+        ----------
+        case : str, optional
+            The load case; default the only one, or every case with the case name as the
+            first level of each index.
+
+        Returns
+        -------
+        dict
+            ``"reactions"`` (index: node; columns: directions), ``"members"`` (index:
+            member; columns ``start.n`` ... ``end.m``, ``m_max``, ``m_max.at`` ...),
+            ``"displacements"``, ``"redundants"``. Needs pandas
+            (``pip install leastwork[frames]``).
+
+        Examples
+        --------
         >>> import leastwork
-        >>> sol = leastwork.solve(leastwork.load_case("cases/canopy-prop.toml"))
-        >>> f = sol.to_frames()  # doctest: +SKIP
+        >>> sol = leastwork.solve(leastwork.structure(
+        ...     nodes={"A": [0, 0], "B": [5, 0]},
+        ...     beams={"AB": {"nodes": ["A", "B"], "EI": "9000 kN*m^2"}},
+        ...     supports={"A": "fixed", "B": "roller"},
+        ...     loads=[{"member": "AB", "wy": "-8 kN/m"}]))
+        >>> frames = sol.to_frames()
+        >>> round(float(frames["reactions"].loc["B", "y"]), 9)  # 3wL/8
+        15.0
+        >>> round(float(frames["members"].loc["AB", "start.m"]), 9)  # -wL^2/8
+        -25.0
         """
         from .output.frames import solution_frames
 
         return solution_frames(self, case)
 
     def reaction(self, node: str, direction: str, case: str | None = None) -> float:
-        """Reaction ``direction`` ("x", "y", "rz", "n") at ``node``, output units."""
+        """Reaction ``direction`` ("x", "y", "rz", "n") at ``node``, output units.
+
+        Examples
+        --------
+        >>> import leastwork
+        >>> sol = leastwork.solve(leastwork.structure(
+        ...     nodes={"A": [0, 0], "B": [5, 0]},
+        ...     beams={"AB": {"nodes": ["A", "B"], "EI": "9000 kN*m^2"}},
+        ...     supports={"A": "fixed", "B": "roller"},
+        ...     loads=[{"member": "AB", "wy": "-8 kN/m"}]))
+        >>> round(sol.reaction("A", "rz"), 9)  # wL^2/8, counter-clockwise
+        25.0
+        >>> round(sol.section_force("AB", "m", 3.125), 6)  # largest sagging, 9wL^2/128
+        14.0625
+        >>> round(sol.displacement("B.rz") * 9000 / (8 * 5**3), 6)  # wL^3/48EI
+        0.020833
+        """
         from .output.accessors import reaction
 
         return reaction(self, node, direction, case)

@@ -28,8 +28,18 @@ def add_parsers(sub) -> None:
     s = sub.add_parser("sweep", help="solve a case over ranges of its parameters",
                        description=_HELP, formatter_class=argparse.RawDescriptionHelpFormatter)
     s.add_argument("case", help="case file (TOML) with [parameters]")
-    s.add_argument("--vary", action="append", required=True, metavar="NAME=START..STOP:COUNT",
+    s.add_argument("--vary", action="append", metavar="NAME=START..STOP:COUNT",
                    help="a parameter and its values, e.g. k=1000..5000:5 (repeat for more)")
+    s.add_argument("--random", type=int, metavar="N",
+                   help="instead of --vary: N samples of random node positions and member "
+                        "lengths within --positions / --tolerance, each solved in full")
+    s.add_argument("--positions", metavar="SPEC",
+                   help="node position tolerances, e.g. A=1mm,*=3mm (each of x and y "
+                        "within +-t)")
+    s.add_argument("--tolerance", metavar="SPEC",
+                   help="member length tolerances, e.g. DA=2mm,*=1mm (misfits in the load "
+                        "case)")
+    s.add_argument("--seed", type=int, metavar="S", help="seed of a random study")
     s.add_argument("--quantity", required=True, metavar="Q[,Q...]",
                    help="results to report, e.g. B.y,AB.start.m,d:B.y")
     s.add_argument("--case", dest="load_case", metavar="NAME",
@@ -53,18 +63,45 @@ def run(args) -> int:
     if not 1 <= args.workers <= 256:
         raise CaseError(f"expected 1 to 256 workers, got {args.workers}",
                         source="command line", where="--workers")
-    vary = dict(parse_vary(v) for v in args.vary)
     quantities = [q.strip() for q in args.quantity.split(",") if q.strip()]
-    p = plan(read_case_text(args.case), args.case, vary, quantities, args.load_case)
+    text = read_case_text(args.case)
+    seed = None
+    if args.random is not None:
+        if args.vary:
+            raise CaseError("give --vary or --random, not both", source="command line",
+                            where="--random")
+        from ..studies.random_study import random_plan
+
+        p, seed = random_plan(text, args.case, quantities, args.random,
+                              positions=args.positions, lengths=args.tolerance,
+                              seed=args.seed, case=args.load_case)
+    else:
+        if not args.vary:
+            raise CaseError("give --vary NAME=START..STOP:COUNT (or --random N)",
+                            source="command line", where="--vary")
+        vary = dict(parse_vary(v) for v in args.vary)
+        p = plan(text, args.case, vary, quantities, args.load_case)
     with _bar(len(p.samples)) as tick:
         rows = run_plan(p, workers=args.workers, scheduler=args.scheduler, progress=tick)
     if args.output:
         _write(rows, args)
     units = quantity_units(p)
+    stats = None
+    if seed is not None:
+        from ..studies.random_study import summary
+
+        stats = summary(rows, list(p.quantities))
     if args.json:
-        sys.stdout.write(json.dumps({"rows": rows, "units": units}, indent=2) + "\n")
+        out: dict = {"rows": rows, "units": units}
+        if stats is not None:
+            out.update(seed=seed, summary=stats)
+        sys.stdout.write(json.dumps(out, indent=2) + "\n")
         return 0
-    _table(console_for(args), rows, p, units)
+    console = console_for(args)
+    if stats is not None:
+        _stats_table(console, stats, units, seed, len(rows))
+        return 0
+    _table(console, rows, p, units)
     return 0
 
 
@@ -144,6 +181,24 @@ def _table(console, rows: list[dict], p, units: dict[str, str]) -> None:
     for r in failed[:5]:
         console.print(user_text(f"FAILED {', '.join(f'{n}={r[n]}' for n in p.names)}: "
                                 f"{r['error']}", "red"))
+    console.print("Results must be checked by a qualified engineer against the governing "
+                  "codes.")
+
+
+def _stats_table(console, stats: dict, units: dict, seed: int, n: int) -> None:
+    from rich.table import Table
+
+    from ..output.terminal import print_fitted, user_text
+
+    t = Table(title=f"Random study: {n} samples, seed {seed} (rows: --json or -o)",
+              header_style="bold")
+    for head in ("quantity", "mean", "std", "p05", "p95", "solved"):
+        t.add_column(head, justify="left" if head == "quantity" else "right")
+    for q, s in stats.items():
+        t.add_row(user_text(f"{q} [{units[q]}]"), *(_cell(s[k]) for k in
+                                                    ("mean", "std", "p05", "p95")),
+                  str(s["samples"]))
+    print_fitted(console, t)
     console.print("Results must be checked by a qualified engineer against the governing "
                   "codes.")
 

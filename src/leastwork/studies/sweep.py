@@ -25,7 +25,7 @@ from ..errors import CaseError, LeastworkError
 from ..plaintext import ECHO_LIMIT, literal
 
 __all__ = ["SweepPlan", "parse_vary", "plan", "run_chunk", "run_plan", "sweep",
-           "quantity_units", "SAMPLES_LIMIT"]
+           "random_study", "quantity_units", "SAMPLES_LIMIT"]
 
 #: Most samples one sweep solves.
 SAMPLES_LIMIT = 100_000
@@ -46,6 +46,9 @@ class SweepPlan:
     names: tuple[str, ...]
     samples: tuple[tuple, ...]
     quantities: tuple[str, ...]
+    #: random studies: per sample, ((node, dx, dy), ...) and ((member, misfit), ...) in m,
+    #: applied after reading (:mod:`.random_study`); None for a parameter sweep
+    perturbations: tuple | None = None
 
 
 def parse_vary(spec: str) -> tuple[str, list]:
@@ -94,16 +97,22 @@ def plan(text: str, source: str, vary: dict[str, list], quantities: list[str],
     return SweepPlan(text, source, case, names, samples, tuple(quantities))
 
 
-def _structure(p: SweepPlan, values: tuple):
-    """The case with the parameters of one sample set, read and checked like a file."""
+def _structure(p: SweepPlan, values: tuple, index: int = 0):
+    """The case with the parameters of one sample set (and, in a random study, its nodes
+    moved and its members made too long or short), read and checked like a file."""
     from ..io.core import CaseReader
     from ..io.files import parse_toml
     from ..io.reader import read_structure
 
     data = parse_toml(p.text, p.source)
-    data.setdefault("parameters", {})
-    data["parameters"].update(zip(p.names, values, strict=True))
+    if p.perturbations is None:
+        data.setdefault("parameters", {})
+        data["parameters"].update(zip(p.names, values, strict=True))
     st = read_structure(CaseReader(data, p.source))
+    if p.perturbations is not None:
+        from .random_study import perturbed
+
+        st = perturbed(st, p.perturbations[index], p.case)
     wanted = [q[2:] for q in p.quantities if q.startswith("d:")]
     if wanted:
         st = replace(st, displacements=tuple(dict.fromkeys([*st.displacements, *wanted])))
@@ -155,10 +164,11 @@ def run_chunk(p: SweepPlan, first: int, count: int) -> list[dict]:
     from ..studies.reanalysis import reanalyse
 
     rows, previous = [], None
-    for values in p.samples[first:first + count]:
+    for index in range(first, first + count):
+        values = p.samples[index]
         row: dict = dict(zip(p.names, values, strict=True))
         try:
-            st = _structure(p, values)
+            st = _structure(p, values, index)
             sol = None
             if previous is not None:
                 try:
@@ -259,3 +269,23 @@ def sweep(case, vary: dict[str, list], quantities: list[str], *, scheduler=None,
     p = plan(text, str(path), {k: list(v) for k, v in vary.items()}, list(quantities),
              load_case)
     return pd.DataFrame(run_plan(p, workers=workers, scheduler=scheduler))
+
+
+def random_study(case, quantities: list[str], samples: int, *, positions: str | None = None,
+                 lengths: str | None = None, seed: int | None = None, scheduler=None,
+                 workers: int = 1, load_case: str | None = None):
+    """A random tolerance study from Python (:mod:`.random_study`): node positions within
+    ``positions`` ("*=3mm") and member lengths within ``lengths`` ("*=1mm") drawn afresh
+    for each of ``samples`` full solves. Returns a pandas DataFrame (a row per sample; the
+    seed in ``frame.attrs["seed"]``)."""
+    import pandas as pd
+
+    from ..io.files import read_case_text
+    from .random_study import random_plan
+
+    path = getattr(case, "source", case)
+    p, used = random_plan(read_case_text(path), str(path), list(quantities), samples,
+                          positions=positions, lengths=lengths, seed=seed, case=load_case)
+    frame = pd.DataFrame(run_plan(p, workers=workers, scheduler=scheduler))
+    frame.attrs["seed"] = used
+    return frame
