@@ -141,12 +141,28 @@ def _value(entry: dict, q: str, where: str) -> float | None:
                     "or a displacement d:B.y", source=_SOURCE, where=where)
 
 
+def _magnitude(value):
+    """A parameter value as a row shows it: the number of a quantity string ("2000.0 kN/m"
+    -> 2000.0; its unit is in :func:`quantity_units`)."""
+    if isinstance(value, str):
+        head = value.split()[0] if value.split() else value
+        try:
+            return float(head)
+        except ValueError:
+            return value
+    return value
+
+
 def quantity_units(p: SweepPlan) -> dict[str, str]:
-    """The output unit of each quantity (those of the case's first sample)."""
+    """The unit of each varied parameter given with one, and the output unit of each
+    quantity (those of the case's first sample)."""
     from ..output.quantities import quantities
 
     q = quantities(_structure(p, p.samples[0]).units)
     out = {}
+    for name, value in zip(p.names, p.samples[0], strict=True):
+        if isinstance(value, str) and len(value.split()) > 1:
+            out[name] = value.split(maxsplit=1)[1]
     for name in p.quantities:
         if name.startswith("d:"):
             out[name] = "rad" if name.endswith(".rz") else q.displacement_unit
@@ -166,7 +182,7 @@ def run_chunk(p: SweepPlan, first: int, count: int) -> list[dict]:
     rows, previous = [], None
     for index in range(first, first + count):
         values = p.samples[index]
-        row: dict = dict(zip(p.names, values, strict=True))
+        row: dict = {n: _magnitude(v) for n, v in zip(p.names, values, strict=True)}
         try:
             st = _structure(p, values, index)
             sol = None
