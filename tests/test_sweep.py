@@ -86,6 +86,29 @@ def test_the_same_rows_everywhere(case_file):
         assert run_plan(p, scheduler=client) == one
 
 
+def test_a_cluster_that_cannot_run_the_samples_is_one_line(case_file, monkeypatch):
+    # a cluster whose workers lack leastwork fails on every chunk: one located line, not a
+    # traceback, and samples are not reported as solved
+    distributed = pytest.importorskip("dask.distributed")
+    from leastwork.errors import CaseError
+    from leastwork.studies import sweep as sweep_module
+
+    def broken(*args, **kwargs):
+        raise RuntimeError("Error during deserialization of the task graph. More text")
+
+    monkeypatch.setattr(sweep_module, "run_chunk", broken)
+    p = plan(case_file.read_text(), str(case_file), dict([parse_vary("k=1000..2000:2")]),
+             ["B.y"])
+    with distributed.LocalCluster(n_workers=1, threads_per_worker=1, processes=False,
+                                  dashboard_address=None) as cluster, \
+            distributed.Client(cluster) as client:
+        with pytest.raises(CaseError) as err:
+            run_plan(p, scheduler=client)
+    text = str(err.value)
+    assert "\n" not in text and "deserialization of the task graph." in text
+    assert "More text" not in text and "same version" in text
+
+
 def test_a_failed_sample_keeps_its_row(case_file):
     # span 0 makes a zero-length member: that sample fails, the others are solved
     frame = leastwork.sweep(case_file, vary={"span": [0.0, 6.0]}, quantities=["B.y"])

@@ -256,17 +256,27 @@ def _on_dask(p: SweepPlan, chunks, scheduler: str, progress) -> list[dict]:
     except OSError as exc:
         raise CaseError(f"no Dask scheduler at {literal(str(scheduler), ECHO_LIMIT)} ({exc})",
                         source=_SOURCE, where="--scheduler") from None
-    futures = [client.submit(run_chunk, p, first, count, pure=False)
-               for first, count in chunks]
-    done = 0
-    for fut in as_completed(futures):
-        done += len(fut.result())
-        if progress:
-            progress(done, len(p.samples))
-    rows = [row for fut in futures for row in fut.result()]
-    if isinstance(scheduler, str):
-        client.close()
-    return rows
+    try:
+        futures = [client.submit(run_chunk, p, first, count, pure=False)
+                   for first, count in chunks]
+        done = 0
+        for fut in as_completed(futures):
+            done += len(fut.result())
+            if progress:
+                progress(done, len(p.samples))
+        return [row for fut in futures for row in fut.result()]
+    except LeastworkError:
+        raise
+    except Exception as exc:  # the cluster, not a sample: samples keep their own errors
+        first = re.split(r"(?<=\.)\s|\n", str(exc).strip())[0] or type(exc).__name__
+        raise CaseError(
+            f"the Dask cluster at {literal(str(scheduler), ECHO_LIMIT)} could not run the "
+            f"samples ({literal(first, ECHO_LIMIT)}); the scheduler and every worker need "
+            "leastwork installed, the same version as here", source=_SOURCE,
+            where="--scheduler") from None
+    finally:
+        if isinstance(scheduler, str):
+            client.close()
 
 
 def sweep(case, vary: dict[str, list], quantities: list[str], *, scheduler=None,
