@@ -162,6 +162,7 @@ class FloatNumbers:
 
             return gauss_integral(br, lambda x: w(x) * field(x))
 
+        integral.fields = pf  # type: ignore[attr-defined]  # for kinds that integrate themselves
         return integral
 
     @staticmethod

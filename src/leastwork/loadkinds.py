@@ -171,9 +171,7 @@ def _forces_text(u, fx, fy, mz) -> str:
 
 
 def _point_on(st: Structure, mid: str, at: float) -> tuple[float, float]:
-    a = st.nodes[st.members[mid].start]
-    c, s = st.direction(mid)
-    return a.x + at * c, a.y + at * s
+    return st.point(mid, at)
 
 
 # ---------------------------------------------------------------- nodal load
@@ -198,9 +196,8 @@ register_load(LoadKind(
 
 # ---------------------------------------------------------------- point load on a member
 def _point_resultant(st: Structure, ld: PointLoad, centre) -> tuple:
-    o = st.nodes[st.members[ld.member].start]
-    c, s = st.direction(ld.member)
-    dx, dy = (o.x - centre[0]) + ld.at * c, (o.y - centre[1]) + ld.at * s
+    px, py = st.point(ld.member, ld.at)
+    dx, dy = px - centre[0], py - centre[1]
     return ((ld.fx, ld.fy, ld.mz + dx * ld.fy - dy * ld.fx),
             (abs(ld.fx), abs(ld.fy), abs(ld.mz) + abs(dx * ld.fy) + abs(dy * ld.fx)), 0.0)
 
@@ -249,6 +246,8 @@ def _distributed_resultant(st: Structure, ld: DistributedLoad, centre) -> tuple:
 
     L = st.length(ld.member)
     a, b = ld.start, (L if np.isnan(ld.end) else ld.end)
+    if st.members[ld.member].curve is not None:
+        return _curved_resultant(st, ld, centre, a, b)
     c, s = st.direction(ld.member)
     o = st.nodes[st.members[ld.member].start]
     ox, oy = o.x - centre[0], o.y - centre[1]
@@ -268,6 +267,28 @@ def _distributed_resultant(st: Structure, ld: DistributedLoad, centre) -> tuple:
     wy = 0.5 * (abs(ld.wy[0]) + abs(ld.wy[1])) * span
     far = max(np.hypot(ox + a * c, oy + a * s), np.hypot(ox + b * c, oy + b * s))
     return (fx, fy, mz), (wx, wy, far * (wx + wy)), max(abs(fx), abs(fy))
+
+
+def _curved_resultant(st: Structure, ld: DistributedLoad, centre, a: float,
+                      b: float) -> tuple:
+    """:func:`_distributed_resultant` on a curved member: its total force and moment from
+    the load's density along the arc (:mod:`leastwork.elements.curved`)."""
+    import numpy as np
+
+    from .elements.curved import particular_values
+
+    m = st.members[ld.member]
+    c, s = st.direction(ld.member)
+    tot = particular_values(m, (c, s), [], [(a, b, ld.wx, ld.wy, ld.frame)]).total
+    fx, fy = tot[0] * c - tot[1] * s, tot[0] * s + tot[1] * c
+    o = st.nodes[m.start]
+    ox, oy = o.x - centre[0], o.y - centre[1]
+    mz = tot[2] + ox * fy - oy * fx
+    span = st.length(ld.member)
+    size = max(abs(v) for v in (*ld.wx, *ld.wy)) * span
+    far = max(np.hypot(*np.subtract(st.point(ld.member, x), centre)) for x in (a, 0.5 * (a + b), b))
+    far = max(far, np.hypot(ox, oy) + span)
+    return (fx, fy, mz), (size, size, far * 2 * size), max(abs(fx), abs(fy), size)
 
 
 def _distributed_describe(st: Structure, u, ld: DistributedLoad) -> tuple[str, str]:

@@ -48,6 +48,15 @@ def member_result(st: Structure, topo, mid: str, s: np.ndarray, pf) -> MemberRes
     """Section-force fields of member ``mid`` for basic forces ``s`` (SI) plus the span-load
     fields ``pf`` (or None): the final member result, or the released structure's."""
     L = st.length(mid)
+    kind = kind_of(st.members[mid])
+    if hasattr(kind, "result_fields"):  # fields that are not polynomials (a curved member)
+        ci = topo.column_index
+        values = [s[ci[bf.name]] for bf in kind.basic_forces(st.members[mid])]
+        n, v, mm = kind.result_fields(st.members[mid], L, values, pf)
+        start = (float(n(0.0)), float(v(0.0)), float(mm(0.0)))
+        end = (float(n(L, "left")), float(v(L, "left")), float(mm(L, "left")))
+        m_max, m_min = mm.extremes()
+        return MemberResult(mid, L, n, v, mm, start, end, m_max, m_min)
     fields = basic_force_fields(topo, st.members[mid], L, s, 0.0)
     if pf is None:
         return _unloaded_member_result(mid, L, fields)
@@ -304,7 +313,9 @@ def _equilibrium(st: Structure, topo, loading, members, reactions,
     # ey = (-s, c)); end moments +m at the start, -m at the end
     if members:
         mids = list(members)
-        cs = np.array([st.direction(m) for m in mids])
+        cs = np.array([(*st.tangent(m, 0.0), *st.tangent(m, members[m].length))
+                       if st.members[m].curve is not None else 2 * st.direction(m)
+                       for m in mids])
         c, s = cs[:, 0], cs[:, 1]
         ac, as_ = np.abs(c), np.abs(s)
         start = np.array([index[st.members[m].start] for m in mids])
@@ -312,9 +323,10 @@ def _equilibrium(st: Structure, topo, loading, members, reactions,
         ends = np.array([(*members[m].start, *members[m].end) for m in mids])
         n0, v0, m0, nL, vL, mL = ends.T
         size, states = _end_sizes(st, topo, members, formed)
-        for at, sign, (n, v, m), (zn, zv, zm), (wn, wv, wm) in (
-                (start, 1.0, (n0, v0, m0), size[:, :3].T, states[:, :3].T),
-                (end, -1.0, (nL, vL, mL), size[:, 3:].T, states[:, 3:].T)):
+        for at, sign, (n, v, m), (zn, zv, zm), (wn, wv, wm), (c, s) in (
+                (start, 1.0, (n0, v0, m0), size[:, :3].T, states[:, :3].T, cs.T[:2]),
+                (end, -1.0, (nL, vL, mL), size[:, 3:].T, states[:, 3:].T, cs.T[2:])):
+            ac, as_ = np.abs(c), np.abs(s)
             ax, ay, am = end_action(sign, n, v, m, c, s)
             fx.add(at, ax, zn * ac + zv * as_, wn * ac + wv * as_)
             fy.add(at, ay, zn * as_ + zv * ac, wn * as_ + wv * ac)

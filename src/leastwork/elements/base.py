@@ -199,7 +199,9 @@ def register(kind: MemberKind) -> MemberKind:
 
 
 def kind_of(m) -> MemberKind:
-    """The kind of member ``m``."""
+    """The kind of member ``m`` (a beam with a curved axis is of kind "curved")."""
+    if getattr(m, "curve", None) is not None:
+        return MEMBER_KINDS["curved"]
     return MEMBER_KINDS[m.kind]
 
 

@@ -6,7 +6,7 @@ from __future__ import annotations
 import math
 from typing import Any
 
-from ..model import Member, Node
+from ..model import Curve, Member, Node
 from .core import CaseReader
 from .messages import echo, hint, kind_of, shown
 
@@ -16,7 +16,7 @@ __all__ = ["member_specs", "connected_nodes", "read_members"]
 MemberSpec = tuple[str, str, dict, list[str]]
 
 _BEAM_KEYS = ("nodes", "material", "section", "EI", "EA", "hinges", "end_springs",
-              "description")
+              "description", "curve")
 _BAR_KEYS = ("nodes", "material", "section", "EA", "acts", "description")
 
 
@@ -96,8 +96,35 @@ def read_members(reader: CaseReader, specs: list[MemberSpec], nodes: dict[str, N
             else (None, None),
             area=sec.get("A") if sec else None,
             section_modulus=_section_modulus(sec),
+            curve=_curve(reader, spec, where, math.hypot(b.x - a.x, b.y - a.y))
+            if "curve" in spec else None,
         )
     return members
+
+
+def _curve(reader: CaseReader, spec: dict, where: str, chord: float) -> Curve:
+    """``curve = { shape = "circle" | "parabola", rise = ... }`` of a beam (chord in m)."""
+    table = spec["curve"]
+    key = where + ".curve"
+    if not isinstance(table, dict):
+        raise reader.err(key, 'expected { shape = "circle", rise = "3 m" } (or shape = '
+                         f'"parabola"), got {kind_of(table)}')
+    reader.keys_known(key, table, ("shape", "rise"))
+    shape = table.get("shape")
+    if shape not in ("circle", "parabola"):
+        raise reader.err(key + ".shape", 'expected "circle" or "parabola", got '
+                         + (shown(shape) if shape is not None else "nothing"))
+    if "rise" not in table:
+        raise reader.err(key + ".rise", "expected the rise: the largest distance of the axis "
+                         'from the chord, e.g. rise = "3 m" (negative: on the local -y side)')
+    rise = reader.quantity(table["rise"], "length", key + ".rise")
+    if not math.isfinite(rise) or abs(rise) <= 1e-9 * chord:
+        raise reader.err(key + ".rise", f"expected a rise other than zero, got "
+                         f"{shown(table['rise'])}; leave out curve for a straight beam")
+    if shape == "parabola" and abs(rise) > 10 * chord:
+        raise reader.err(key + ".rise", f"a parabola rising {shown(table['rise'])} over its "
+                         "chord is steeper than this tool handles (rise up to 10 chords)")
+    return Curve(shape, rise, chord)
 
 
 def _end_springs(reader: CaseReader, spec: dict, where: str,

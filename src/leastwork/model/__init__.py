@@ -8,6 +8,7 @@ machinery is imported from :mod:`leastwork.model.units`.
 
 from .structure import (
     DEFAULT_CASE,
+    Curve,
     DistributedLoad,
     Load,
     Member,
@@ -28,6 +29,7 @@ from .structure import (
 __all__ = [
     "Node",
     "Member",
+    "Curve",
     "Restraint",
     "Support",
     "reaction_components",

@@ -19,6 +19,7 @@ from .units import UnitSystem
 __all__ = [
     "Node",
     "Member",
+    "Curve",
     "Restraint",
     "Support",
     "reaction_components",
@@ -46,6 +47,19 @@ class Node:
     id: str
     x: float
     y: float
+
+
+@dataclass(frozen=True)
+class Curve:
+    """The axis of a curved member between its nodes (elements/arc.py has its geometry).
+
+    ``shape`` "circle" or "parabola"; ``rise`` (m) the largest distance of the axis from
+    the chord, on the local +y side when positive; ``chord`` (m) the distance between the
+    nodes (set when read)."""
+
+    shape: str
+    rise: float
+    chord: float
 
 
 @dataclass(frozen=True)
@@ -93,6 +107,7 @@ class Member:
     end_springs: tuple[float | None, float | None] = (None, None)
     area: float | None = None  #: cross-section area A (m^2), for stresses
     section_modulus: float | None = None  #: elastic section modulus S (m^3), for stresses
+    curve: Curve | None = None  #: a curved axis (a beam whose kind is then "curved")
 
     @property
     def is_beam(self) -> bool:
@@ -214,6 +229,10 @@ class DistributedLoad:
     #: how the file gave it when not per member length in global components ("per
     #: horizontal projection: wy = -1.2 kN/m", "self-weight")
     written: str = ""
+    #: on a curved member only: "global" (wx, wy per unit arc length), "projection" (wy per
+    #: unit horizontal, wx per unit vertical length) or "local" (wx along the tangent, wy
+    #: along local +y, per unit arc length); on a straight member always "global"
+    frame: str = "global"
 
     def scaled(self, f: float, case: str) -> DistributedLoad:
         return replace(self, wx=(f * self.wx[0], f * self.wx[1]),
@@ -296,7 +315,12 @@ class Structure:
     envelope_groups: tuple[tuple[str, tuple[str, ...]], ...] = ()
 
     def length(self, member_id: str) -> float:
+        """Length along the member's axis (the arc length of a curved member), m."""
         m = self.members[member_id]
+        if m.curve is not None:
+            from ..elements.arc import arc_of
+
+            return arc_of(m.curve).length
         a, b = self.nodes[m.start], self.nodes[m.end]
         return math.hypot(b.x - a.x, b.y - a.y)
 
@@ -306,6 +330,29 @@ class Structure:
         a, b = self.nodes[m.start], self.nodes[m.end]
         L = math.hypot(b.x - a.x, b.y - a.y)
         return (b.x - a.x) / L, (b.y - a.y) / L
+
+    def tangent(self, member_id: str, at: float) -> tuple[float, float]:
+        """Unit vector of local x at ``at`` m along the member's axis (its direction for a
+        straight member)."""
+        m = self.members[member_id]
+        if m.curve is None:
+            return self.direction(member_id)
+        from ..elements.arc import arc_of
+
+        tx, ty = arc_of(m.curve).tangent(at, self.direction(member_id))
+        return float(tx), float(ty)
+
+    def point(self, member_id: str, at: float) -> tuple[float, float]:
+        """Global (x, y) of the point ``at`` m along the member's axis."""
+        m = self.members[member_id]
+        a = self.nodes[m.start]
+        c, s = self.direction(member_id)
+        if m.curve is None:
+            return a.x + at * c, a.y + at * s
+        from ..elements.arc import arc_of
+
+        x, y = arc_of(m.curve).point(at, (a.x, a.y), (c, s))
+        return float(x), float(y)
 
     @property
     def case_names(self) -> tuple[str, ...]:

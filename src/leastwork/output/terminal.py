@@ -591,7 +591,10 @@ def _print_cross_check(console: Console, res) -> None:
         console.print("Cross-check by the direct stiffness method: not run.")
     elif c.ok:
         console.print(f"Cross-check by the direct stiffness method: largest difference "
-                      f"{_g(c.difference, 2)} of the largest force — [green]agrees[/green]")
+                      f"{_g(c.difference, 2)} of the largest force — [green]agrees[/green]"
+                      + (f" (curved members as chains of straight beams, extrapolated; "
+                         f"estimated discretisation error {_g(c.discretisation, 2)})"
+                         if c.discretisation else ""))
     else:
         text = (f"CROSS-CHECK FAILED: the direct stiffness method gives no answer ({c.failure})"
                 if c.difference is None else

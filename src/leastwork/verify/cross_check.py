@@ -38,6 +38,9 @@ class StiffnessCheck:
     where: str = ""
     failure: str = ""
     tolerance: float = STIFFNESS_RTOL
+    #: with curved members: the estimated discretisation error of the chain model
+    #: (:mod:`.chain`), relative like ``difference``; it widens the tolerance
+    discretisation: float = 0.0
 
     @property
     def ok(self) -> bool:
@@ -50,8 +53,12 @@ def stiffness_check(st, res, condition: float = 1.0) -> StiffnessCheck:
     matrix. The accepted difference widens with it (``CONDITION_RTOL``) and with the
     stiffness matrix's (``STIFFNESS_CONDITION_RTOL``): each method's round-off."""
     tolerance = max(STIFFNESS_RTOL, CONDITION_RTOL * condition)
+    estimate = None
     try:
-        other = solve_stiffness(st, res.name)
+        if any(m.curve is not None for m in st.members.values()):
+            other, estimate = _chain_solution(st, res.name)
+        else:
+            other = solve_stiffness(st, res.name)
     except (CaseError, MechanismError) as exc:
         return StiffnessCheck(None, failure=str(exc), tolerance=tolerance)
     tolerance = max(tolerance, STIFFNESS_CONDITION_RTOL * other.condition)
@@ -76,7 +83,66 @@ def stiffness_check(st, res, condition: float = 1.0) -> StiffnessCheck:
         for end, ours, their in (("start", mr.start, ts), ("end", mr.end, te)):
             for q, a, b in zip("nvm", ours, their, strict=True):
                 compare(a, b, f"{mid} {end} {q}", q == "m")
-    return StiffnessCheck(worst, where, tolerance=tolerance)
+    if estimate is None:
+        return StiffnessCheck(worst, where, tolerance=tolerance)
+    rel = max([0.0] + [abs(v) / (scale * (lref if moment else 1.0)) for v, moment in estimate])
+    return StiffnessCheck(worst, where, tolerance=max(tolerance, 10.0 * rel),
+                          discretisation=rel)
+
+
+def _chain_solution(st, case: str):
+    """The stiffness answer of the chain models of the curved members (:mod:`.chain`),
+    extrapolated from two refinements: a result with the reactions and member end forces
+    (a curved member's from its end segments, along the arc's end tangents) and the
+    estimated error of each (value, is a moment)."""
+    from .chain import CHAIN_SEGMENTS, chain_structure, segment_name
+    from .stiffness import StiffnessResult
+
+    coarse, fine = CHAIN_SEGMENTS
+    chains = [chain_structure(st, n) for n in (coarse, fine)]
+    runs = [solve_stiffness(ch, case) for ch in chains]
+    ratio = (fine / coarse) ** 2
+
+    def extrapolate(a, b):
+        return b + (b - a) / (ratio - 1.0), abs(b - a) / (ratio - 1.0)
+
+    errors = []
+    reactions = {}
+    for node, comps in runs[1].reactions.items():
+        out = {}
+        for k, v in comps.items():
+            out[k], e = extrapolate(runs[0].reactions[node].get(k, 0.0), v)
+            errors.append((e, k == "rz"))
+        reactions[node] = out
+    ends = {}
+    for mid, m in st.members.items():
+        if m.curve is None:
+            pairs = [r.end_forces[mid] for r in runs]
+        else:
+            L = st.length(mid)
+            pairs = []
+            for r, ch, n in zip(runs, chains, (coarse, fine), strict=True):
+                a, b = segment_name(mid, 0), segment_name(mid, n - 1)
+                pairs.append((_turned(r.end_forces[a][0], ch.direction(a), st.tangent(mid, 0.0)),
+                              _turned(r.end_forces[b][1], ch.direction(b), st.tangent(mid, L))))
+        ext = []
+        for end in (0, 1):
+            triple = []
+            for q in range(3):
+                v, e = extrapolate(pairs[0][end][q], pairs[1][end][q])
+                triple.append(v)
+                errors.append((e, q == 2))
+            ext.append(tuple(triple))
+        ends[mid] = (ext[0], ext[1])
+    return StiffnessResult(case, {}, reactions, ends), errors
+
+
+def _turned(nvm, seg, tangent):
+    """Section forces (n, v, m) at a chain segment's end (axis ``seg``) re-expressed
+    along the arc's ``tangent`` there: the same force, other components."""
+    n, v, m = nvm
+    fx, fy = n * seg[0] + v * seg[1], n * seg[1] - v * seg[0]  # n ex - v ey
+    return (fx * tangent[0] + fy * tangent[1], fx * tangent[1] - fy * tangent[0], m)
 
 
 def should_verify(st) -> bool:
