@@ -119,9 +119,13 @@ class CaseEffects:
         else:
             self.point.setdefault(member, []).append((at, fx, fy, mz))
 
-    def member_distributed(self, member: str, start, end, wx, wy) -> None:
+    def member_distributed(self, member: str, start, end, wx, wy,
+                           frame: str = "global") -> None:
         end = self.length(member) if end is None else end
-        self.dist.setdefault(member, []).append((start, end, tuple(wx), tuple(wy)))
+        entry = (start, end, tuple(wx), tuple(wy))
+        # a curved member's load per projection or in local axes keeps its frame
+        self.dist.setdefault(member, []).append(entry if frame == "global"
+                                                else (*entry, frame))
 
     def member_strain(self, member: str, eps, kappa, misfit) -> None:
         acc = self.strains.setdefault(member, [self.zero] * 3)
@@ -311,8 +315,9 @@ register_load(LoadKind(
     values=lambda ld: {"start": ld.start, "end": None if math.isnan(ld.end) else ld.end,
                        "wx": ld.wx, "wy": ld.wy},
     exact=_distributed_exact,
-    apply=lambda v, ld, sink: sink.member_distributed(ld.member, v["start"], v["end"],
-                                                      v["wx"], v["wy"]),
+    apply=lambda v, ld, sink: sink.member_distributed(
+        ld.member, v["start"], v["end"], v["wx"], v["wy"],
+        **({"frame": ld.frame} if ld.frame != "global" else {})),
     resultant=_distributed_resultant,
     describe=_distributed_describe,
 ))

@@ -168,7 +168,7 @@ def _point_load(reader: CaseReader, spec: dict, where: str, mid: str, L: float,
     local = _axes(reader, spec, where, ("fx", "fy"), ("ft", "fn"))
     keys = ("ft", "fn") if local else ("fx", "fy")
     f1, f2 = (reader.quantity(spec.get(k, 0.0), "force", f"{where}.{k}") for k in keys)
-    fx, fy = _to_global(reader, mid, f1, f2) if local else (f1, f2)
+    fx, fy = _to_global(reader, mid, f1, f2, at) if local else (f1, f2)
     return PointLoad(
         mid, min(max(at, 0.0), L), fx=fx, fy=fy,
         mz=reader.quantity(spec.get("mz", 0.0), "moment", where + ".mz"),
@@ -198,7 +198,11 @@ def _distributed_load(reader: CaseReader, spec: dict, where: str, mid: str, L: f
                          "wx/wy; wt/wn are per unit member length")
     keys = ("wt", "wn") if local else ("wx", "wy")
     w1, w2 = (_intensity(reader, spec.get(k, 0.0), f"{where}.{k}") for k in keys)
-    if local:
+    frame = "global"
+    if reader.members[mid].curve is not None:  # resolved along the arc by its kind
+        frame = "local" if local else per if per == "projection" else "global"
+        wx, wy = w1, w2
+    elif local:
         ends = [_to_global(reader, mid, a, b) for a, b in zip(w1, w2, strict=True)]
         wx, wy = (ends[0][0], ends[1][0]), (ends[0][1], ends[1][1])
     elif per == "projection":
@@ -212,7 +216,7 @@ def _distributed_load(reader: CaseReader, spec: dict, where: str, mid: str, L: f
         if per == "projection":
             written += " per unit projected length"
     return DistributedLoad(mid, wx=wx, wy=wy, start=max(start, 0.0), end=min(end, L),
-                           case=case, written=written)
+                           case=case, written=written, frame=frame)
 
 
 def _axes(reader: CaseReader, spec: dict, where: str, global_keys: tuple[str, str],
@@ -236,10 +240,18 @@ def _direction(reader: CaseReader, mid: str) -> tuple[float, float]:
     return (b.x - a.x) / L, (b.y - a.y) / L
 
 
-def _to_global(reader: CaseReader, mid: str, t: float, n: float) -> tuple[float, float]:
+def _to_global(reader: CaseReader, mid: str, t: float, n: float,
+               at: float = 0.0) -> tuple[float, float]:
     """Global (x, y) components of a member-local pair: ``t`` along the member towards its
-    end node, ``n`` along local +y (local x turned 90 degrees counter-clockwise)."""
+    end node, ``n`` along local +y (local x turned 90 degrees counter-clockwise); on a
+    curved member, the axes of the tangent at ``at`` (m along the arc)."""
     c, s = _direction(reader, mid)
+    curve = reader.members[mid].curve
+    if curve is not None:
+        from ..elements.arc import arc_of
+
+        tx, ty = arc_of(curve).tangent(at, (c, s))
+        c, s = float(tx), float(ty)
     return t * c - n * s, t * s + n * c
 
 
@@ -337,7 +349,11 @@ def _hint_keys(spec: dict) -> str:
 
 
 def _length_of(reader: CaseReader, member: Member) -> float:
-    """The length of ``member`` (m)."""
+    """The length of ``member`` along its axis (m; the arc length of a curved one)."""
+    if member.curve is not None:
+        from ..elements.arc import arc_of
+
+        return arc_of(member.curve).length
     a, b = reader.nodes[member.start], reader.nodes[member.end]
     return math.hypot(b.x - a.x, b.y - a.y)
 
