@@ -12,7 +12,7 @@ from numpy.polynomial import polynomial as P
 from ...errors import CaseError
 from ...model import Structure
 from ..sheet import fmt
-from .geometry import case_units, member_axes, nice_factor, structure_size
+from .geometry import MemberAxis, case_units, nice_factor, structure_size
 
 #: Diagram names in their usual order.
 DIAGRAMS = ("structure", "n", "v", "m", "deflected")
@@ -114,10 +114,9 @@ def diagram_lines(sol, case: str, quantity: str) -> dict[str, dict[str, np.ndarr
     scale = diagram_amplitude(st) / vmax if vmax > 0 else 0.0
     out = {}
     for mid, (x, v) in raw.items():
-        o, ex, ey = member_axes(st, mid)
-        side = -ey if quantity == "m" else ey
-        base = o[None, :] + x[:, None] * ex[None, :]
-        pts = base + side[None, :] * (v * scale)[:, None]
+        axis = MemberAxis(st, mid)
+        base = axis.at(x)
+        pts = base + (-1.0 if quantity == "m" else 1.0) * axis.normal(x) * (v * scale)[:, None]
         out[mid] = {"x": x / lf, "value": v, "points": pts / lf}
     return out
 

@@ -9,7 +9,7 @@ import numpy as np
 from ...model import Structure
 from ..sheet import fmt
 from .data import QUANTITY, diagram_amplitude, diagram_lines, field_zero
-from .geometry import case_units, member_axes
+from .geometry import MemberAxis, case_units, member_axes
 from .panel import Panel
 from .structure import draw_members, draw_supports
 from .style import FAINT, FONT, INK, NEG_FILL, NEG_LINE, POS_FILL, POS_LINE
@@ -47,22 +47,23 @@ def _bar_force(pn: Panel, st: Structure, mid: str, value: float) -> None:
     pn.label(o + ex * 0.5 * L, fmt(value, 3), must=True, **kw)
 
 
-def _member_diagram(pn: Panel, o, ex, side, x: np.ndarray, v: np.ndarray,
+def _member_diagram(pn: Panel, axis: MemberAxis, sign: float, x: np.ndarray, v: np.ndarray,
                     scale: float) -> None:
-    """One member's diagram: a shaded area per run of one sign, its outline, and the
-    closing lines at the member's ends."""
+    """One member's diagram, drawn off its axis along ``sign`` times local +y: a shaded
+    area per run of one sign, its outline, and the closing lines at the member's ends."""
     for rx, rv in _sign_runs(x, v):
         if not np.any(rv):
             continue
-        base = o[None, :] + rx[:, None] * ex[None, :]
-        tip = base + side[None, :] * (rv * scale)[:, None]
+        base = axis.at(rx)
+        tip = base + sign * axis.normal(rx) * (rv * scale)[:, None]
         sign = 1 if np.sum(rv) > 0 else -1
         pn.poly(np.vstack([base[:1], tip, base[-1:]]),
                 face=POS_FILL if sign > 0 else NEG_FILL, z=2)
         pn.line(tip, color=INK, lw=0.8, z=3)
     for end in (0, -1):  # closing lines at the member ends
-        b = o + ex * x[end]
-        pn.line([b, b + side * v[end] * scale], color=INK, lw=0.8, z=3)
+        b = axis.at(x[end])[0]
+        pn.line([b, b + sign * axis.normal(x[end])[0] * v[end] * scale], color=INK,
+                lw=0.8, z=3)
 
 
 def _value_places(sol, res, mid: str, quantity: str, x: np.ndarray, v: np.ndarray,
@@ -72,13 +73,14 @@ def _value_places(sol, res, mid: str, quantity: str, x: np.ndarray, v: np.ndarra
     values, 2 the span extremes of m or the largest |n|, |v|, 3 the values at breaks."""
     st = sol.structure
     uf = case_units(st)
-    o, ex, ey = member_axes(st, mid)
-    side = -ey if quantity == "m" else ey
+    axis = MemberAxis(st, mid)
+    sign = -1.0 if quantity == "m" else 1.0
     cands = []
 
     def add(prio, at, value):
         if value != 0.0:
-            p = o + ex * at + side * value * scale
+            side = sign * axis.normal(at)[0]
+            p = axis.at(at)[0] + side * value * scale
             cands.append((prio, p, side * (1 if value >= 0 else -1), value))
 
     if extremes[0]:
@@ -136,13 +138,12 @@ def force_panel(pn: Panel, sol, case: str, quantity: str) -> tuple[str, str]:
     gmax = max(lines, key=lambda m: float(np.max(lines[m]["value"])))
     gmin = min(lines, key=lambda m: float(np.min(lines[m]["value"])))
     for mid, d in lines.items():
-        o, ex, ey = member_axes(st, mid)
-        side = -ey if quantity == "m" else ey
         x, v = d["x"] * lf, d["value"]
         if quantity == "n" and not st.members[mid].is_beam:
             _bar_force(pn, st, mid, float(v[0]))
             continue
-        _member_diagram(pn, o, ex, side, x, v, scale)
+        _member_diagram(pn, MemberAxis(st, mid), -1.0 if quantity == "m" else 1.0, x, v,
+                        scale)
         cands += _value_places(sol, res, mid, quantity, x, v, scale,
                                (mid == gmax, mid == gmin))
     cands.sort(key=lambda c: c[0])

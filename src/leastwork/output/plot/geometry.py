@@ -55,6 +55,42 @@ def member_axes(st: Structure, mid: str) -> tuple[np.ndarray, np.ndarray, np.nda
     return xy(st, st.members[mid].start), np.array([c, s]), np.array([-s, c])
 
 
+class MemberAxis:
+    """Points and local +y normals along a member's axis (an arc for a curved member) at
+    distances ``x`` (m, along the axis) from its start."""
+
+    def __init__(self, st: Structure, mid: str):
+        self.st, self.mid = st, mid
+        self.o, self.ex, self.ey = member_axes(st, mid)
+        self.curve = st.members[mid].curve
+
+    def at(self, x) -> np.ndarray:
+        x = np.atleast_1d(np.asarray(x, dtype=float))
+        if self.curve is None:
+            return self.o[None, :] + x[:, None] * self.ex[None, :]
+        from ...elements.arc import arc_of
+
+        px, py = arc_of(self.curve).point(x, tuple(self.o), tuple(self.ex))
+        return np.column_stack([px, py])
+
+    def normal(self, x) -> np.ndarray:
+        x = np.atleast_1d(np.asarray(x, dtype=float))
+        if self.curve is None:
+            return np.repeat(self.ey[None, :], len(x), axis=0)
+        from ...elements.arc import arc_of
+
+        tx, ty = arc_of(self.curve).tangent(x, tuple(self.ex))
+        return np.column_stack([-ty, tx])
+
+
+def polyline(st: Structure, mid: str, n: int = 97) -> np.ndarray:
+    """Points along a member's axis for drawing it (its two ends when straight)."""
+    m = st.members[mid]
+    if m.curve is None:
+        return np.array([xy(st, m.start), xy(st, m.end)])
+    return MemberAxis(st, mid).at(np.linspace(0.0, st.length(mid), n))
+
+
 def away_from_members(st: Structure, node: str) -> np.ndarray:
     """Unit vector pointing from a node away from the members that meet there."""
     p = xy(st, node)

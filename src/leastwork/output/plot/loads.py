@@ -26,7 +26,7 @@ from ...model import (
     TemperatureLoad,
 )
 from ..sheet import fmt
-from .geometry import blocked, case_units, member_axes, perp, support_side, xy
+from .geometry import MemberAxis, blocked, case_units, member_axes, perp, support_side, xy
 from .panel import Panel
 from .style import IMPOSED, LOAD
 
@@ -59,8 +59,8 @@ def _nodal(sk: LoadSketch, ld: NodalLoad) -> None:
 
 
 def _point(sk: LoadSketch, ld: PointLoad) -> None:
-    o, ex, _ = member_axes(sk.st, ld.member)
-    sk.add_point_load(("member", ld.member, round(ld.at, 9)), o + ex * ld.at, ld)
+    sk.add_point_load(("member", ld.member, round(ld.at, 9)),
+                      np.array(sk.st.point(ld.member, ld.at)), ld)
 
 
 def _draw_point_loads(sk: LoadSketch) -> None:
@@ -120,24 +120,36 @@ def _distributed(sk: LoadSketch, ld: DistributedLoad) -> None:
     frac = (s - a) / (b - a)
     wx = ld.wx[0] + (ld.wx[1] - ld.wx[0]) * frac
     wy = ld.wy[0] + (ld.wy[1] - ld.wy[0]) * frac
+    axis = MemberAxis(st, ld.member)
+    on_axis = axis.at(s)
+    if ld.frame == "local":  # along the tangent and local +y of the arc
+        nrm = axis.normal(s)
+        t_vec = np.column_stack([nrm[:, 1], -nrm[:, 0]])
+        q1 = ld.wx[0] + (ld.wx[1] - ld.wx[0]) * frac
+        q2 = ld.wy[0] + (ld.wy[1] - ld.wy[0]) * frac
+        vec = q1[:, None] * t_vec + q2[:, None] * nrm
+        wx, wy = vec[:, 0], vec[:, 1]
     mean = np.array([np.mean(wx), np.mean(wy)])
     out = -mean / np.hypot(*mean) if np.hypot(*mean) > 0 else ey
     shift = out * k * 1.25 * la
     length = 0.75 * la
     tails = []
-    for si, wxi, wyi in zip(s, wx, wy, strict=True):
-        tip = o + ex * si + shift
+    for pt, wxi, wyi in zip(on_axis, wx, wy, strict=True):
+        tip = pt + shift
         w = np.array([wxi, wyi]) / wmax
         tail = tip - w * length if np.hypot(*w) > 0 else tip
         tails.append(tail)
         if np.hypot(*w) > 0.05:
             pn.arrow(tail, tip, color=LOAD, lw=0.6, head=0.35 * pn.h)
     pn.line(tails, color=LOAD, lw=0.8, z=5)
+    names = ("wt", "wn") if ld.frame == "local" else ("wx", "wy")
     parts = [_range_text(nm, pr, wf, wu)
-             for nm, pr in (("wx", ld.wx), ("wy", ld.wy)) if any(pr)]
+             for nm, pr in ((names[0], ld.wx), (names[1], ld.wy)) if any(pr)]
+    if ld.frame == "projection":
+        parts[-1] += " per projection"
     mid = len(tails) // 2
     pn.label(tails[mid], ", ".join(parts), direction=out, color=LOAD, must=True)
-    pn.occupy(np.vstack([tails, o + ex * s[:, None] + shift]))
+    pn.occupy(np.vstack([tails, on_axis + shift]))
 
 
 # ---------------------------------------------------------------------------- imposed effects

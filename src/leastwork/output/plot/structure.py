@@ -17,6 +17,7 @@ from .geometry import (
     member_axes,
     nice_factor,
     perp,
+    polyline,
     structure_size,
     support_side,
     xy,
@@ -30,22 +31,22 @@ def draw_members(pn: Panel, st: Structure, faint: bool = False) -> None:
     """Beams thick, bars thin; open circles at hinges and at the pins of bars. ``faint``:
     thin grey lines only (under a diagram)."""
     for m in st.members.values():
-        a, b = xy(st, m.start), xy(st, m.end)
+        pts = polyline(st, m.id)
         if faint:
-            pn.line([a, b], color=FAINT, lw=0.8, z=1)
+            pn.line(pts, color=FAINT, lw=0.8, z=1)
             continue
-        pn.line([a, b], color=INK, lw=2.0 if m.is_beam else 1.1, z=3)
+        pn.line(pts, color=INK, lw=2.0 if m.is_beam else 1.1, z=3)
     if faint:
         return
     r = 0.22 * pn.h
     for m in st.members.values():
         a, b = xy(st, m.start), xy(st, m.end)
-        d = (b - a) / np.hypot(*(b - a))
         if m.is_beam:
+            ds, de = np.array(st.tangent(m.id, 0.0)), np.array(st.tangent(m.id, st.length(m.id)))
             if m.hinge_start:
-                pn.circle(a + d * 1.6 * r, r)
+                pn.circle(a + ds * 1.6 * r, r)
             if m.hinge_end:
-                pn.circle(b - d * 1.6 * r, r)
+                pn.circle(b - de * 1.6 * r, r)
         else:
             pn.circle(a, 0.75 * r, z=4)
             pn.circle(b, 0.75 * r, z=4)
