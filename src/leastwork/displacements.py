@@ -154,6 +154,54 @@ def _section(st: Structure, res, mid: str, nums: Numbers | None = None) -> tuple
     return kind.section(mem, sec, st.shear), kind.free_strains(mem, sec, L, imposed)
 
 
+def curved_shape(st: Structure, topo, res, mid: str, samples: int = 41):
+    """Displacements along a curved member (SI): (s, ux, uy, w) at ``samples`` arc
+    lengths s plus every break, from the start node's displacement and the strains along
+    the arc: d(theta)/ds = m/EI + free curvature, du/ds = eps t + (theta - v/GAs) n
+    (t the tangent, n local +y), the start rotation theta0 chosen so that the arc reaches
+    the end node's displacement (least squares of the two components: they agree when the
+    fields are in equilibrium). ``w``: the displacement across the chord, less the line
+    between the displaced ends (the deflection of a curved member)."""
+    from scipy.integrate import cumulative_trapezoid
+
+    from .elements.arc import arc_of
+
+    mem = st.members[mid]
+    mr = res.members[mid]
+    L = mr.length
+    sec, free = _section(st, res, mid)
+    fine = np.union1d(np.linspace(0.0, L, 8001), mr.m.breaks)
+    ex = st.direction(mid)
+    tx, ty = arc_of(mem.curve).tangent(fine, ex)
+    kappa = mr.m(fine) / sec["m"] + sum(free.get("m", []), 0.0)
+    theta_rel = cumulative_trapezoid(kappa, fine, initial=0.0)
+    fn = free.get("n", [0.0])
+    eps = (mr.n(fine) / sec["n"] if sec.get("n") is not None else 0.0) + sum(fn, 0.0)
+    gam = mr.v(fine) / sec["v"] if sec.get("v") is not None else 0.0
+    nx, ny = -ty, tx
+    rot = theta_rel - gam
+    ux_rel = cumulative_trapezoid(eps * tx + rot * nx, fine, initial=0.0)
+    uy_rel = cumulative_trapezoid(eps * ty + rot * ny, fine, initial=0.0)
+    ux_th = cumulative_trapezoid(nx, fine, initial=0.0)  # per unit start rotation
+    uy_th = cumulative_trapezoid(ny, fine, initial=0.0)
+    u = res.nodal_displacements
+    di = topo.dof_index
+    us = np.array([u[di[f"{mem.start}.x"]], u[di[f"{mem.start}.y"]]])
+    ue = np.array([u[di[f"{mem.end}.x"]], u[di[f"{mem.end}.y"]]])
+    need = ue - us - np.array([ux_rel[-1], uy_rel[-1]])
+    a = np.array([ux_th[-1], uy_th[-1]])
+    theta0 = float(a @ need / (a @ a)) if a @ a > 0 else 0.0
+    ux = us[0] + ux_rel + theta0 * ux_th
+    uy = us[1] + uy_rel + theta0 * uy_th
+    ey = np.array([-ex[1], ex[0]])
+    u_arc = np.c_[ux, uy] @ ey
+    cx = arc_of(mem.curve).frame(fine)[0] / arc_of(mem.curve).chord
+    w = u_arc - ((1 - cx) * (us @ ey) + cx * (ue @ ey))
+    xs = np.union1d(np.linspace(0.0, L, samples), mr.m.breaks)
+    pick = np.searchsorted(fine, xs).clip(0, len(fine) - 1)
+    return fine[pick], ux[pick], uy[pick], w[pick], (fine, w)
+
+
 def member_shape(st: Structure, topo, res, mid: str, samples: int = 41,
                  return_extreme: bool = False):
     """Deflected shape of a member: positions x (m), and global displacements (ux, uy) (m)
@@ -162,6 +210,12 @@ def member_shape(st: Structure, topo, res, mid: str, samples: int = 41,
     Returns (x, ux, uy, w) where w is the displacement along local y.
     """
     mem = st.members[mid]
+    if mem.curve is not None:
+        xs, ux, uy, w, (fine, wf) = curved_shape(st, topo, res, mid, samples)
+        if return_extreme:
+            k = int(np.argmax(np.abs(wf)))
+            return xs, ux, uy, w, (float(wf[k]), float(fine[k]))
+        return xs, ux, uy, w
     mr = res.members[mid]
     L = mr.length
     c, s = st.direction(mid)
@@ -289,6 +343,8 @@ def deflection_extreme(st: Structure, topo, res, mid: str) -> tuple[float, float
     start node (SI): the same deflection polynomials as :func:`member_shape`, integrated in
     plain floats, maximised over the piece ends and the roots of the slope (exact, with no
     sampling: a polynomial's extreme on an interval is at an end or a critical point)."""
+    if st.members[mid].curve is not None:
+        return member_shape(st, topo, res, mid, return_extreme=True)[4]
     pieces, ws, _, theta = _deflection_pieces(st, topo, res, mid)
     return _largest(pieces, (ws, theta), (ws, 0.0))
 
@@ -316,6 +372,9 @@ def relative_deflection(st: Structure, topo, res, mid: str) -> tuple[float, floa
     at (m from the start node), "span" or "cantilever"). A span: relative to the chord
     joining its displaced ends. A cantilever (:func:`cantilever_root`): relative to the
     tangent of its axis at the built-in end."""
+    if st.members[mid].curve is not None:  # across the chord, from the displaced ends
+        value, at = member_shape(st, topo, res, mid, return_extreme=True)[4]
+        return abs(value), at, "span"
     pieces, _, _, _ = _deflection_pieces(st, topo, res, mid)
     L = res.members[mid].length
     root = cantilever_root(st, mid)

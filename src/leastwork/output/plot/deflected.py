@@ -7,7 +7,7 @@ import numpy as np
 
 from ..sheet import fmt
 from .data import deflection
-from .geometry import case_units, member_axes
+from .geometry import MemberAxis, case_units
 from .panel import Panel
 from .structure import draw_members, draw_supports
 from .style import SHAPE
@@ -27,8 +27,7 @@ def deflected_panel(pn: Panel, sol, case: str) -> tuple[str, str]:
         return title, "no displacement in this load case"
     best = (0.0, None)
     for mid, (x, ux, uy) in shapes.items():
-        o, ex, _ = member_axes(st, mid)
-        base = o[None, :] + x[:, None] * ex[None, :]
+        base = MemberAxis(st, mid).at(x)
         moved = base + factor * np.c_[ux, uy]
         pn.line(moved, color=SHAPE, lw=1.6, z=4)
         mag = np.hypot(ux, uy)

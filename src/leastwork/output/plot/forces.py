@@ -47,22 +47,22 @@ def _bar_force(pn: Panel, st: Structure, mid: str, value: float) -> None:
     pn.label(o + ex * 0.5 * L, fmt(value, 3), must=True, **kw)
 
 
-def _member_diagram(pn: Panel, axis: MemberAxis, sign: float, x: np.ndarray, v: np.ndarray,
-                    scale: float) -> None:
-    """One member's diagram, drawn off its axis along ``sign`` times local +y: a shaded
+def _member_diagram(pn: Panel, axis: MemberAxis, towards: float, x: np.ndarray,
+                    v: np.ndarray, scale: float) -> None:
+    """One member's diagram, drawn off its axis along ``towards`` times local +y: a shaded
     area per run of one sign, its outline, and the closing lines at the member's ends."""
     for rx, rv in _sign_runs(x, v):
         if not np.any(rv):
             continue
         base = axis.at(rx)
-        tip = base + sign * axis.normal(rx) * (rv * scale)[:, None]
+        tip = base + towards * axis.normal(rx) * (rv * scale)[:, None]
         sign = 1 if np.sum(rv) > 0 else -1
-        pn.poly(np.vstack([base[:1], tip, base[-1:]]),
+        pn.poly(np.vstack([tip, base[::-1]]),
                 face=POS_FILL if sign > 0 else NEG_FILL, z=2)
         pn.line(tip, color=INK, lw=0.8, z=3)
     for end in (0, -1):  # closing lines at the member ends
         b = axis.at(x[end])[0]
-        pn.line([b, b + sign * axis.normal(x[end])[0] * v[end] * scale], color=INK,
+        pn.line([b, b + towards * axis.normal(x[end])[0] * v[end] * scale], color=INK,
                 lw=0.8, z=3)
 
 
@@ -99,6 +99,9 @@ def _value_places(sol, res, mid: str, quantity: str, x: np.ndarray, v: np.ndarra
                 vv = value / uf["moment"][0]
                 add(2, at, 0.0 if abs(vv) <= field_zero(sol, res, "m") else vv)
     brk = getattr(res.members[mid], quantity).breaks[1:-1]
+    if st.members[mid].curve is not None:  # pieces of the arc: only the loads' positions
+        brk = [ld.at for ld in st.loads if getattr(ld, "member", None) == mid
+               and hasattr(ld, "at") and ld.case == res.name]
     for b in brk:
         kk = np.flatnonzero(np.isclose(x, b, rtol=0, atol=1e-9 * L))
         for k in kk:
