@@ -219,6 +219,14 @@ def _solve(text: str, source: str, redundants, extra: tuple[str, ...], expand_de
     from .pipeline import run_pipeline
 
     st, record = read_case_record(text, source)
+    curved = [m.id for m in st.members.values() if m.curve is not None]
+    if curved:
+        from ..errors import CaseError
+
+        raise CaseError(f"curved members ({', '.join(curved)}) are integrated numerically "
+                        "along the arc: no closed form is given for them; solve without "
+                        "--symbolic (the audit trail, --steps, shows each integral)",
+                        source=source, where="[beams]")
     own = st.displacements
     if extra:
         st = dataclasses.replace(st, displacements=tuple(dict.fromkeys([*own, *extra])))

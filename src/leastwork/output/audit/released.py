@@ -21,10 +21,15 @@ def step_released(ctx: Context) -> Step:
     st, nr = ctx.st, ctx.nred
     blocks: list = []
     pairs = pair_labels(nr)
-    if nr and any(m.EA is not None for m in st.members.values()):
+    if nr and any(m.EA is not None and m.curve is None for m in st.members.values()):
         blocks.append(_unit_axial(ctx, pairs))
     if nr and any(has_bending(m) for m in st.members.values()):
-        blocks.append(_unit_moments(ctx))
+        if any(m.curve is None and has_bending(m) for m in st.members.values()):
+            blocks.append(_unit_moments(ctx))
+        if any(m.curve is not None for m in st.members.values()):
+            from .curved import curved_integrals, curved_unit_moments
+
+            blocks += [curved_unit_moments(ctx), curved_integrals(ctx, pairs)]
         blocks.append(_pair_table(ctx, "bending", "∫ m{i}·m{j} dx / EI", pairs))
         if st.shear:
             blocks.append(_pair_table(ctx, "shear", "∫ v{i}·v{j} dx / GAs", pairs))
@@ -58,7 +63,8 @@ def _unit_axial(ctx: Context, pairs) -> Grid:
     heads += [f"n{i + 1}·n{j + 1}·L/EA [{ctx.delta_label(i, j)}]" for i, j in pairs]
     rows, tot = [], np.zeros(len(pairs))
     axial_terms = {t.owner: t for t in ctx.terms if t.term == "axial"}
-    for m in (m for m in st.members.values() if m.EA is not None):
+    # a curved member's axial energy couples all its basic forces: shown in step 4
+    for m in (m for m in st.members.values() if m.EA is not None and m.curve is None):
         k = _axial_column(ctx, m)
         L = st.length(m.id)
         n = [ctx.unit_state(k, i) for i in range(nr)]
@@ -74,7 +80,7 @@ def _unit_axial(ctx: Context, pairs) -> Grid:
 def _unit_moments(ctx: Context) -> Grid:
     st, u, nr = ctx.st, ctx.u, ctx.nred
     rows = []
-    for m in (m for m in st.members.values() if has_bending(m)):
+    for m in (m for m in st.members.values() if has_bending(m) and m.curve is None):
         L = st.length(m.id)
         polys = []
         for i in range(nr):
@@ -104,7 +110,7 @@ def _pair_table(ctx: Context, term: str, pattern: str, pairs) -> Grid:
 
 def _released_under_loads(ctx: Context, case: str) -> list:
     out: list = []
-    if any(m.EA is not None for m in ctx.st.members.values()):
+    if any(m.EA is not None and m.curve is None for m in ctx.st.members.values()):
         out.append(_axial_under_loads(ctx, case))
     if any(has_bending(m) for m in ctx.st.members.values()):
         out.append(_moments_under_loads(ctx, case))
@@ -117,7 +123,7 @@ def _axial_under_loads(ctx: Context, case: str) -> Grid:
     heads += [f"∫ N0·n{i + 1} dx/EA [{ctx.load_label(i)}]" for i in range(nr)]
     rows, tot = [], np.zeros(nr)
     sources = load_sources(ctx, case)
-    for m in (m for m in ctx.st.members.values() if m.EA is not None):
+    for m in (m for m in ctx.st.members.values() if m.EA is not None and m.curve is None):
         k = _axial_column(ctx, m)
         vec = sources.get((m.id, "loads, axial"), np.zeros(nr))
         vals = [ctx.load_term_case(float(vec[i]), i) for i in range(nr)]
@@ -135,7 +141,14 @@ def _moments_under_loads(ctx: Context, case: str) -> Grid:
              f"M0(x) [{u.moment_unit}]"]
     heads += [f"∫ M0·m{i + 1} dx/EI [{ctx.load_label(i)}]" for i in range(nr)]
     rows, tot = [], np.zeros(nr)
-    for m in (m for m in st.members.values() if has_bending(m)):
+    if any(m.curve is not None for m in st.members.values()):
+        from .curved import curved_under_loads
+
+        for row in curved_under_loads(ctx, case, lambda mid: member_result(
+                st, topo, mid, ctx.s0[case], res.loading.particulars.get(mid))):
+            tot += row[4:]
+            rows.append(row)
+    for m in (m for m in st.members.values() if has_bending(m) and m.curve is None):
         mr0 = member_result(st, topo, m.id, ctx.s0[case], res.loading.particulars.get(m.id))
         unit = [_unit_fields(ctx, m, i)["m"] for i in range(nr)]
         EI = kind_of(m).section(m, m, st.shear)["m"]
