@@ -64,6 +64,19 @@ class _RoundOff:
     def moment(self, x: float) -> float | None:
         return number(0.0 if abs(x) <= self.m_tol else x / self.Mf)
 
+    def is_round_off(self, x: float, col) -> bool:
+        """Whether the value ``x`` (SI) of column ``col`` (a force or, for an end moment
+        or a rotational reaction, a moment) is round-off."""
+        moment = col.kind in ("start_m", "end_m") or col.name.endswith(".rz")
+        return abs(x) <= (self.m_tol if moment else self.f_tol)
+
+
+def redundant_value(sol, res, i: int) -> float:
+    """Redundant ``i`` of load case ``res`` in SI, round-off as zero (for drawings)."""
+    col = sol.topology.columns[sol.redundant_columns[i]]
+    x = float(res.redundants[i])
+    return 0.0 if _RoundOff(sol, res).is_round_off(x, col) else x
+
 
 def reactions(sol, res) -> dict[str, dict[str, float | None]]:
     """Per supported node, its reaction components (x, y, rz, n) in the output units."""
@@ -161,8 +174,9 @@ def case_numbers(sol, name: str) -> CaseNumbers:
     red_cols = [sol.topology.columns[j] for j in sol.redundant_columns]
     x_unit = [q.column_factor(c) for c in red_cols]
     d_unit = [q.conjugate_factor(c) for c in red_cols]
+    r = _RoundOff(sol, res)
     return CaseNumbers(
-        redundants={c.name: number(x / xu)
+        redundants={c.name: number(0.0 if r.is_round_off(x, c) else x / xu)
                     for c, x, xu in zip(red_cols, res.redundants, x_unit, strict=True)},
         amplitudes=None if res.amplitudes is None else [
             number(x / xu) for x, xu in zip(res.amplitudes, x_unit, strict=True)],

@@ -21,7 +21,7 @@ from rich.text import Text
 from ..plaintext import literal
 from .audit import ASSUMPTIONS, CAUTION, energy_terms
 from .quantities import quantities
-from .reported import ROUND_OFF, case_numbers
+from .reported import ROUND_OFF, case_numbers, redundant_value
 from .sheet import Formula, Grid, Para, Sheet, fmt, split_grid
 
 __all__ = ["print_summary", "print_brief", "print_check", "print_steps", "print_sheet", "CAUTION",
@@ -234,8 +234,9 @@ def _redundants_table(sol, res) -> Table | None:
     t.add_column("redundant")
     t.add_column("value", justify="right")
     t.add_column("unit")
-    for j, x in zip(sol.redundant_columns, res.redundants, strict=True):
+    for i, j in enumerate(sol.redundant_columns):
         col = sol.topology.columns[j]
+        x = redundant_value(sol, res, i)  # round-off shown as 0
         t.add_row(user_text(col.name), _g(q.column(x, col)), user_text(q.column_unit(col)))
     return t
 
@@ -548,7 +549,8 @@ def print_brief(console: Console, sol, case_names=None) -> None:
     large = is_large(sol)
     for name in case_names or list(sol.cases):
         res = sol.cases[name]
-        shown = list(zip(sol.redundant_columns, res.redundants, strict=True))
+        shown = [(j, redundant_value(sol, res, i))
+                 for i, j in enumerate(sol.redundant_columns)]
         if large:  # the largest few; every value is in --json
             shown = sorted(shown, key=lambda jx: -abs(jx[1]))[:NAMES_SHOWN]
             console.print(user_text(f"{name}  {len(res.redundants)} redundants; the "

@@ -9,8 +9,10 @@ import math
 import numpy as np
 
 from ...model import Structure, TemperatureLoad
+from ..reported import redundant_value
 from ..sheet import fmt
 from .geometry import (
+    MemberAxis,
     away_from_members,
     case_units,
     ground_side,
@@ -158,7 +160,7 @@ def _draw_redundants(pn: Panel, sol, res) -> None:
         moment = col.kind in ("start_m", "end_m") or (col.kind == "reaction"
                                                        and col.name.endswith(".rz"))
         f, unit = uf["moment" if moment else "force"]
-        text = f"X{i + 1} = {col.name} = {fmt(res.redundants[i] / f, 3)} {unit}"
+        text = f"X{i + 1} = {col.name} = {fmt(redundant_value(sol, res, i) / f, 3)} {unit}"
         if col.kind == "reaction":
             _redundant_reaction(pn, st, col, text)
         elif col.kind == "axial":
@@ -194,7 +196,7 @@ def _redundant_reaction(pn: Panel, st: Structure, col, text: str) -> None:
 def _redundant_cut(pn: Panel, st: Structure, mid: str, text: str) -> None:
     h = pn.h
     o, ex, ey = member_axes(st, mid)
-    c = o + ex * 0.5 * st.length(mid)
+    c = MemberAxis(st, mid).at(0.5 * st.length(mid))[0]
     for s in (-0.2, 0.2):
         pn.line([c + ex * s * h - ey * 0.55 * h, c + ex * s * h + ey * 0.55 * h],
                 color=REDUNDANT, lw=1.5, z=7)
@@ -207,7 +209,7 @@ def _redundant_hinge(pn: Panel, st: Structure, col, text: str) -> None:
     o, ex, ey = member_axes(st, col.owner)
     L = st.length(col.owner)
     at = min(0.12 * L, 1.5 * h)
-    c = o + ex * (at if col.kind == "start_m" else L - at)
+    c = MemberAxis(st, col.owner).at(at if col.kind == "start_m" else L - at)[0]
     pn.circle(c, 0.3 * h, edge=REDUNDANT, lw=1.2, z=7)
     pn.label(c + ey * 0.3 * h, text + " (hinge put in)", direction=ey,
              color=REDUNDANT, box=True, must=True)
@@ -235,7 +237,8 @@ def _member_names(pn: Panel, st: Structure) -> None:
     for mid in st.members:
         o, ex, ey = member_axes(st, mid)
         side = -ey if ey[1] > 1e-9 else ey
-        pn.label(o + ex * 0.5 * st.length(mid), mid, direction=side, color="#555555",
+        pn.label(MemberAxis(st, mid).at(0.5 * st.length(mid))[0], mid, direction=side,
+                 color="#555555",
                  size=FONT - 0.5, gap=0.3 * pn.h)
 
 
