@@ -22,9 +22,12 @@ CASES = sorted((Path(__file__).resolve().parents[1] / "cases").glob("*.toml"))
 def test_bundled_cases_agree_with_the_stiffness_method(case, capsys):
     assert main(["solve", str(case), "--json"]) == 0
     out = json.loads(capsys.readouterr().out)
+    # curved members are modelled by the stiffness solver as chains of straight beams,
+    # extrapolated: agreement to that model's discretisation error, not to round-off
+    curved = any(m.curve is not None for m in load_case(case).members.values())
     for res in out["cases"].values():
         assert res["checks"]["stiffness_ok"] is True
-        assert 0 <= res["checks"]["stiffness_difference"] < 1e-10
+        assert 0 <= res["checks"]["stiffness_difference"] < (1e-7 if curved else 1e-10)
 
 
 def test_no_verify_skips_the_cross_check(capsys):

@@ -83,6 +83,9 @@ def test_ring_independent_of_the_redundants_chosen():
                 assert a[mid][end][q] == pytest.approx(b[mid][end][q], abs=1e-9)
 
 
+_NODE_LOAD = f'[[loads]]\nnode = "B"\nfy = "-{P} kN"'
+
+
 def _arch(shape: str, rise: float, load: str, extra: str = "", tie: str = "",
           right: str = '"pinned"') -> str:
     return f"""
@@ -206,3 +209,86 @@ def test_bad_curve_from_the_command_line(tmp_path):
                          capture_output=True, text=True)
     assert out.returncode == 2
     assert "Traceback" not in out.stderr and "curve.shape" in out.stderr
+
+
+def test_ring_under_uniform_external_pressure_is_in_pure_compression():
+    # common practice (thin ring, uniform external pressure p): hoop force n = -pR, no
+    # bending. Counter-clockwise arcs: local +y points inwards, so the pressure is wn = +p.
+    p = 3.0
+    loads = "\n".join(f'[[loads]]\nmember = "{m}"\nwn = "{p} kN/m"'
+                      for m in ("AD", "DB", "BC", "CA"))
+    text = _ring(loads).replace(_NODE_LOAD, "")
+    res = solve(loads_case(text)).to_dict()["cases"]["default"]
+    for mr in res["members"].values():
+        for end in ("start", "end"):
+            assert mr[end]["n"] == pytest.approx(-p * R, rel=1e-9)
+            assert abs(mr[end]["m"]) < 1e-9 * p * R * R
+        assert abs(mr["m_max"]["value"]) < 1e-9 * p * R * R
+    assert res["checks"]["equilibrium_ok"] and res["checks"]["stiffness_ok"]
+
+
+def test_free_ring_warmed_uniformly_grows_without_forces():
+    # common practice: a statically indeterminate ring free to expand takes no force
+    # from a uniform temperature change; its diameter grows by alpha dT 2R
+    alpha, dT = 1.2e-5, 40.0
+    arcs = ""
+    for m in ("AD", "DB", "BC", "CA"):
+        arcs += f'[[loads]]\nmember = "{m}"\ntemperature = {{ uniform = "{dT} K" }}\n'
+    text = _ring(arcs).replace(_NODE_LOAD, "").replace(
+        f'EI = "{EI} kN*m^2"', f'EI = "{EI} kN*m^2", EA = "2e5 kN", material = "s"')
+    text = text.replace("[nodes]", f'[materials.s]\nE = "200 GPa"\nalpha = "{alpha} 1/K"\n'
+                        "[nodes]")
+    res = solve(loads_case(text)).to_dict()["cases"]["default"]
+    assert res["displacements"]["A-B"] == pytest.approx(alpha * dT * 2 * R, rel=1e-9)
+    assert res["displacements"]["C-D"] == pytest.approx(alpha * dT * 2 * R, rel=1e-9)
+    for mr in res["members"].values():
+        assert abs(mr["start"]["n"]) < 1e-9 and abs(mr["start"]["m"]) < 1e-9
+
+
+def test_tied_arch_with_its_tie_cut_short():
+    # derived by least work: a tie cut short by e and pulled into place across the
+    # springings of a semicircular arch (axially rigid) takes T = e / (pi R^3/2EI + 2R/EA_t)
+    e, EA_t, Rr, EIa = 0.004, 2.0e5, 10.0, 8.0e4
+    text = _arch("circle", 10, '[[loads]]\nmember = "TIE"\nmisfit = "-4 mm"',
+                 tie='[bars]\nTIE = { nodes = ["A", "B"], EA = "200000 kN" }',
+                 right='{ restrain = ["y"] }')
+    res = solve(loads_case(text)).to_dict()["cases"]["default"]
+    T = e / (math.pi * Rr ** 3 / (2 * EIa) + 2 * Rr / EA_t)
+    assert res["members"]["TIE"]["start"]["n"] == pytest.approx(T, rel=1e-10)
+    # the arch's chord force is -T: m = -T w, largest at the crown (rise R)
+    assert res["members"]["ARCH"]["m_min"]["value"] == pytest.approx(-T * Rr, rel=1e-9)
+
+
+def test_displacement_along_the_arc_agrees_with_the_deflected_shape():
+    # invariant: the unit-load displacement of a point on the arc equals the strains
+    # integrated along the arc (the deflected shape), two independent routes
+    from leastwork.displacements import member_shape
+
+    text = _arch("parabola", 5, '[[loads]]\nmember = "ARCH"\nat = "7 m"\nfy = "-60 kN"',
+                 extra='EA = "3e6 kN", ') + '[analysis]\ndisplacements = ["ARCH@9.ARCH.y", "ARCH@9.x"]\n'
+    text = text.replace('"ARCH@9.ARCH.y", ', "").replace('"ARCH@9.x"', '"ARCH@9.x", "ARCH@9.y"')
+    sol = solve(loads_case(text))
+    d = sol.to_dict()["cases"]["default"]["displacements"]
+    st = sol.structure
+    res = sol.cases["default"]
+    xs, ux, uy, _ = member_shape(st, sol.topology, res, "ARCH", samples=4001)
+    size = math.hypot(d["ARCH@9.x"], d["ARCH@9.y"])
+    assert float(np.interp(9.0, xs, ux)) == pytest.approx(d["ARCH@9.x"], abs=1e-5 * size)
+    assert float(np.interp(9.0, xs, uy)) == pytest.approx(d["ARCH@9.y"], abs=1e-5 * size)
+
+
+def test_chain_model_converges_as_the_segments_shorten():
+    # the cross-check's independent model: the difference of successive chains falls
+    # about four-fold per halving (error proportional to the segment length squared)
+    from leastwork.verify import solve_stiffness
+    from leastwork.verify.chain import chain_structure
+
+    st = loads_case(_arch("circle", 10, '[[loads]]\nmember = "ARCH"\nat = "5*pi m"\n'
+                          'fy = "-100 kN"'))
+    h = [solve_stiffness(chain_structure(st, level), "default").reactions["A"]["x"]
+         for level in (1, 2, 4)]  # 48, 96, 192 segments on the semicircle
+    ratio = (h[1] - h[0]) / (h[2] - h[1])
+    assert 3.5 < ratio < 4.5
+    exact = 100e3 / math.pi  # N (Timoshenko, from memory: H = P/pi)
+    richardson = h[2] + (h[2] - h[1]) / 3
+    assert abs(richardson - exact) < 0.05 * abs(h[2] - exact)

@@ -26,8 +26,6 @@ from dataclasses import dataclass
 from functools import lru_cache
 
 import numpy as np
-from numpy.polynomial import chebyshev as C
-from numpy.polynomial import polynomial as P
 
 __all__ = ["Arc", "arc_of", "gauss_kronrod", "interpolated", "PIECES", "QUAD_RTOL"]
 
@@ -188,22 +186,28 @@ def piece_breaks(length: float, marks=()) -> np.ndarray:
     return np.array(out)
 
 
+_TO_LOCAL = np.linalg.inv(np.vander(_T, _DEG + 1, increasing=True))  # values -> coef in t
+_BINOM = np.array([[math.comb(j, k) for j in range(_DEG + 1)] for k in range(_DEG + 1)],
+                  dtype=float)
+
+
 def interpolated(func: Callable[[np.ndarray, int], np.ndarray], breaks: np.ndarray,
                  k: int) -> np.ndarray:
     """Coefficients (per field, per piece, 6) in the absolute position of the quintic
     interpolants of ``func(s, piece)`` (an array (k, len(s))) on each piece between
-    ``breaks``: fitted at Chebyshev points in the piece's own coordinate, then
-    expanded about 0 (well conditioned for arcs: the field's scale is the radius)."""
+    ``breaks``: fitted at Chebyshev points in the piece's own coordinate t = (x - mid)/h,
+    then expanded about 0 (well conditioned for arcs: the field's scale is the radius)."""
     npiece = len(breaks) - 1
     out = np.zeros((k, npiece, _DEG + 1))
+    powers = np.arange(_DEG + 1)
     for j in range(npiece):
         a, b = float(breaks[j]), float(breaks[j + 1])
         h, mid = 0.5 * (b - a), 0.5 * (a + b)
         vals = np.atleast_2d(func(mid + h * _T, j))
-        for i in range(k):
-            local = C.cheb2poly(C.chebfit(_T, vals[i], _DEG))  # in t = (x - mid)/h
-            acc = np.zeros(1)
-            for cj in local[::-1]:  # Horner in t = (x - mid)/h, expanded in x
-                acc = P.polyadd(P.polymul(acc, [-mid / h, 1.0 / h]), [cj])
-            out[i, j, :len(acc)] = acc
+        local = vals @ _TO_LOCAL.T  # (k, 6) coefficients in t
+        # x^kk coefficient: sum_j local_j C(j, kk) (-mid)^(j - kk) / h^j
+        shift = np.where(powers[None, :] >= powers[:, None],
+                         (-mid) ** np.clip(powers[None, :] - powers[:, None], 0, None), 0.0)
+        expand = _BINOM * shift / h ** powers[None, :]  # (kk, j)
+        out[:, j, :] = local @ expand.T
     return out

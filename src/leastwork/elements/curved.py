@@ -111,14 +111,23 @@ class _Loading:
         vals = np.array([q[0], q[1], u * q[1] - w * q[0]])
         return 0.5 * (b - a) * (vals @ _GL_W)
 
+    def _gl_to(self, a: float, x: np.ndarray) -> np.ndarray:
+        """:meth:`_gl` from ``a`` to each of the positions ``x`` (3, len(x))."""
+        if not self.dists:
+            return np.zeros((3, len(x)))
+        half = 0.5 * (x - a)
+        pts = (half[:, None] * _GL_X[None, :] + (0.5 * (x + a))[:, None]).ravel()
+        q = self.density(pts)
+        u, w, _, _ = self.arc.frame(pts)
+        vals = np.array([q[0], q[1], u * q[1] - w * q[0]]).reshape(3, len(x), len(_GL_X))
+        return half[None, :] * (vals @ _GL_W)
+
     def fields(self, x: np.ndarray, j: int) -> np.ndarray:
         """(n, v, m) at positions x inside piece j (loads at its start included)."""
         br = self.breaks
         a = br[j]
         lo = float(br[j])
-        Q = np.zeros((3, len(x)))
-        for k, xk in enumerate(x):
-            Q[:, k] = self.cum[:, j] + self._gl(lo, float(xk))
+        Q = self.cum[:, j][:, None] + self._gl_to(lo, x)
         u, w, cp, sp = self.arc.frame(x)
         Fu = self.r_start[0] + Q[0]
         Fw = self.r_start[1] + Q[1]

@@ -1,7 +1,8 @@
 """An independent model of curved members for the cross-check: each arc replaced by a
-chain of straight prismatic beams between points on the arc (equal arc lengths), solved by
-the direct stiffness method at two refinements and extrapolated (Richardson, error
-falling as the square of the segment length).
+chain of straight prismatic beams between points on the arc (equal arc lengths; 48 per
+half turn of the axis, at least 16), solved by the direct stiffness method with that chain
+and with one of twice as many segments, and extrapolated (Richardson, the error falling as
+the square of the segment length).
 
 Loads on the arc are carried over by arc length: a point load at arc length a goes to the
 segment holding a, at the same fraction of that segment; a load per unit arc length goes
@@ -20,18 +21,35 @@ import numpy as np
 from ..elements.arc import arc_of
 from ..model import DistributedLoad, Misfit, Node, PointLoad, Structure, TemperatureLoad
 
-__all__ = ["chain_structure", "CHAIN_SEGMENTS", "segment_name"]
+__all__ = ["chain_structure", "CHAIN_SEGMENTS", "MIN_SEGMENTS", "segment_name", "segments_of"]
 
-#: Segments per curved member of the two chain models extrapolated.
-CHAIN_SEGMENTS = (48, 96)
+#: Segments of the coarser chain per half turn of a curved member's axis (48 on a
+#: semicircle); the finer chain has twice as many. Never fewer than
+#: :data:`MIN_SEGMENTS`.
+CHAIN_SEGMENTS = 48
+MIN_SEGMENTS = 16
+
+
+def segments_of(m, level: int) -> int:
+    """Segments of curved member ``m`` in the chain of refinement ``level`` (1, 2, ...):
+    ``level`` times :data:`CHAIN_SEGMENTS` per half turn of the tangent, at least
+    :data:`MIN_SEGMENTS` times ``level``."""
+    arc = arc_of(m.curve)
+    if arc.shape == "circle":
+        a = abs(arc.rise)
+        turn = 2.0 * math.atan2(0.5 * arc.chord, (0.25 * arc.chord ** 2 + a * a) / (2 * a) - a)
+    else:
+        turn = 2.0 * math.atan(4.0 * abs(arc.rise) / arc.chord)
+    return level * max(MIN_SEGMENTS, math.ceil(CHAIN_SEGMENTS * turn / math.pi))
 
 
 def segment_name(mid: str, k: int) -> str:
     return f"{mid}~{k}"
 
 
-def chain_structure(st: Structure, segments: int) -> Structure:
-    """``st`` with every curved member replaced by ``segments`` straight beams."""
+def chain_structure(st: Structure, level: int) -> Structure:
+    """``st`` with every curved member replaced by a chain of straight beams
+    (:func:`segments_of` at refinement ``level``)."""
     nodes = dict(st.nodes)
     members = {}
     info = {}
@@ -40,6 +58,7 @@ def chain_structure(st: Structure, segments: int) -> Structure:
             members[mid] = m
             continue
         arc = arc_of(m.curve)
+        segments = segments_of(m, level)
         a = st.nodes[m.start]
         ex = st.direction(mid)
         s = np.linspace(0.0, arc.length, segments + 1)

@@ -85,6 +85,8 @@ def stiffness_check(st, res, condition: float = 1.0) -> StiffnessCheck:
                 compare(a, b, f"{mid} {end} {q}", q == "m")
     if estimate is None:
         return StiffnessCheck(worst, where, tolerance=tolerance)
+    # the extrapolated chain model's estimated error, relative like the difference; ten
+    # times it widens the tolerance
     rel = max([0.0] + [abs(v) / (scale * (lref if moment else 1.0)) for v, moment in estimate])
     return StiffnessCheck(worst, where, tolerance=max(tolerance, 10.0 * rel),
                           discretisation=rel)
@@ -92,26 +94,29 @@ def stiffness_check(st, res, condition: float = 1.0) -> StiffnessCheck:
 
 def _chain_solution(st, case: str):
     """The stiffness answer of the chain models of the curved members (:mod:`.chain`),
-    extrapolated from two refinements: a result with the reactions and member end forces
+    extrapolated from three refinements (each twice the segments of the one before): a result with the reactions and member end forces
     (a curved member's from its end segments, along the arc's end tangents) and the
     estimated error of each (value, is a moment)."""
-    from .chain import CHAIN_SEGMENTS, chain_structure, segment_name
+    from .chain import chain_structure, segment_name, segments_of
     from .stiffness import StiffnessResult
 
-    coarse, fine = CHAIN_SEGMENTS
-    chains = [chain_structure(st, n) for n in (coarse, fine)]
+    levels = (1, 2, 4)
+    chains = [chain_structure(st, level) for level in levels]
     runs = [solve_stiffness(ch, case) for ch in chains]
-    ratio = (fine / coarse) ** 2
 
-    def extrapolate(a, b):
-        return b + (b - a) / (ratio - 1.0), abs(b - a) / (ratio - 1.0)
+    def extrapolate(*values):
+        """Richardson on successive pairs (twice the segments: a quarter of the error);
+        the value from the two finest chains, its error estimated by the change from the
+        pair before."""
+        r = [b + (b - a) / 3.0 for a, b in zip(values[:-1], values[1:], strict=False)]
+        return r[-1], abs(r[-1] - r[-2])
 
     errors = []
     reactions = {}
-    for node, comps in runs[1].reactions.items():
+    for node, comps in runs[-1].reactions.items():
         out = {}
-        for k, v in comps.items():
-            out[k], e = extrapolate(runs[0].reactions[node].get(k, 0.0), v)
+        for k in comps:
+            out[k], e = extrapolate(*(r.reactions.get(node, {}).get(k, 0.0) for r in runs))
             errors.append((e, k == "rz"))
         reactions[node] = out
     ends = {}
@@ -121,15 +126,15 @@ def _chain_solution(st, case: str):
         else:
             L = st.length(mid)
             pairs = []
-            for r, ch, n in zip(runs, chains, (coarse, fine), strict=True):
-                a, b = segment_name(mid, 0), segment_name(mid, n - 1)
+            for r, ch, level in zip(runs, chains, levels, strict=True):
+                a, b = segment_name(mid, 0), segment_name(mid, segments_of(m, level) - 1)
                 pairs.append((_turned(r.end_forces[a][0], ch.direction(a), st.tangent(mid, 0.0)),
                               _turned(r.end_forces[b][1], ch.direction(b), st.tangent(mid, L))))
         ext = []
         for end in (0, 1):
             triple = []
             for q in range(3):
-                v, e = extrapolate(pairs[0][end][q], pairs[1][end][q])
+                v, e = extrapolate(*(p[end][q] for p in pairs))
                 triple.append(v)
                 errors.append((e, q == 2))
             ext.append(tuple(triple))
