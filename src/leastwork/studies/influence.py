@@ -198,6 +198,16 @@ def _section(st: Structure, topo, text: str, mid: str, dist: str, comp: str,
                    f"{uq.to_output(L, 'length'):g} {uq.length_unit})", where)
     at = min(at, L)
     kind = kind_of(mem)
+    if mem.curve is not None:  # fields along the arc: (basic force, n/v/m) at the point
+        from ..elements.curved import unit_values
+
+        vals = unit_values(mem, np.array([at]))[:, "nvm".index(comp), 0]
+        ci = topo.column_index
+        row = np.zeros(len(topo.columns))
+        for bf, value in zip(kind.basic_forces(mem), vals, strict=True):
+            row[ci[bf.name]] = value
+        return QuantitySpec(text, "force" if comp in ("v", "n") else "moment", row, mid, at,
+                            comp)
     units = kind.unit_fields(mem, L, 1.0, 0.0)
     if not any(comp in u for u in units):
         raise _err(f'"{text}": {mid} is a {mem.kind} and carries axial force only; ask for '
@@ -353,6 +363,10 @@ def influence_to_dict(line: InfluenceLine, units, name: str = "") -> dict:
     value_unit = uq.unit(line.quantity.dimension)
     values = np.asarray(line.values, dtype=float) / vf
     top = float(np.max(np.abs(values))) if values.size else 0.0
+    # a line that is zero everywhere still has round-off: the scale of a unit load's
+    # effect is one force unit (times a member's length for a moment)
+    reach = max((pt.at for pt in line.points), default=0.0) / Lf
+    top = max(top, 1.0 if line.quantity.dimension == "force" else reach)
     values = np.where(np.abs(values) <= _ROUND_OFF * top, 0.0, values)
     points = []
     for pt, v in zip(line.points, values, strict=True):

@@ -45,4 +45,10 @@ def energy_terms(st: Structure) -> str:
         text += f" Axially rigid (no area given): {', '.join(rigid)}."
     if not st.shear and any(m.is_beam for m in members):
         text += " Shear energy not included."
+    curved = [m.id for m in members if m.curve is not None]
+    if curved:
+        text += (f" Curved members ({', '.join(curved)}): thin (the curved-beam correction "
+                 "for deep sections is not made), energy integrated along the arc by "
+                 "adaptive quadrature; the stiffness cross-check models them as chains of "
+                 "straight beams.")
     return text
