@@ -292,3 +292,16 @@ def test_chain_model_converges_as_the_segments_shorten():
     exact = 100e3 / math.pi  # N (Timoshenko, from memory: H = P/pi)
     richardson = h[2] + (h[2] - h[1]) / 3
     assert abs(richardson - exact) < 0.05 * abs(h[2] - exact)
+
+
+def test_far_from_the_origin_no_false_alarm():
+    # invariant: moving the whole structure 1e12 m away changes nothing (no false
+    # mechanism, no failed check); H = P/pi as at the origin (Timoshenko, from memory)
+    text = _arch("circle", 10, '[[loads]]\nmember = "ARCH"\nat = "5*pi m"\nfy = "-100 kN"')
+    text = text.replace("A = [0, 0]", 'A = ["1e12", "1e12"]').replace(
+        "B = [20, 0]", 'B = ["1e12 + 20", "1e12"]')
+    sol = solve(loads_case(text))
+    res = sol.to_dict()["cases"]["default"]
+    assert res["reactions"]["A"]["x"] == pytest.approx(100 / math.pi, rel=1e-9)
+    assert res["checks"]["equilibrium_ok"] and res["checks"]["stiffness_ok"]
+    assert not sol.warnings
