@@ -31,7 +31,6 @@ __all__ = [
     "Atomizer",
     "Algebra",
     "Piecewise",
-    "SparseLU",
     "cramer",
     "factors",
     "Lin",
@@ -210,77 +209,6 @@ def _at_or_after(alg: Algebra, x, b, order: list) -> bool:
 
 
 # --------------------------------------------------------------------- linear algebra
-class SparseLU:
-    """Gaussian elimination of a square sparse matrix over K, pivots chosen by their
-    values at the parameters (threshold partial pivoting, sparse rows preferred); every
-    pivot is checked to be exactly nonzero.
-
-    ``rows`` : list of dict {column: element}.
-    """
-
-    def __init__(self, alg: Algebra, rows: list[dict[int, object]], tick: Callable[[], None],
-                 row_scale: Sequence[float] | None = None):
-        n = len(rows)
-        self.n = n
-        self.alg = alg
-        work = [dict(r) for r in rows]
-        scale = list(row_scale) if row_scale is not None else [1.0] * n
-        fl = [{c: abs(float(alg.num(v))) * scale[r] for c, v in row.items()}
-              for r, row in enumerate(work)]
-        self.ops: list[tuple[int, int, object]] = []
-        self.order: list[int] = []
-        active = set(range(n))
-        by_col: dict[int, set[int]] = {}
-        for r, row in enumerate(work):
-            for c in row:
-                by_col.setdefault(c, set()).add(r)
-        for k in range(n):
-            tick()
-            cand = [r for r in by_col.get(k, ()) if r in active and work[r].get(k)]
-            if not cand:
-                raise ZeroDivisionError("singular matrix")
-            big = max(fl[r].get(k, 0.0) for r in cand)
-            good = [r for r in cand if fl[r].get(k, 0.0) >= 0.1 * big] or cand
-            p = min(good, key=lambda r: (len(work[r]), -fl[r].get(k, 0.0), r))
-            piv = work[p][k]
-            prow = work[p]
-            for r in cand:
-                if r == p:
-                    continue
-                f = work[r][k] / piv
-                row = work[r]
-                for c, v in prow.items():
-                    nv = row.get(c, alg.zero) - f * v
-                    if nv:
-                        row[c] = nv
-                        by_col.setdefault(c, set()).add(r)
-                    else:
-                        row.pop(c, None)
-                row.pop(k, None)
-                # values of the changed row, for the choice of later pivots
-                fl[r] = {c: abs(float(alg.num(v))) * scale[r] for c, v in row.items()}
-                self.ops.append((r, p, f))
-            active.discard(p)
-            self.order.append(p)
-        self.U = work
-
-    def solve(self, rhs: Sequence) -> list:
-        """x with M x = rhs (rhs: a sequence of n elements)."""
-        b = list(rhs)
-        for r, p, f in self.ops:
-            if b[p]:
-                b[r] = b[r] - f * b[p]
-        x = [self.alg.zero] * self.n
-        for k in range(self.n - 1, -1, -1):
-            r = self.order[k]
-            acc = b[r]
-            for c, v in self.U[r].items():
-                if c > k and x[c]:
-                    acc = acc - v * x[c]
-            x[k] = acc / self.U[r][k]
-        return x
-
-
 def cramer(alg: Algebra, M: list[list], rhs: list):
     """Solve M x = rhs for a small dense matrix over K fraction-free, with no polynomial
     gcd at all (sympy's ``DomainMatrix.solve_den`` over K's polynomial ring).
