@@ -128,17 +128,10 @@ class Algebra:
         expr = self.atomizer(sympy.sympify(expr))
         return self.K.from_expr(expr) if expr != 0 else self.K.zero
 
-    def expr(self, el) -> sympy.Expr:
-        """Back to a sympy expression, auxiliaries still in place."""
-        return el.as_expr() if el else sympy.S.Zero
-
     def num(self, el) -> mpmath.mpf:
         """Value at the parameter values (60 digits)."""
         with mpmath.workdps(_DPS):
             return self._poly(el.numer) / self._poly(el.denom)
-
-    def fnum(self, el) -> float:
-        return float(self.num(el))
 
     def _poly(self, p) -> mpmath.mpf:
         total = mpmath.mpf(0)
@@ -333,35 +326,25 @@ class Closure:
         if not any(c[1:]):
             return c[0]
         if c not in self._closed:
-            self._closed[c] = self.close_terms([(x, (i,) if i else ())
-                                                for i, x in enumerate(c) if x])
+            self._closed[c] = self._close(c)
         return self._closed[c]
 
-    def close_terms(self, terms: list[tuple[Any, tuple[int, ...]]]):
-        """sum coef * prod X_i over ``terms`` ((coef in K, indices i >= 1 of the
-        redundants)), as one cancelled element of K."""
+    def _close(self, c: tuple):
+        """c[0] + sum c[i] X_i as one fraction N / (Q det) over the common denominator Q of
+        the coefficients, cancelled by trial division by the factors of Q and det."""
         K = self.alg.K
-        ring = K.ring
-        terms = [(x, idx) for x, idx in terms if x]
-        if not terms:
-            return K.zero
-        deg = max(len(idx) for _, idx in terms)
-        Q = ring.one
-        for x, _ in terms:
-            if x.denom != Q:
+        Q = K.ring.one
+        for x in c:
+            if x and x.denom != Q:
                 Q = Q.lcm(x.denom)
-        N = ring.zero
-        for x, idx in terms:
-            poly = x.numer * Q.exquo(x.denom)
-            for i in idx:
-                poly = poly * self.nums[i - 1]
-            for _ in range(deg - len(idx)):
-                poly = poly * self.det
-            N += poly
+        N = K.ring.zero
+        for i, x in enumerate(c):
+            if x:
+                N += x.numer * Q.exquo(x.denom) * (self.nums[i - 1] if i else self.det)
         if not N:
             return K.zero
-        den = Q * self.det**deg
-        for f in [*self.det_factors * deg, *self._factors(Q)]:
+        den = Q * self.det
+        for f in [*self.det_factors, *self._factors(Q)]:
             if not _may_divide(f, N):
                 continue
             try:
@@ -371,21 +354,12 @@ class Closure:
             N, den = N2, den.exquo(f)
         return _canonical(K, N, den)
 
-    def close_quadratic(self, a: Lin, b: Lin, k):
-        """a + k * b**2 as one cancelled element of K (a, b linear, k in K)."""
-        terms = [(x, (i,) if i else ()) for i, x in enumerate(a.c) if x]
-        bc = [(i, x) for i, x in enumerate(b.c) if x]
-        for i, x in bc:
-            for j, y in bc:
-                terms.append((k * x * y, tuple(t for t in (i, j) if t)))
-        return self.close_terms(terms)
-
     def _factors(self, Q) -> list:
         if Q.is_ground:
             return []
         key = tuple(sorted(Q.terms()))
         if key not in self._q_factors:
-            self._q_factors[key] = [f for f, m in Q.factor_list()[1] for _ in range(m)]
+            self._q_factors[key] = factors(Q)
         return self._q_factors[key]
 
 
