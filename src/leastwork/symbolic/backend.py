@@ -108,7 +108,7 @@ class ExactNumbers:
         return v
 
     def load_values(self, index: int, ld) -> dict:
-        return _exact_values(self.alg, self.loads[index])
+        return self.loads[index]
 
     def end_of(self, at, L) -> str | None:
         return "start" if at == self.zero else "end" if at == L else None
@@ -294,13 +294,3 @@ class ExactSolver:
             X[i] = Lin([alg.zero] + [alg.one if i == j else alg.zero for j in range(k)])
         return X
 
-
-def _exact_values(alg: Algebra, v):
-    """A load's exact values (sympy) as elements of K; names and None kept."""
-    if v is None or isinstance(v, str):
-        return v
-    if isinstance(v, dict):
-        return {k: _exact_values(alg, x) for k, x in v.items()}
-    if isinstance(v, (list, tuple)):
-        return type(v)(_exact_values(alg, x) for x in v)
-    return alg.el(v)
