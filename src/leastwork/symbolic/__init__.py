@@ -4,9 +4,10 @@ The names of ``[parameters]`` stay sympy symbols (each in the case units of its
 dimension); the topology and the redundants are those of the numeric solve; the pipeline
 (:mod:`.pipeline`) runs over the exact field of :mod:`.algebra`; every result is one
 cancelled rational function of the parameters, factored (:mod:`.presentation`); the whole
-solve runs under a time limit (:mod:`.time_limit`). The full semantics — units of the symbols, exact
-constants, what decides orders and extremes, what is refused, combinations, the JSON —
-are in docs/symbolic.md ("Semantics").
+solve runs under a time limit (:mod:`.time_limit`); the JSON is written with the outputs
+(:func:`leastwork.output.closed_forms.closed_forms_json`). The full semantics — units of
+the symbols, exact constants, what decides orders and extremes, what is refused,
+combinations, the JSON — are in docs/symbolic.md ("Semantics").
 """
 
 from __future__ import annotations

@@ -9,8 +9,8 @@ at the end. A result that is an identity of rational functions with independent
 auxiliaries stays true when they take their values.
 
 Every element can also be evaluated at the parameter values (60 significant digits) to
-make the decisions that depend on them: the order of positions along a member, pivots,
-which root of dm/dx is a moment extreme.
+make the decisions that depend on them: the order of positions along a member, which
+root of dm/dx is a moment extreme.
 """
 
 from __future__ import annotations

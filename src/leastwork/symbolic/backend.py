@@ -4,8 +4,8 @@ field K of :mod:`.algebra` needs that floats do not.
 * :class:`ExactNumbers` — geometry, sections and loads as elements of K; span-load fields
   on pieces ordered by the values of their ends; exact integrals;
 * :class:`ExactReleased` — the released basis over K (:class:`leastwork.statics.
-  ReleasedStructure` with exact sparse elimination instead of a float LU; displacements
-  by a unit load at each nodal direction asked for);
+  ReleasedStructure` with A0 inverted exactly by sympy's ``DomainMatrix`` instead of a
+  float LU; displacements by a unit load at each nodal direction asked for);
 * :class:`ExactSolver` — the compatibility equations by fraction-free elimination
   (X_i = N_i / det), the unknowns returned as :class:`.algebra.Lin` values so that
   superposition never divides by the determinant (:class:`.algebra.Closure` does, once
