@@ -305,3 +305,11 @@ def test_far_from_the_origin_no_false_alarm():
     assert res["reactions"]["A"]["x"] == pytest.approx(100 / math.pi, rel=1e-9)
     assert res["checks"]["equilibrium_ok"] and res["checks"]["stiffness_ok"]
     assert not sol.warnings
+
+
+def test_symbolic_mode_refuses_curved_members_with_the_reason():
+    # the integrals along an arc are numerical: --symbolic says so, exit 2 (contract)
+    from leastwork.symbolic import solve_symbolic
+
+    with pytest.raises(CaseError, match="curved members .* integrated numerically"):
+        solve_symbolic("ring.toml", text=_ring())

@@ -17,6 +17,7 @@ from __future__ import annotations
 import dataclasses
 import itertools
 import json
+import math
 from pathlib import Path
 
 import numpy as np
@@ -48,9 +49,14 @@ FAR = 1e12  # m: coordinates about 1e12 m from the origin
 def _shifted(st, dx: float, dy: float):
     """``st`` moved by (dx, dy); a span load read as running to the member's end (its
     length from the unshifted coordinates) still runs to the end of the moved member, whose
-    length differs in the last digits when the coordinates do not survive the shift."""
+    length differs in the last digits when the coordinates do not survive the shift; a
+    curved member's chord is the distance between its moved nodes, as reading them gives."""
     nodes = {k: dataclasses.replace(n, x=n.x + dx, y=n.y + dy) for k, n in st.nodes.items()}
-    moved = dataclasses.replace(st, nodes=nodes)
+    members = {k: m if m.curve is None else dataclasses.replace(m, curve=dataclasses.replace(
+        m.curve, chord=math.hypot(nodes[m.end].x - nodes[m.start].x,
+                                  nodes[m.end].y - nodes[m.start].y)))
+        for k, m in st.members.items()}
+    moved = dataclasses.replace(st, nodes=nodes, members=members)
     loads = tuple(dataclasses.replace(ld, end=moved.length(ld.member))
                   if isinstance(ld, DistributedLoad) and ld.end == st.length(ld.member)
                   else ld for ld in st.loads)
@@ -112,7 +118,10 @@ def test_far_from_the_origin_no_alarm_and_the_same_answer(path):
                 from leastwork.one_way import state_structure
 
                 ref = state_structure(far_st, name, state.slack, state.lifted)
-            assert _stiffness_difference(ref, res) < 1e-8
+            # the direct stiffness solver alone knows straight members only: a curved
+            # case is compared through the chain model, res.stiffness above
+            if all(m.curve is None for m in ref.members.values()):
+                assert _stiffness_difference(ref, res) < 1e-8
             if exact:
                 lref = max(st.length(m) for m in st.members)
                 lever = np.array([lref if c.is_moment else 1.0 for c in near.topology.columns])

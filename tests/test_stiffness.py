@@ -42,7 +42,9 @@ from leastwork.model import (  # noqa: E402
 from leastwork.verify import StiffnessResult, solve_stiffness, stiffness_dofs  # noqa: E402
 
 CASES_DIR = Path(__file__).resolve().parent.parent / "cases"
-CASE_FILES = sorted(CASES_DIR.glob("*.toml"))
+#: the direct stiffness solver's own elements are straight: cases with curved members are
+#: cross-checked through chains of straight beams (tests/test_cross_check.py)
+CASE_FILES = sorted(p for p in CASES_DIR.glob("*.toml") if "curve = {" not in p.read_text())
 REL = 1e-8
 KN = 1.0e3  # N per kN: the stiffness solver works in SI units
 
