@@ -200,8 +200,16 @@ register_load(LoadKind(
 
 # ---------------------------------------------------------------- point load on a member
 def _point_resultant(st: Structure, ld: PointLoad, centre) -> tuple:
-    px, py = st.point(ld.member, ld.at)
-    dx, dy = px - centre[0], py - centre[1]
+    o = st.nodes[st.members[ld.member].start]
+    if st.members[ld.member].curve is None:  # from the start node: no cancellation far out
+        c, s = st.direction(ld.member)
+        dx, dy = (o.x - centre[0]) + ld.at * c, (o.y - centre[1]) + ld.at * s
+    else:
+        from .elements.arc import arc_of
+
+        ox, oy = arc_of(st.members[ld.member].curve).point(ld.at, (0.0, 0.0),
+                                                          st.direction(ld.member))
+        dx, dy = (o.x - centre[0]) + float(ox), (o.y - centre[1]) + float(oy)
     return ((ld.fx, ld.fy, ld.mz + dx * ld.fy - dy * ld.fx),
             (abs(ld.fx), abs(ld.fy), abs(ld.mz) + abs(dx * ld.fy) + abs(dy * ld.fx)), 0.0)
 
