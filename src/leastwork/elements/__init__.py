@@ -2,12 +2,12 @@
 
 :mod:`.base` states what a kind supplies (:class:`~.base.MemberKind`), keeps the registry
 (:func:`~.base.kind_of`, :func:`~.base.register`) and integrates energy generically;
-:mod:`.bar` and :mod:`.beam` are the two kinds a case file can name. Nothing outside a
+:mod:`.bar`, :mod:`.beam` and :mod:`.tapered` are the kinds a case file can name. Nothing outside a
 kind knows its formulas: topology, energy, statics, results, displacements and the audit
 sheet ask the kind.
 """
 
-from . import bar, beam  # noqa: F401  (registers the kinds)
+from . import bar, beam, tapered  # noqa: F401  (registers the kinds)
 from .base import (
     MEMBER_KINDS,
     BasicForce,

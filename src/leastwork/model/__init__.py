@@ -19,6 +19,7 @@ from .structure import (
     Settlement,
     Structure,
     Support,
+    Taper,
     TemperatureLoad,
     reaction_components,
     rotational_nodes,
@@ -28,6 +29,7 @@ from .structure import (
 __all__ = [
     "Node",
     "Member",
+    "Taper",
     "Restraint",
     "Support",
     "reaction_components",

@@ -19,6 +19,7 @@ from .units import UnitSystem
 __all__ = [
     "Node",
     "Member",
+    "Taper",
     "Restraint",
     "Support",
     "reaction_components",
@@ -46,6 +47,26 @@ class Node:
     id: str
     x: float
     y: float
+
+
+@dataclass(frozen=True)
+class Taper:
+    """The end section of a tapered beam (the member's own values are its start section).
+
+    ``law`` "linear": EA, EI, GAs, the area and the own weight vary linearly from start to
+    end; "depth": a solid rectangle whose depth varies linearly, A and GAs as the depth
+    ratio r = d(x)/d_start, I as r^3 (the end values then follow from the start's).
+    """
+
+    law: Literal["linear", "depth"]
+    EA: float | None  #: N, at the end
+    EI: float  #: N*m^2, at the end
+    GAs: float | None = None  #: N, at the end
+    depth: float | None = None  #: m, at the end
+    weight: float | None = None  #: N/m, at the end
+    area: float | None = None  #: m^2, at the end
+    section_modulus: float | None = None  #: m^3, at the end
+    length: float = 0.0  #: m, the member's length when read (x/L along the taper)
 
 
 @dataclass(frozen=True)
@@ -78,7 +99,7 @@ class Member:
     """
 
     id: str
-    kind: Literal["beam", "bar"]
+    kind: Literal["beam", "bar", "tapered"]
     start: str
     end: str
     EA: float | None = None
@@ -93,10 +114,12 @@ class Member:
     end_springs: tuple[float | None, float | None] = (None, None)
     area: float | None = None  #: cross-section area A (m^2), for stresses
     section_modulus: float | None = None  #: elastic section modulus S (m^3), for stresses
+    taper: Taper | None = None  #: end section of a tapered beam (kind "tapered")
 
     @property
     def is_beam(self) -> bool:
-        return self.kind == "beam"
+        """A member in bending (a beam, prismatic or tapered)."""
+        return self.kind in ("beam", "tapered")
 
 
 def rotational_nodes(members) -> set[str]:

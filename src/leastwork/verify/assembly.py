@@ -15,7 +15,8 @@ import scipy.sparse as sp
 
 from ..model import Structure, rotational_nodes
 from .elements import condense, element, element_map, joint_springs, local_stiffness
-from .loads import CaseLoads, member_loading
+from .loads import CaseLoads, MemberLoading, member_loading
+from .tapered import tapered_loading, tapered_stiffness
 
 __all__ = ["dof_index", "restraint_row", "spring_data", "Assembly", "assemble"]
 
@@ -81,8 +82,13 @@ def assemble(st: Structure, index: dict[str, int], loads: CaseLoads) -> Assembly
     elongations: dict[str, float] = {}
     for mid in st.members:
         el = element(st, mid)
-        ml = member_loading(st, el, loads.by_member[mid])
-        k = local_stiffness(el)
+        if el.member.taper is not None:
+            k = tapered_stiffness(st, mid, el.L)
+            ml = MemberLoading(*tapered_loading(st, mid, el.L, el.c, el.s,
+                                                loads.by_member[mid]))
+        else:
+            ml = member_loading(st, el, loads.by_member[mid])
+            k = local_stiffness(el)
         kc, fc = condense(*joint_springs(k, ml.f0, el.springs), el.hinged)
         T = el.transform()
         g = element_map(el, index)
