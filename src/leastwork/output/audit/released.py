@@ -6,7 +6,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from ...elements import column_of, has_bending, kind_of
+from ...elements import column_of, has_bending, integrate, kind_of
 from ...fields import gauss_integral
 from ...solution import member_result
 from ..sheet import Grid, Step
@@ -142,10 +142,15 @@ def _moments_under_loads(ctx: Context, case: str) -> Grid:
         for a, b, coef in mr0.m.pieces():
             vals = []
             for i, mi in enumerate(unit):
-                f = gauss_integral(np.array([a, b]), lambda x, c=coef, mi=mi: (
-                    np.polynomial.polynomial.polyval(x, c)
-                    * np.polynomial.polynomial.polyval(x, mi)))
-                vals.append(ctx.load_term_case(f / EI, i))
+                if callable(EI):  # a tapered beam: adaptive, as the solver integrated it
+                    f = integrate(lambda x, c=coef, mi=mi, EI=EI: float(
+                        np.polynomial.polynomial.polyval(x, c)
+                        * np.polynomial.polynomial.polyval(x, mi)) / EI(x), float(a), float(b))
+                else:
+                    f = gauss_integral(np.array([a, b]), lambda x, c=coef, mi=mi: (
+                        np.polynomial.polynomial.polyval(x, c)
+                        * np.polynomial.polynomial.polyval(x, mi))) / EI
+                vals.append(ctx.load_term_case(f, i))
             tot += vals
             rows.append((m.id, u.convert(a, 0, 1), u.convert(b, 0, 1),
                          poly_text(scaled_poly(coef, u.L, u.factor("moment"))), *vals))

@@ -36,10 +36,14 @@ def _members(ctx: Context) -> Grid:
         a, b = st.nodes[m.start], st.nodes[m.end]
         hinges = ", ".join(k for k, h in (("start", m.hinge_start), ("end", m.hinge_end))
                            if h) or "-"
+        EA = u.convert(m.EA, 1, 0) if m.EA is not None else "rigid"
+        EI = u.convert(m.EI, 1, 2) if m.EI is not None else "-"
+        if m.taper is not None:  # start -> end of a tapered beam
+            EA = (f"{fmt(EA)} -> {fmt(u.convert(m.taper.EA, 1, 0))}"
+                  if m.taper.EA is not None else "rigid")
+            EI = f"{fmt(EI)} -> {fmt(u.convert(m.taper.EI, 1, 2))}"
         rows.append((m.id, m.kind, f"{a.id} -> {b.id}", u.convert(st.length(m.id), 0, 1),
-                     u.convert(m.EA, 1, 0) if m.EA is not None else "rigid",
-                     u.convert(m.EI, 1, 2) if m.EI is not None else "-",
-                     hinges if m.is_beam else "pins"))
+                     EA, EI, hinges if m.is_beam else "pins"))
     return Grid("Members", ("member", "kind", "from -> to", f"L [{u.length_unit}]",
                             f"EA [{u.force_unit}]", f"EI [{u.label(1, 2)}]", "hinges"),
                 tuple(rows))

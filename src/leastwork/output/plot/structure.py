@@ -35,6 +35,8 @@ def draw_members(pn: Panel, st: Structure, faint: bool = False) -> None:
             pn.line([a, b], color=FAINT, lw=0.8, z=1)
             continue
         pn.line([a, b], color=INK, lw=2.0 if m.is_beam else 1.1, z=3)
+        if m.taper is not None:
+            _taper_outline(pn, m, a, b)
     if faint:
         return
     r = 0.22 * pn.h
@@ -49,6 +51,28 @@ def draw_members(pn: Panel, st: Structure, faint: bool = False) -> None:
         else:
             pn.circle(a, 0.75 * r, z=4)
             pn.circle(b, 0.75 * r, z=4)
+
+
+def taper_depths(m) -> tuple[float, float]:
+    """(start, end) depth of a tapered beam relative to its deeper end: the sections'
+    depths where both are given, else (I_end/I_start)^(1/3) (a solid section's depth)."""
+    t = m.taper
+    if m.depth is not None and t.depth is not None:
+        d0, d1 = m.depth, t.depth
+    else:
+        d0, d1 = 1.0, (t.EI / m.EI) ** (1.0 / 3.0)
+    big = max(d0, d1)
+    return d0 / big, d1 / big
+
+
+def _taper_outline(pn: Panel, m, a, b) -> None:
+    """The outline of a tapered beam: a band about its axis whose width follows the depth
+    (the deeper end drawn 1.4 symbol heights deep), so a haunch reads as one."""
+    d0, d1 = taper_depths(m)
+    n = perp((b - a) / np.hypot(*(b - a)))
+    h0, h1 = 0.7 * pn.h * d0, 0.7 * pn.h * d1
+    outline = [a + n * h0, b + n * h1, b - n * h1, a - n * h0]
+    pn.poly(outline, face=GROUND, edge=INK, lw=0.7, z=2)
 
 
 def _ground(pn: Panel, p, a, width: float, depth: float) -> None:
