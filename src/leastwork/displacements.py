@@ -227,9 +227,10 @@ def _at(value, x: float) -> float:
     return float(value(x)) if callable(value) else float(value)
 
 
-#: sub-intervals per piece of a member whose section varies: the deflection between two
-#: grid points is the cubic through the exact values and slopes there (Hermite), error
-#: about h^4/384 times the largest fourth derivative of w
+#: sub-intervals per piece of a member whose section varies: between two grid points the
+#: deflection is the quintic through the exact values, slopes and curvatures there
+#: (Hermite; the cubic through values and slopes when shear strains count), an error of
+#: order h^6 (h^4) of the sub-interval h
 VARYING_SUBDIVISIONS = 32
 
 
@@ -265,25 +266,43 @@ def varying_pieces(mr, sec: dict, free: dict):
             d0 = slope - _gamma_at(gamma, x0, 1)
             s1 = slope + d_slope
             d1 = s1 - _gamma_at(gamma, x1, -1)
-            pieces.append((float(x0), float(x1), _hermite(x0, x1, w, w + d_w, d0, d1)))
+            if GAs is None:  # w'' = kappa at both ends: the quintic through all six
+                c0, c1 = _inside(kappa, x0, 1), _inside(kappa, x1, -1)
+                poly = _hermite(x0, x1, (w, d0, c0), (w + d_w, d1, c1))
+            else:
+                poly = _hermite(x0, x1, (w, d0), (w + d_w, d1))
+            pieces.append((float(x0), float(x1), poly))
             slope, w = s1, w + d_w
     return pieces, w
 
 
 def _gamma_at(gamma, x: float, side: int) -> float:
     """The shear strain just inside a sub-interval (v jumps at a point load)."""
-    return gamma(x + side * 1e-12 * max(abs(x), 1.0))
+    return _inside(gamma, x, side)
 
 
-def _hermite(x0: float, x1: float, w0: float, w1: float, d0: float, d1: float) -> list:
-    """Ascending coefficients in x of the cubic with values w0, w1 and slopes d0, d1 at x0,
-    x1."""
-    h = x1 - x0
-    # in t = x - x0: w0 + d0 t + c2 t^2 + c3 t^3
-    c2 = (3 * (w1 - w0) / h - 2 * d0 - d1) / h
-    c3 = (d0 + d1 - 2 * (w1 - w0) / h) / (h * h)
-    local = np.array([w0, d0, c2, c3])
-    # shift to x: t = x - x0
+def _inside(f, x: float, side: int) -> float:
+    """``f`` just inside a sub-interval from its end ``x`` (fields jump at point loads)."""
+    return f(x + side * 1e-12 * max(abs(x), 1.0))
+
+
+def _hermite(x0: float, x1: float, left: tuple, right: tuple) -> list:
+    """Ascending coefficients in x of the polynomial with the given (value, slope[,
+    second derivative]) at x0 and x1: the cubic or the quintic Hermite interpolant."""
+    h, k = x1 - x0, len(left)
+    n = 2 * k
+    rows, rhs = [], []
+    for t, vals in ((0.0, left), (h, right)):
+        for order, v in enumerate(vals):
+            row = [0.0] * n
+            for p in range(order, n):
+                coef = 1.0
+                for q in range(order):
+                    coef *= p - q
+                row[p] = coef * t ** (p - order)
+            rows.append(row)
+            rhs.append(v)
+    local = np.linalg.solve(np.array(rows), np.array(rhs))  # in t = x - x0
     return _shift(local, x0).tolist()
 
 

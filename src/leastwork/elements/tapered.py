@@ -52,6 +52,8 @@ def profile(m, L: float, field: str) -> Profile | float | None:
     if start is None:
         return None
     if t.law == "depth":
+        if t.depth == m.depth:
+            return start
         r = depth_ratio(m, L)
         power = 3 if field == "m" else 1
         return lambda x: start * r(x) ** power
@@ -73,7 +75,14 @@ class TaperedBeam(Beam):
             out["v"] = profile(m, L, "v")
         return out
 
+    def _prismatic(self, m, L, shear: bool) -> bool:
+        """Whether the section is in fact constant (equal end sections): then the beam's
+        closed forms apply, the very numbers of a prismatic beam."""
+        return not any(callable(k) for k in _AtLength(self, L).section(m, m, shear).values())
+
     def flexibility(self, m, sec, L, shear: bool, one) -> list[EnergyTerm]:
+        if self._prismatic(m, L, shear):
+            return Beam.flexibility(self, m, sec, L, shear, one)
         out = generic_flexibility(_AtLength(self, L), m, sec, L, shear, one)
         cols = {k: 1 + i for i, k in enumerate(self._ends(m))}
         for k, col in cols.items():  # semi-rigid joint: M^2/(2 k)
@@ -82,6 +91,8 @@ class TaperedBeam(Beam):
         return out
 
     def initial_deformations(self, m, sec, L, shear: bool, integral, imposed, one):
+        if self._prismatic(m, L, shear) and _even_depth(m):
+            return Beam.initial_deformations(self, m, sec, L, shear, integral, imposed, one)
         eps, kappa, misfit = imposed if imposed is not None else (0.0, 0.0, 0.0)
         flat = None if imposed is None else (eps, 0.0, misfit)
         out = generic_initial(_AtLength(self, L), m, sec, L, shear, integral, flat, one)
@@ -99,13 +110,20 @@ class TaperedBeam(Beam):
         """Free curvature of a temperature gradient along the member: ``kappa`` is
         alpha dTgrad / d_start; it varies as d_start / d(x) (constant without end depth)."""
         r = depth_ratio(m, L)
-        if r is None:
+        if r is None or _even_depth(m):
             return lambda x: kappa
         return lambda x: kappa / r(x)
 
     def free_strains(self, m, sec, L, imposed) -> dict[str, list]:
         eps, kappa, misfit = imposed
-        return {"n": [eps, misfit / L], "m": [self.curvature(m, L, kappa) if kappa else kappa]}
+        varies = kappa and not _even_depth(m)
+        return {"n": [eps, misfit / L], "m": [self.curvature(m, L, kappa) if varies else kappa]}
+
+
+def _even_depth(m) -> bool:
+    """Whether the depth is constant along the member (or not known at both ends): the free
+    curvature of a temperature gradient is then uniform."""
+    return m.depth is None or m.taper.depth is None or m.taper.depth == m.depth
 
 
 class _AtLength:

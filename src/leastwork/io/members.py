@@ -170,10 +170,11 @@ def _taper(reader: CaseReader, spec: dict, where: str, mat: dict | None, section
         for key, want in (("I", s0["I"] * r**3), ("A", s0["A"] * r if "A" in s0 else None)):
             if want is None or abs(s1.get(key, want) - want) <= _DEPTH_RTOL * abs(want):
                 continue
+            unit = "m^4" if key == "I" else "m^2"
             raise reader.err(where + ".section", f'taper = "depth" needs the end section '
                              f'"{echo(names[1])}" to agree with the start: {key} = {key}_start '
-                             f"(d_end/d_start)^{3 if key == 'I' else 1} = {want:.6g} (SI), "
-                             f"got {s1[key]:.6g}; give matching sections or taper = \"linear\"")
+                             f"(d_end/d_start)^{3 if key == 'I' else 1} = {want:.6g} {unit}, "
+                             f"got {s1[key]:.6g} {unit}; give matching sections or taper = \"linear\"")
     G = mat.get("G") if mat else None
     weight = (mat["unit_weight"] * s1["A"]
               if mat and "unit_weight" in mat and "A" in s1 else None)

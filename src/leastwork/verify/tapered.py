@@ -3,8 +3,8 @@ section varies, by inverting its cantilever flexibility.
 
 Independent of the force method on purpose: the section is evaluated here from the member's
 own start and end values (``Member.taper``), and the integrals are composite Gauss–Legendre
-rules of fixed order (:data:`PANELS` panels of :data:`POINTS` points), not the force
-method's adaptive rule.
+rules of fixed order (:data:`PANELS` panels of :data:`POINTS` points between the breaks of
+the loads), not the force method's adaptive rule.
 
 Clamp the start and load the end with (N, V, M) in local axes: the section forces at x are
 n = N, v = V, m = M + V (L - x) (m sagging positive). The end displacements (u, w, phi)
@@ -31,9 +31,12 @@ PANELS, POINTS = 16, 12
 _GX, _GW = np.polynomial.legendre.leggauss(POINTS)
 
 
-def _rule(a: float, b: float) -> tuple[np.ndarray, np.ndarray]:
-    """Points and weights on [a, b]."""
-    edges = np.linspace(a, b, PANELS + 1)
+def _rule(a: float, b: float, breaks=()) -> tuple[np.ndarray, np.ndarray]:
+    """Points and weights on [a, b], :data:`PANELS` panels between consecutive ``breaks``
+    (where the load's section forces have kinks or jumps)."""
+    cuts = sorted({a, b, *(x for x in breaks if a < x < b)})
+    edges = np.unique(np.concatenate([np.linspace(lo, hi, PANELS + 1)
+                                      for lo, hi in zip(cuts[:-1], cuts[1:], strict=True)]))
     h = 0.5 * np.diff(edges)
     mid = 0.5 * (edges[:-1] + edges[1:])
     x = (mid[:, None] + h[:, None] * _GX[None, :]).ravel()
@@ -59,8 +62,8 @@ def _stiffness_along(m, L: float, x: np.ndarray, shear: bool):
     return EA, GAs, lin(m.EI, t.EI)
 
 
-def _cantilever(st: Structure, mid: str, L: float):
-    x, w = _rule(0.0, L)
+def _cantilever(st: Structure, mid: str, L: float, breaks=()):
+    x, w = _rule(0.0, L, breaks)
     EA, GAs, EI = _stiffness_along(st.members[mid], L, x, st.shear)
     return x, w, EA, GAs, EI
 
@@ -118,7 +121,13 @@ def tapered_loading(st: Structure, mid: str, L: float, c: float, s: float,
     """(f0 (6,), free elongation m): forces the nodes apply to the clamped member (local)
     under span loads, temperature and misfit."""
     m = st.members[mid]
-    x, w, EA, GAs, EI = _cantilever(st, mid, L)
+    breaks = []
+    for ld in loads:
+        if isinstance(ld, PointLoad):
+            breaks.append(ld.at)
+        elif isinstance(ld, DistributedLoad):
+            breaks += [ld.start, L if math.isnan(ld.end) else ld.end]
+    x, w, EA, GAs, EI = _cantilever(st, mid, L, breaks)
     C = _flexibility(x, w, EA, GAs, EI, L)
     b = _unit_sections(x, L)
     # section forces of the loads at x of the clamped-start cantilever; resultants
@@ -128,7 +137,7 @@ def tapered_loading(st: Structure, mid: str, L: float, c: float, s: float,
     for ld in loads:
         if isinstance(ld, PointLoad):
             px, py = ld.fx * c + ld.fy * s, -ld.fx * s + ld.fy * c
-            beyond = x < ld.at
+            beyond = x < ld.at  # no rule point sits on a break
             n0 += px * beyond
             v0 += py * beyond
             m0 += (py * (ld.at - x) + ld.mz) * beyond
