@@ -151,7 +151,9 @@ def _section(st: Structure, res, mid: str, nums: Numbers | None = None) -> tuple
     else:
         sec, L, zero = nums.section(mid), nums.length(mid), nums.zero
     imposed = res.loading.imposed.get(mid, (zero, zero, zero))
-    return kind.section(mem, sec, st.shear), kind.free_strains(mem, sec, L, imposed)
+    along = getattr(kind, "section_at_length", None)  # a section that varies along x
+    section = along(mem, L, st.shear) if along else kind.section(mem, sec, st.shear)
+    return section, kind.free_strains(mem, sec, L, imposed)
 
 
 def member_shape(st: Structure, topo, res, mid: str, samples: int = 41,

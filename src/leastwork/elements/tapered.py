@@ -69,7 +69,13 @@ class TaperedBeam(Beam):
     name = "tapered"
 
     def section(self, m, sec, shear: bool) -> dict[str, Any]:
-        L = m.taper.length
+        """The stiffnesses along the member for the length it had when read; the energy
+        and displacements use :meth:`section_at_length` with the length at hand (a study
+        that moves nodes changes it)."""
+        return self.section_at_length(m, m.taper.length, shear)
+
+    def section_at_length(self, m, L: float, shear: bool) -> dict[str, Any]:
+        """EA, EI (and GAs) along the member as functions of x (m) for length L."""
         out = {"n": profile(m, L, "n"), "m": profile(m, L, "m")}
         if shear and m.GAs:
             out["v"] = profile(m, L, "v")
@@ -136,10 +142,7 @@ class _AtLength:
         return self.kind.unit_fields(m, L, one, zero)
 
     def section(self, m, sec, shear: bool) -> dict[str, Any]:
-        out = {"n": profile(m, self.L, "n"), "m": profile(m, self.L, "m")}
-        if shear and m.GAs:
-            out["v"] = profile(m, self.L, "v")
-        return out
+        return self.kind.section_at_length(m, self.L, shear)
 
 
 TAPERED = register(TaperedBeam())

@@ -138,7 +138,9 @@ def _moments_under_loads(ctx: Context, case: str) -> Grid:
     for m in (m for m in st.members.values() if has_bending(m)):
         mr0 = member_result(st, topo, m.id, ctx.s0[case], res.loading.particulars.get(m.id))
         unit = [_unit_fields(ctx, m, i)["m"] for i in range(nr)]
-        EI = kind_of(m).section(m, m, st.shear)["m"]
+        along = getattr(kind_of(m), "section_at_length", None)  # a tapered beam
+        EI = (along(m, st.length(m.id), st.shear) if along
+              else kind_of(m).section(m, m, st.shear))["m"]
         for a, b, coef in mr0.m.pieces():
             vals = []
             for i, mi in enumerate(unit):
