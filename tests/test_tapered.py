@@ -236,3 +236,30 @@ def test_command_line_json_steps_and_symbolic(capsys, tmp_path):
     assert main(["solve", str(prop), "--symbolic"]) == 2
     err = capsys.readouterr().err.strip().splitlines()
     assert len(err) == 1 and "tapered" in err[0]
+
+
+_SHEAR = ('[analysis]\nshear = true\ndisplacements = ["AB@3.y"]\n')
+
+
+@pytest.mark.parametrize("variant", ["shear", "hinge", "joint spring"])
+def test_shear_hinges_and_joint_springs_agree_with_the_stiffness_method(variant):
+    """Invariant (two independent methods): the force method with the tapered beam's
+    integrals = the exact tapered stiffness element, with shear energy (G·As ~ depth), a
+    hinge at the end of a tapered beam framing into a post, and a joint spring."""
+    text = _propped('["deep", "shallow"]', ', taper = "depth"', loads='at = "2 m"\nfy = "-30 kN"')
+    if variant == "shear":
+        text = (text.replace('E = "200 GPa"', 'E = "200 GPa"\nG = "77 GPa"')
+                .replace('depth = "0.6 m"', 'depth = "0.6 m"\nshear_area = "0.1 m^2"')
+                .replace('depth = "0.3 m"', 'depth = "0.3 m"\nshear_area = "0.05 m^2"')
+                + _SHEAR)
+    elif variant == "hinge":
+        text = (text.replace('taper = "depth" }', 'taper = "depth", hinges = ["end"] }\n'
+                             'BC = { nodes = ["B", "C"], material = "steel", section = "deep" }')
+                .replace(f"B = [{L}, 0]", f"B = [{L}, 0]\nC = [{L}, -4]")
+                .replace('B = "roller"', 'C = "fixed"'))
+    else:
+        text = text.replace('taper = "depth" }',
+                            'taper = "depth", end_springs = { start = "20000 kN*m/rad" } }')
+    sol = lw.solve(lw.loads_case(text))
+    assert sol.cases["default"].stiffness.difference < 1e-9
+    assert sol.equilibrium_ok
