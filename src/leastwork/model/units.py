@@ -31,9 +31,26 @@ QUANTITY_LIMIT = 200
 UNIT_POWER_LIMIT = 10
 
 
+def _import_pint():
+    """pint, imported without looking for Dask: when Dask is installed, pint imports it at
+    its own import (0.08 s, as long as pint itself) for Dask arrays of quantities, which
+    this tool never makes. Where Dask is already loaded (a sweep's worker) pint sees it."""
+    if "pint" in sys.modules or "dask" in sys.modules:
+        import pint
+
+        return pint
+    sys.modules["dask"] = None  # type: ignore[assignment]  # find_spec: not installed
+    try:
+        import pint
+    finally:
+        if sys.modules.get("dask", 0) is None:
+            del sys.modules["dask"]
+    return pint
+
+
 @lru_cache(maxsize=1)
 def _registry():
-    import pint
+    pint = _import_pint()
 
     # pint's own disk cache of the parsed definitions (the user cache folder) makes the
     # registry about ten times cheaper to build after the first run; without a usable cache
