@@ -64,7 +64,7 @@ def case_loading(st: Structure, topo: Topology, case: str,
 #: Released structures of up to this many equations are solved by numpy's dense LU afresh
 #: at each solve (a few per load case, each well under a millisecond), so that a small
 #: solve does not import scipy (0.1-0.2 s of start-up); larger ones are factorised once.
-NUMPY_LU_MAX = 200
+NUMPY_LU_MAX = 100
 
 
 class ReleasedStructure(Basis):
