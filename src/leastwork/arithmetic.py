@@ -16,6 +16,7 @@ from typing import Any, Protocol
 
 import numpy as np
 
+from .arrays import union
 from .elements import kind_of
 from .elements.base import integrate
 from .fields import ParticularFields, gauss_integral
@@ -169,7 +170,7 @@ class FloatNumbers:
                   free: dict) -> float:
         """Gauss–Legendre on the union of both fields' breaks (exact for their
         polynomials), added to ``value`` field by field."""
-        brk = np.union1d(unit.m.breaks, real.m.breaks)
+        brk = union(unit.m.breaks, real.m.breaks)
         for f in ("n", "m", "v"):
             K, extra = section.get(f), free.get(f, [])
             if K is None and not any(extra):

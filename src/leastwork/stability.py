@@ -39,6 +39,7 @@ from typing import TYPE_CHECKING
 
 import numpy as np
 
+from .arrays import median
 from .elements import kind_of
 from .errors import MechanismError
 from .scaling import scaled_dense, scaled_equilibrium
@@ -218,7 +219,7 @@ def _support_spot(st, topo, ids, xy, a, b, lref: float) -> WeakSpot | None:
     node = np.array([index[r.node] for r in topo.restraints], dtype=int)
     vec = np.array([r.vector for r in topo.restraints], dtype=float)
     best = None
-    for part in np.unique(label[node]):
+    for part in sorted(set(label[node].tolist())):  # np.unique would load numpy.ma
         pick = np.flatnonzero(label[node] == part)
         if len(pick) < 3:
             continue  # fewer than three restraints: a mechanism, found by the rank
@@ -422,7 +423,7 @@ def soft_spring_warnings(st, topo, states, ratio: float = SOFT_SPRING_RATIO) -> 
             member_k.append(section["m"] / L ** 3)
     if not member_k:
         return []
-    k_ref = float(np.median(member_k))
+    k_ref = median(member_k)
     lmax = max(st.length(m) for m in st.members)
     rows = None
     if not isinstance(states, np.ndarray):  # a scipy.sparse matrix (the local basis)

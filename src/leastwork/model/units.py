@@ -31,20 +31,26 @@ QUANTITY_LIMIT = 200
 UNIT_POWER_LIMIT = 10
 
 
-def _import_pint():
-    """pint, imported without looking for Dask: when Dask is installed, pint imports it at
-    its own import (0.08 s, as long as pint itself) for Dask arrays of quantities, which
-    this tool never makes. Where Dask is already loaded (a sweep's worker) pint sees it."""
-    if "pint" in sys.modules or "dask" in sys.modules:
-        import pint
+#: Optional packages pint imports at its own import when they are installed, for features
+#: this tool never uses (Dask arrays of quantities, quantities with uncertainties): together
+#: about 0.1 s of start-up, as long as pint itself. Hidden from pint while it is imported,
+#: unless already loaded (a sweep's Dask worker), so pint then works without them.
+_PINT_EXTRAS = ("dask", "uncertainties")
 
-        return pint
-    sys.modules["dask"] = None  # type: ignore[assignment]  # find_spec: not installed
+
+def _import_pint():
+    """pint, imported without looking for :data:`_PINT_EXTRAS`."""
+    if "pint" in sys.modules:
+        return sys.modules["pint"]
+    hidden = [name for name in _PINT_EXTRAS if name not in sys.modules]
+    for name in hidden:
+        sys.modules[name] = None  # type: ignore[assignment]  # "not installed" to pint
     try:
         import pint
     finally:
-        if sys.modules.get("dask", 0) is None:
-            del sys.modules["dask"]
+        for name in hidden:
+            if sys.modules.get(name, 0) is None:
+                del sys.modules[name]
     return pint
 
 
