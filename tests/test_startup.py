@@ -229,3 +229,21 @@ def test_numpy_and_scipy_solve_the_released_structure_alike(case, monkeypatch):
         scale = max([abs(v) for v in theirs.values()] + [1e-300])
         for key, value in ours.items():
             assert value == pytest.approx(theirs[key], abs=1e-10 * scale)
+
+
+@settings(max_examples=60, deadline=None)
+@given(st.lists(st.sampled_from([-2.5, -0.0, 0.0, 1.0, 1.5, 3.0, 7.25]), min_size=1, max_size=30),
+       st.lists(st.sampled_from([0.0, 0.5, 1.5, 9.0]), max_size=10))
+def test_the_sorting_helpers_give_numpys_median_unique_and_union(values, more):
+    """Invariant: the helpers that keep numpy.ma unloaded return numpy's own results."""
+    import numpy as np
+
+    from leastwork.arrays import first_and_inverse, median, union
+
+    x = np.array(values)
+    assert median(x) == float(np.median(x))
+    _, first, inverse = np.unique(x, return_index=True, return_inverse=True)
+    ours_first, ours_inverse = first_and_inverse(x)
+    assert ours_first.tolist() == first.tolist()
+    assert ours_inverse.tolist() == inverse.ravel().tolist()
+    assert union(x, np.array(more)).tolist() == np.union1d(x, np.array(more)).tolist()
