@@ -81,7 +81,7 @@ DENSE_MAX_COLUMNS = 3000
 #: factor that roughly doubles its member count.
 _START = {"braced truss": (20, 2.0), "braced grid": (5, math.sqrt(2.0)),
           "storey frame": (10, math.sqrt(2.0)), "continuous beam": (100, 2.0),
-          "multi-support truss": (100, 2.0)}
+          "multi-support truss": (20, 2.0)}
 
 #: Summary of one load case: (reactions, member end forces), SI, as both methods give them.
 Summary = dict[str, tuple[dict[str, dict[str, float]], dict[str, tuple[tuple, tuple]]]]
