@@ -18,6 +18,7 @@ from .errors import MechanismError
 from .fields import ParticularFields
 from .loadkinds import CaseEffects, load_kind
 from .model import Structure
+from .thresholds import NUMPY_LU_MAX
 from .topology import Topology
 
 __all__ = ["CaseLoading", "ReleasedStructure", "case_loading"]
@@ -59,12 +60,6 @@ def case_loading(st: Structure, topo: Topology, case: str,
     imposed = {k: (v[0], v[1], v[2]) for k, v in sink.strains.items()}
     return CaseLoading(case, sink.p, particulars, imposed, sink.c, tuple(sink.nodal),
                        tuple(ld for _, ld in loads))
-
-
-#: Released structures of up to this many equations are solved by numpy's dense LU afresh
-#: at each solve (a few per load case, each well under a millisecond), so that a small
-#: solve does not import scipy (0.1-0.2 s of start-up); larger ones are factorised once.
-NUMPY_LU_MAX = 100
 
 
 class ReleasedStructure(Basis):

@@ -15,7 +15,7 @@ nothing of the package.
 from __future__ import annotations
 
 __all__ = [
-    "LOCAL_BASIS_MIN_COLUMNS", "DENSE_CHECK_MAX_DOFS", "CONDITION_WARN",
+    "LOCAL_BASIS_MIN_COLUMNS", "NUMPY_LU_MAX", "DENSE_CHECK_MAX_DOFS", "CONDITION_WARN",
     "BETTER_CONDITION_FACTOR", "NO_FLEXIBILITY", "SINGULAR_FLEXIBILITY",
     "INCOMPATIBLE_RESIDUAL", "RANK_ROUND_OFF", "GOOD_PIVOT", "MECHANISM_MOTION",
     "MECHANISM_INDEX", "NEAR_MECHANISM_INDEX", "INDEX_RECHECK", "MOVING_FRACTION",
@@ -32,6 +32,11 @@ __all__ = [
 #: self-stress basis (sparse path, :mod:`leastwork.sparse_solve`) when no redundants are
 #: named.
 LOCAL_BASIS_MIN_COLUMNS = 1500
+
+#: Equations of a released structure up to which numpy's dense LU solves it afresh at each
+#: solve (a few per load case, each well under a millisecond), so that a small solve does
+#: not import scipy (0.1-0.2 s of start-up); larger ones are factorised once by scipy.
+NUMPY_LU_MAX = 100
 #: Nodal directions (count) up to which a structure whose local sweep found no non-singular
 #: released structure is decided by the dense rank (and, if stable, solved on the released
 #: basis instead): one verdict for the two paths.
