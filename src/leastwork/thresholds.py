@@ -20,7 +20,7 @@ __all__ = [
     "INCOMPATIBLE_RESIDUAL", "RANK_ROUND_OFF", "GOOD_PIVOT", "MECHANISM_MOTION",
     "MECHANISM_INDEX", "NEAR_MECHANISM_INDEX", "INDEX_RECHECK", "MOVING_FRACTION",
     "SLIDING_TURN", "SOFT_SPRING_RATIO", "ZERO_STATE_ENTRY", "RELEASED_PIVOT_SINGULAR",
-    "LOCAL_STATE_RESIDUAL", "LOCAL_STATE_BOUND", "STATE_ENTRY_DROP", "LONG_RANGE_PIVOT",
+    "LOCAL_STATE_RESIDUAL", "LOCAL_STATE_BOUND", "STATE_ENTRY_DROP",
     "LOCAL_LEAST_SQUARES_RCOND", "LOCAL_STATE_ACCURACY", "EQUILIBRIUM_ROUND_OFF",
     "FORCE_FLOOR", "EXTREME_TIE", "EXTREME_TIE_FLOOR", "ONE_WAY_FORCE", "ONE_WAY_GAP",
     "ONE_WAY_TRIALS_PER_ITEM", "ONE_WAY_TRIALS_MIN",
@@ -118,9 +118,6 @@ LOCAL_STATE_BOUND = 1e2
 #: Entries of a state below this fraction of its largest are round-off of the local
 #: least-squares and dropped.
 STATE_ENTRY_DROP = 1e-14
-#: Pivot rows of the long-range states are picked by threshold pivoting: at least this
-#: fraction of the column's largest entry.
-LONG_RANGE_PIVOT = 0.1
 #: Singular values below this fraction of the largest count as zero in the least-norm
 #: solution of a local state (LAPACK ``rcond``).
 LOCAL_LEAST_SQUARES_RCOND = 1e-10
