@@ -62,9 +62,17 @@ import numpy as np  # noqa: E402
 
 sys.path.insert(0, str(Path(__file__).resolve().parent))
 
+# the modules both methods use, imported before any timing (the package imports them on
+# first use only)
+import scipy.linalg  # noqa: E402,F401
+import scipy.sparse.csgraph  # noqa: E402,F401
+import scipy.sparse.linalg  # noqa: E402,F401
 from generators import FAMILIES, structure  # noqa: E402
 
 import leastwork  # noqa: E402
+import leastwork.selfstress  # noqa: E402,F401
+import leastwork.sparse_solve  # noqa: E402,F401
+import leastwork.verify.stiffness  # noqa: E402,F401
 from leastwork.solve import column_count  # noqa: E402
 from leastwork.verify import solve_stiffness  # noqa: E402
 
