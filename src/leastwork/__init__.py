@@ -24,8 +24,17 @@ Results must be checked by a qualified engineer against the governing local code
 
 import sys as _sys
 from types import ModuleType as _ModuleType
+from typing import TYPE_CHECKING as _TYPE_CHECKING
 
 from .errors import CaseError, LeastworkError, MechanismError
+
+if _TYPE_CHECKING:  # for type checkers; at run time each name is imported on first use
+    from .io.reader import load_case, loads_case, structure
+    from .model import Structure
+    from .solution import Solution
+    from .solve import solve
+    from .studies.reanalysis import reanalyse
+    from .studies.sweep import random_study, sweep
 
 #: Public name -> module that defines it, imported on first use (PEP 562), so that
 #: ``import leastwork`` (and the command line) loads only what a command needs.
