@@ -16,6 +16,7 @@ from typing import Any, Protocol
 
 import numpy as np
 
+from .arrays import union
 from .elements import kind_of
 from .elements.base import integrate
 from .fields import ParticularFields, gauss_integral
@@ -195,7 +196,7 @@ class FloatNumbers:
                   free: dict) -> float:
         """Gauss–Legendre on the union of both fields' breaks (exact for their
         polynomials), added to ``value`` field by field."""
-        brk = np.union1d(unit.m.breaks, real.m.breaks)
+        brk = union(unit.m.breaks, real.m.breaks)
         if any(callable(v) for v in section.values()) or any(
                 callable(e) for e in free.get("m", []) + free.get("n", [])):
             return value + _varying_work(brk, unit, real, section, free)

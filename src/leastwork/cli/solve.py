@@ -94,7 +94,6 @@ def run(args) -> int:
 
     read = _read_with_record(args.case) if args.symbolic else None  # the case read once
     st = load_case(args.case) if read is None else read[0]
-    console = console_for(args)
     st = _with_displacements(st, split(args.at) or [])
     names = split(args.redundants)
     if args.redundants is not None and not names:
@@ -111,7 +110,7 @@ def run(args) -> int:
     fmt_name = output_format(args)
     if args.symbolic:
         return _symbolic(args, st, sol, names, cases, fmt_name, read)
-    _show(args, st, sol, cases, fmt_name, console)
+    _show(args, st, sol, cases, fmt_name)
     if fmt_name != "text" or args.output:
         _warn_failed_checks(sol)
     return 0
@@ -145,10 +144,9 @@ def _with_displacements(st, extra: list[str]):
     return st
 
 
-def _show(args, st, sol, cases, fmt_name: str, console) -> None:
-    """The result in its format: JSON, a sheet, text to a file, or the terminal."""
-    from ..output.terminal import print_brief, print_steps, print_summary
-
+def _show(args, st, sol, cases, fmt_name: str) -> None:
+    """The result in its format: JSON, a sheet, text to a file, or the terminal (the
+    terminal output and its console loaded only for text)."""
     if fmt_name == "json":
         d = sol.to_dict()
         if cases:
@@ -157,15 +155,21 @@ def _show(args, st, sol, cases, fmt_name: str, console) -> None:
         # only without indentation, and nobody reads 10^4 members by eye)
         indent = 2 if len(st.members) <= JSON_INDENT_MAX_MEMBERS else None
         emit(json.dumps(d, indent=indent) + "\n", args, st)
-    elif fmt_name in ("md", "latex"):
+        return
+    if fmt_name in ("md", "latex"):
         emit(document(sol, cases, fmt_name), args, st)
-    elif args.output:
+        return
+    from ..output.terminal import print_brief, print_steps, print_summary
+
+    if args.output:
         from rich.console import Console
 
         buf = Console(record=True, file=io.StringIO(), width=FILE_WIDTH, color_system=None)
         (print_steps if args.steps else print_summary)(buf, sol, cases)
         emit(buf.export_text(), args, st)
-    elif args.quiet:
+        return
+    console = console_for(args)
+    if args.quiet:
         print_brief(console, sol, cases)
     elif args.steps:
         print_steps(console, sol, cases)
