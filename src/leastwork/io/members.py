@@ -96,6 +96,10 @@ def read_members(reader: CaseReader, specs: list[MemberSpec], nodes: dict[str, N
             else (None, None),
             area=sec.get("A") if sec else None,
             section_modulus=_section_modulus(sec),
+            material=mat_id if mat is not None else None,
+            section=sec_id if sec is not None else None,
+            E=mat.get("E") if mat else None,
+            I=sec.get("I") if sec else None,
         )
     return members
 

@@ -26,7 +26,7 @@ def step_displacements(ctx: Context) -> Step:
         numbers = ctx.numbers(case)
         for target, value in numbers.displacements.items():
             any_target = True
-            blocks.append(_displacement(ctx, case, target, value))
+            blocks.extend(_displacement(ctx, case, target, value))
         defl = [(mid, mj["deflection_max"]["value"], mj["deflection_max"]["at"])
                 for mid, mj in numbers.members.items() if "deflection_max" in mj]
         if defl:
@@ -40,19 +40,50 @@ def step_displacements(ctx: Context) -> Step:
     return Step(7, "Displacements by the unit-load method", tuple(blocks))
 
 
-def _displacement(ctx: Context, case: str, target: str, value) -> Para | Grid:
-    """The contributions to displacement ``target`` of load case ``case`` summing to
-    ``value`` (as reported); a point inside a member gets its total only."""
+def _displacement(ctx: Context, case: str, target: str, value) -> list[Para | Grid]:
+    """The unit-load state of displacement ``target`` (n_u and m_u(x) member by member)
+    and the contributions to it in load case ``case``, summing to ``value`` (as reported);
+    a point inside a member gets its total only."""
     s_u, dim = _virtual_state(ctx.st, ctx.topo, ctx.sol.cases[case], target)
     lab = "rad" if dim == (0, 0) else ctx.u.displacement_unit
     if s_u is None:
-        return Para(f"Load case {case}: {target} = {fmt(value)} {lab} (a point inside a "
-                    "member: the unit load's own span field is included; see the total).")
+        return [Para(f"Load case {case}: {target} = {fmt(value)} {lab} (a point inside a "
+                     "member: the unit load's own span field is included; see the total).")]
     s_u = ctx.denoise(s_u[:, None])[:, 0]
     rows = displacement_contributions(ctx, case, s_u, dim)
-    return Grid(f"Load case {case}: displacement {target}",
-                ("source", "term", f"contribution [{lab}]"), tuple(rows), keys=2,
-                total=(target, "total", value))
+    return [_unit_load_state(ctx, target, s_u, dim),
+            Grid(f"Load case {case}: displacement {target}",
+                 ("source", "term", f"contribution [{lab}]"), tuple(rows), keys=2,
+                 total=(target, "total", value))]
+
+
+def _unit_load_state(ctx: Context, target: str, s_u: np.ndarray, dim) -> Grid:
+    """The released structure's forces under the unit load (or couple) of ``target``:
+    n_u and m_u(x) of each member that carries any (x from the start node), so that each
+    contribution below can be redone by hand: ∫ m_u·M/EI dx, n_u·N·L/EA."""
+    from ...elements import kind_of
+    from .polynomials import poly_text, scaled_poly
+
+    st, u, ci = ctx.st, ctx.u, ctx.topo.column_index
+    couple = dim == (0, 0)
+    n_dim, m_dim = ((0, -1), (0, 0)) if couple else ((0, 0), (0, 1))
+    rows = []
+    for m in st.members.values():
+        kind = kind_of(m)
+        values = [s_u[ci[bf.name]] for bf in kind.basic_forces(m)]
+        if not any(values):
+            continue
+        fields = kind.force_fields(m, st.length(m.id), values, 0.0)
+        n = fields.get("n", [0.0])
+        mom = fields.get("m")
+        n_text = poly_text(scaled_poly(n, u.L, u.power(*n_dim)))
+        m_text = "-" if mom is None else poly_text(scaled_poly(mom, u.L, u.power(*m_dim)))
+        rows.append((m.id, n_text, m_text))
+    load = "a unit couple" if couple else "a unit load"
+    return Grid(f"Unit-load state for {target}: {load} on the released structure (x from "
+                f"the start node, in {u.length_unit})",
+                ("member", f"n_u(x) [{u.label(*n_dim)}]", f"m_u(x) [{u.label(*m_dim)}]"),
+                tuple(rows))
 
 
 def _virtual_state(st: Structure, topo, res, target: str):

@@ -4,6 +4,7 @@ numbers of each load case."""
 from __future__ import annotations
 
 from ...thresholds import CONDITION_WARN
+from ..mathml import tex_number
 from ..sheet import Formula, Para, Step, fmt
 from .context import Context
 
@@ -42,5 +43,10 @@ def step_equations(ctx: Context) -> Step:
         blocks.append(Para(f"Load case {case}:"))
         for i in range(nr):
             lhs = " + ".join(f"({fmt(ctx.flex[i][j])})·X{j + 1}" for j in range(nr))
-            blocks.append(Formula(f"{lhs} + ({fmt(n.load_terms[i])}) = {fmt(n.imposed[i])}"))
+            tex = " + ".join(rf"({tex_number(fmt(ctx.flex[i][j]))})\,X_{{{j + 1}}}"
+                             for j in range(nr))
+            blocks.append(Formula(
+                f"{lhs} + ({fmt(n.load_terms[i])}) = {fmt(n.imposed[i])}",
+                rf"{tex} + ({tex_number(fmt(n.load_terms[i]))}) = "
+                + tex_number(fmt(n.imposed[i]))))
     return Step(5, "Compatibility equations ∂U/∂Xi = Δi", tuple(blocks))

@@ -34,7 +34,9 @@ def step_solution(ctx: Context) -> Step:
                 "support move apart freely.", "note"))
         else:
             blocks.append(Formula("final force = released structure under the loads + "
-                                  "Σ Xi · (unit state i)"))
+                                  "Σ Xi · (unit state i)",
+                                  r"S = S_0 + \sum_i X_i\,s_i \quad (S_0\text{: released "
+                                  r"structure under the loads; }s_i\text{: unit state }i)"))
             blocks.append(_superposition(ctx, case))
         blocks.append(_reactions(ctx, case))
         blocks.append(_end_forces(ctx, case))
