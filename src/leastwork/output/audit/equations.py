@@ -22,7 +22,7 @@ def step_equations(ctx: Context) -> Step:
     blocks.append(Para(
         f"The flexibility matrix is symmetric (Maxwell-Betti); its condition number after "
         f"scaling the diagonal to one is {fmt(ctx.sol.condition, 3)} (above "
-        f"{CONDITION_WARN:.0e} the tool warns and looks for better redundants)."))
+        f"{fmt(CONDITION_WARN)} the tool warns and looks for better redundants)."))
     for i in range(nr):
         sym = " + ".join(f"δ{i + 1}{j + 1}·X{j + 1}" for j in range(nr)) + f" + δ{i + 1}0"
         blocks.append(Formula(f"∂U/∂X{i + 1} = {sym} = Δ{i + 1}",
