@@ -76,8 +76,9 @@ footer { margin-top: 8mm; color: var(--muted); font-size: 9pt;
          border-top: 1px solid var(--rule); padding-top: 2mm; }
 @page { size: A4; margin: 14mm 12mm 16mm; }
 @media print {
-  body { max-width: none; margin: 0; padding: 0; font-size: 9.5pt; }
-  section.diagrams figure.case + figure.case { break-before: page; }
+  body { max-width: none; margin: 0; padding: 0; font-size: 9pt; line-height: 1.35; }
+  table { font-size: 8pt; margin: 1mm 0 2.5mm; }
+  h2 { margin: 5mm 0 1.5mm; }
   h2, h3, .tt { break-after: avoid; }
   tr, .formula, .tone-warning, .tone-alarm, figure, .caution { break-inside: avoid; }
   table.short { break-inside: avoid; }
@@ -228,8 +229,6 @@ def _governing_summary(sol, cases: list[str], numbers) -> Grid:
     """Per load case: the largest axial force, shear force, sagging and hogging moment
     (where and at what distance from the member's start), and the largest beam deflection
     with its limit ratio when the case gives limits; round-off as zero."""
-    from .conventions import MOMENT_SIGN_SHORT
-
     q = quantities(sol.units)
     fu, mu, du, lu = q.force_unit, q.moment_unit, q.displacement_unit, q.length_unit
     rows = []
@@ -253,8 +252,8 @@ def _governing_summary(sol, cases: list[str], numbers) -> Grid:
                       for m in beams), key=lambda t: t[0])
             lo = min(((members[m]["m_min"]["value"], m, members[m]["m_min"]["at"])
                       for m in beams), key=lambda t: t[0])
-            for label, (v, mid, at) in ((f"largest moment m ({MOMENT_SIGN_SHORT})", hi),
-                                        ("smallest (most negative) moment m", lo)):
+            for label, (v, mid, at) in (("largest moment m (most positive)", hi),
+                                        ("smallest moment m (most negative)", lo)):
                 rows.append((c, label, v, mu, mid if v != 0 else "-",
                              f"{fmt(at)} {lu}" if v != 0 else "-"))
             d = max(((members[m]["deflection"]["value"] or 0.0, m) for m in beams),

@@ -17,7 +17,7 @@ __all__ = ["latex_mathml", "tex_number", "SYMBOLS"]
 #: LaTeX command -> (MathML element, character).
 SYMBOLS = {
     "delta": ("mi", "δ"), "Delta": ("mi", "Δ"), "alpha": ("mi", "α"), "sigma": ("mi", "σ"),
-    "partial": ("mi", "∂"), "theta": ("mi", "θ"), "phi": ("mi", "φ"), "kappa": ("mi", "κ"),
+    "partial": ("mi", "∂"), "theta": ("mi", "θ"), "varepsilon": ("mi", "ε"), "epsilon": ("mi", "ε"), "phi": ("mi", "φ"), "kappa": ("mi", "κ"),
     "cdot": ("mo", "·"), "times": ("mo", "×"), "pm": ("mo", "±"), "to": ("mo", "→"),
     "le": ("mo", "≤"), "ge": ("mo", "≥"), "approx": ("mo", "≈"), "sum": ("mo", "∑"),
     "int": ("mo", "∫"), "quad": ("mspace", ""), "ldots": ("mo", "…"),

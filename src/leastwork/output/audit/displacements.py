@@ -8,7 +8,7 @@ import math
 import numpy as np
 
 from ...model import Structure
-from ..sheet import Grid, Para, Step, fmt
+from ..sheet import Formula, Grid, Para, Step, fmt
 from .context import Context
 from .contributions import displacement_contributions
 
@@ -19,14 +19,18 @@ def step_displacements(ctx: Context) -> Step:
     blocks: list = [Para(
         "Unit-load method: a unit load (or couple) at the point and in the direction "
         "wanted, on the released structure (any released structure will do), does "
-        "virtual work on the real deformations: Δ = Σ ∫ m_u·M/EI dx + Σ ∫ n_u·N/EA dx "
-        "+ imposed deformations - Σ r_u·c.")]
+        "virtual work on the real deformations (imposed deformations e: temperature, "
+        "misfit; c: support settlements):"),
+        Formula("Δ = Σ ∫ m_u·M/EI dx + Σ ∫ n_u·N/EA dx + Σ ∫ (n_u·ε0 + m_u·κ0) dx - Σ r_u·c",
+                r"\Delta = \sum\int \frac{m_u M}{EI}\,dx + \sum\int \frac{n_u N}{EA}\,dx"
+                r" + \sum\int (n_u \varepsilon_0 + m_u \kappa_0)\,dx - \sum r_u c")]
     any_target = False
+    shown_states: dict[str, np.ndarray] = {}  # unit-load states written out once
     for case in ctx.cases:
         numbers = ctx.numbers(case)
         for target, value in numbers.displacements.items():
             any_target = True
-            blocks.extend(_displacement(ctx, case, target, value))
+            blocks.extend(_displacement(ctx, case, target, value, shown_states))
         defl = [(mid, mj["deflection_max"]["value"], mj["deflection_max"]["at"])
                 for mid, mj in numbers.members.items() if "deflection_max" in mj]
         if defl:
@@ -40,10 +44,12 @@ def step_displacements(ctx: Context) -> Step:
     return Step(7, "Displacements by the unit-load method", tuple(blocks))
 
 
-def _displacement(ctx: Context, case: str, target: str, value) -> list[Para | Grid]:
-    """The unit-load state of displacement ``target`` (n_u and m_u(x) member by member)
-    and the contributions to it in load case ``case``, summing to ``value`` (as reported);
-    a point inside a member gets its total only."""
+def _displacement(ctx: Context, case: str, target: str, value,
+                  shown_states: dict) -> list[Para | Grid]:
+    """The unit-load state of displacement ``target`` (n_u and m_u(x) member by member;
+    once, unless a load case's released structure differs) and the contributions to it in
+    load case ``case``, summing to ``value`` (as reported); a point inside a member gets
+    its total only."""
     s_u, dim = _virtual_state(ctx.st, ctx.topo, ctx.sol.cases[case], target)
     lab = "rad" if dim == (0, 0) else ctx.u.displacement_unit
     if s_u is None:
@@ -51,7 +57,11 @@ def _displacement(ctx: Context, case: str, target: str, value) -> list[Para | Gr
                      "member: the unit load's own span field is included; see the total).")]
     s_u = ctx.denoise(s_u[:, None])[:, 0]
     rows = displacement_contributions(ctx, case, s_u, dim)
-    return [_unit_load_state(ctx, target, s_u, dim),
+    before = shown_states.get(target)
+    same = before is not None and before.shape == s_u.shape and np.array_equal(before, s_u)
+    shown_states[target] = s_u
+    state = [] if same else [_unit_load_state(ctx, target, s_u, dim)]
+    return [*state,
             Grid(f"Load case {case}: displacement {target}",
                  ("source", "term", f"contribution [{lab}]"), tuple(rows), keys=2,
                  total=(target, "total", value))]
