@@ -20,7 +20,7 @@ from ..plaintext import literal
 from .conventions import MOMENT_DIAGRAM, MOMENT_SIGN
 from .mathml import latex_mathml
 from .quantities import quantities
-from .reported import case_numbers
+from .reported import case_numbers, redundants_shown
 from .sheet import Formula, Grid, Para, Sheet, fmt, shown, split_grid
 
 __all__ = ["report_html", "title_block_html", "page_css", "report_markdown_files", "image_names", "default_meta", "summary_grids", "CSS",
@@ -182,9 +182,10 @@ def summary_grids(sol, cases: list[str]) -> list[Grid]:
     numbers = {c: case_numbers(sol, c) for c in cases}
     grids = []
     names = sol.redundant_names
+    shown_x = {c: redundants_shown(sol, c) for c in cases}
     if names:
         rows = tuple((f"X{i + 1}", n, _redundant_unit(sol, j),
-                      *[numbers[c].redundants[n] for c in cases])
+                      *[shown_x[c][n] for c in cases])
                      for i, (n, j) in enumerate(zip(names, sol.redundant_columns,
                                                     strict=True)))
         grids.append(Grid("The redundants", ("X", "redundant", "unit", *cases), rows, keys=3))

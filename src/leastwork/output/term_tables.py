@@ -77,8 +77,7 @@ def print_cells(console: Console, title: str, headers: list[str], rows: list[lis
         console.print(_table(headers, body, right, None, header_style, bool(total)))
         return "whole"
     if sum(tight) + 3 * ncol + 1 <= width:
-        keep = [natural[c] if not textual[c] else tight[c] for c in range(ncol)]
-        console.print(_table(headers, body, right, keep, header_style, bool(total)))
+        console.print(_table(headers, body, right, tight, header_style, bool(total)))
         return "wrapped"
     nrow = len(body)
     if nrow <= TURN_MAX_ROWS and keys >= 1:

@@ -22,7 +22,7 @@ from ..plaintext import literal
 from .audit import ASSUMPTIONS, CAUTION, energy_terms
 from .conventions import AXIAL_SIGN, MOMENT_SIGN_SHORT, SECTION_FORCES
 from .quantities import quantities
-from .reported import ROUND_OFF, case_numbers
+from .reported import ROUND_OFF, case_numbers, redundants_shown
 from .sheet import Formula, Grid, Para, Sheet, fmt
 from .term_tables import print_cells, print_grid
 
@@ -216,9 +216,10 @@ def _redundants_table(sol, res) -> Table | None:
     t.add_column("redundant")
     t.add_column("value", justify="right")
     t.add_column("unit")
-    for j, x in zip(sol.redundant_columns, res.redundants, strict=True):
+    values = redundants_shown(sol, res.name)  # round-off as 0
+    for j in sol.redundant_columns:
         col = sol.topology.columns[j]
-        t.add_row(user_text(col.name), _g(q.column(x, col)), user_text(q.column_unit(col)))
+        t.add_row(user_text(col.name), _g(values[col.name]), user_text(q.column_unit(col)))
     return t
 
 
@@ -240,9 +241,21 @@ def _reactions_table(sol, numbers) -> Table:
 
 
 def _member_end_table(sol, numbers) -> Table:
-    """The section forces n, v, m at both ends of every member."""
+    """The section forces n, v, m at both ends of every member; a truss (bars only) gets
+    its bar forces n with T (tension) or C (compression), v and m being zero."""
+    from .audit.results import tension_word
+
     q = quantities(sol.units)
     fu, mu = q.force_unit, q.moment_unit
+    if not any(sol.structure.members[mid].is_beam for mid in numbers.members):
+        t = Table(title=f"Bar forces ({AXIAL_SIGN}; T tension, C compression; pin-ended "
+                  "bars carry no shear or moment)", header_style="bold")
+        t.add_column("bar")
+        t.add_column(user_text(f"n [{fu}]"), justify="right")
+        t.add_column("T/C")
+        for mid, mj in numbers.members.items():
+            t.add_row(user_text(mid), _g(mj["start"]["n"]), tension_word(mj["start"]["n"]))
+        return t
     t = Table(title=f"Member end forces (section forces: {SECTION_FORCES})",
               header_style="bold")
     t.add_column("member")
@@ -535,9 +548,10 @@ def print_brief(console: Console, sol, case_names=None) -> None:
             shown = sorted(shown, key=lambda jx: -abs(jx[1]))[:NAMES_SHOWN]
             console.print(user_text(f"{name}  {len(res.redundants)} redundants; the "
                                     f"{len(shown)} largest:"))
-        for j, x in shown:
+        values = redundants_shown(sol, name)  # round-off as 0
+        for j, _x in shown:
             col = sol.topology.columns[j]
-            console.print(user_text(f"{name}  {col.name} = {_g(q.column(x, col))} "
+            console.print(user_text(f"{name}  {col.name} = {_g(values[col.name])} "
                                     f"{q.column_unit(col)}"))
         failed = ("FAILED", "bold red")
         eq = "OK" if res.equilibrium_ok else failed

@@ -57,7 +57,9 @@ def _unknowns(ctx: Context, case: str):
 
 
 def _redundants(ctx: Context, case: str) -> Grid:
-    values = ctx.numbers(case).redundants
+    from ..reported import redundants_shown
+
+    values = redundants_shown(ctx.sol, case)
     if ctx.local:
         X = _unknowns(ctx, case)
         return Grid(f"Load case {case}: amplitudes of the states and the redundants they "
