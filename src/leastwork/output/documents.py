@@ -138,7 +138,10 @@ _TEX_SPECIAL = {"\\": r"\textbackslash{}", "&": r"\&", "%": r"\%", "$": r"\$", "
 _TEX_UNICODE = {"δ": r"$\delta$", "Δ": r"$\Delta$", "Σ": r"$\Sigma$", "∫": r"$\int$",
                 "∂": r"$\partial$", "·": r"$\cdot$", "α": r"$\alpha$", "—": "---",
                 "−": "-", "²": r"$^2$", "³": r"$^3$", "⁴": r"$^4$", "⁵": r"$^5$",
-                "≤": r"$\le$", "≥": r"$\ge$", "→": r"$\to$"}
+                "≤": r"$\le$", "≥": r"$\ge$", "→": r"$\to$", "×": r"$\times$",
+                "ε": r"$\varepsilon$", "κ": r"$\kappa$", "σ": r"$\sigma$", "±": r"$\pm$",
+                "⁻": r"$^{-}$", "⁰": r"$^0$", "¹": r"$^1$", "⁶": r"$^6$", "⁷": r"$^7$",
+                "⁸": r"$^8$", "⁹": r"$^9$"}
 
 
 _TEX_POWER = re.compile(r"(-?[0-9.]+)×10([⁻⁰¹²³⁴⁵⁶⁷⁸⁹]+)")
@@ -209,7 +212,7 @@ def sheet_latex(sheet: Sheet, extra: list[tuple[str, list[str]]] | None = None) 
            r"\setlength{\parindent}{0pt}", rf"\title{{{tex_escape(sheet.title)}}}",
            r"\pagestyle{fancy}", r"\fancyhf{}",
            rf"\lhead{{\small {head}}}", rf"\lfoot{{\small {foot}}}",
-           r"\rfoot{\small Sheet \thepage\ of \pageref*{LastPage}}",
+           r"\rfoot{\small Sheet \thepage\ of \pageref{LastPage}}",
            r"\begin{document}", r"\thispagestyle{fancy}",
            rf"{{\Large\bfseries {tex_escape(p.get('title') or sheet.title)}}}\par\medskip",
            r"\begin{tabular}{|l|l|}", r"\hline"]
