@@ -212,16 +212,29 @@ def test_sign_convention_worded_once(propped):
 # ------------------------------------------------------------------ terminal
 
 
+def _uncut(out: str, width: int) -> None:
+    """Nothing cut: no ellipsis, no line wider than the console, and every table line
+    closed by its right border (a table cropped at the edge would lose it)."""
+    assert "…" not in out
+    assert max(len(line) for line in out.splitlines()) <= width
+    for line in out.splitlines():
+        if line[:1] in "│┃┏┡└├┗┣":
+            assert line.rstrip()[-1] in "│┃┓┩┘┤┛┫", line
+
+
 @pytest.mark.parametrize("path", CASES, ids=lambda p: p.stem)
 def test_steps_never_cut_at_60_columns(path):
     sol = leastwork.solve(leastwork.load_case(path))
-    buf = Console(file=io.StringIO(), width=60, color_system=None, highlight=False)
-    print_steps(buf, sol)
-    out = buf.file.getvalue()
-    assert "…" not in out
-    assert "(part 1 of" not in out
-    assert max(len(line) for line in out.splitlines()) <= 60
-    assert not re.search(r"\d\.?\d*e[-+]\d", out)  # no e-notation anywhere
+    for width in (60, 80):
+        buf = Console(file=io.StringIO(), width=width, color_system=None, highlight=False)
+        print_steps(buf, sol)
+        out = buf.file.getvalue()
+        _uncut(out, width)
+        assert "(part 1 of" not in out
+        assert not re.search(r"\d\.?\d*e[-+]\d", out)  # no e-notation anywhere
+        buf = Console(file=io.StringIO(), width=width, color_system=None, highlight=False)
+        print_summary(buf, sol)
+        _uncut(buf.file.getvalue(), width)
 
 
 def test_subcommand_help_says_what_it_does():

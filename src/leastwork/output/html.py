@@ -83,7 +83,7 @@ footer { margin-top: 8mm; color: var(--muted); font-size: 9pt;
   tr, .formula, .tone-warning, .tone-alarm, figure, .caution { break-inside: avoid; }
   table.short { break-inside: avoid; }
   thead { display: table-header-group; }
-  .scroll { overflow: visible; }
+  .scroll, .formula { overflow: visible; }
   figure svg { max-height: 235mm; }
   a { color: inherit; text-decoration: none; }
 }

@@ -102,6 +102,8 @@ class _Parser:
                 kind, ch = SYMBOLS[name]
                 if kind == "mspace":
                     return '<mspace width="1em"/>'
+                if name in ("sum", "int"):
+                    return f'<mo largeop="true" movablelimits="false">{ch}</mo>'
                 return f"<{kind}>{ch}</{kind}>"
             return f"<mtext>{_esc(name)}</mtext>"
         if tok[0].isdigit():

@@ -108,7 +108,7 @@ def _table(headers, body, right, widths, header_style: str, total: bool) -> Tabl
     t = Table(header_style=header_style)
     for c, h in enumerate(headers):
         t.add_column(_text(h), justify="right" if right[c] else "left", overflow="fold",
-                     min_width=None if widths is None else widths[c])
+                     width=None if widths is None else widths[c])
     for n, r in enumerate(body):
         last = total and n == len(body) - 1
         t.add_row(*[_text(x) for x in r], end_section=total and n == len(body) - 2, style=None if not last else "")
