@@ -140,9 +140,7 @@ def _head(reader: CaseReader) -> str:
 def _project(reader: CaseReader) -> tuple[tuple[str, str], ...]:
     """``[project]``: title, job, client, by, checked, revision as one-line texts (a number
     such as revision = 2 is read as its text), in that order."""
-    table = reader.table("project")
-    if not isinstance(table, dict):
-        raise reader.err("[project]", f"expected a table of texts, got {kind_of(table)}")
+    table = reader.table("project")  # a table (refused otherwise by reader.table)
     reader.keys_known("[project]", table, PROJECT_KEYS)
     out = []
     for key in PROJECT_KEYS:

@@ -79,6 +79,7 @@ footer { margin-top: 8mm; color: var(--muted); font-size: 9pt;
   body { max-width: none; margin: 0; padding: 0; font-size: 9pt; line-height: 1.35; }
   table { font-size: 8pt; margin: 1mm 0 2.5mm; }
   h2 { margin: 5mm 0 1.5mm; }
+  section.diagrams, section.cautions { break-before: page; }
   h2, h3, .tt { break-after: avoid; }
   tr, .formula, .tone-warning, .tone-alarm, figure, .caution { break-inside: avoid; }
   table.short { break-inside: avoid; }
@@ -352,8 +353,10 @@ def title_block_html(sheet: Sheet) -> str:
 
 
 def _css_string(text: str) -> str:
-    """Text as a CSS string literal (quotes, backslashes and line breaks escaped)."""
-    body = "".join(ch if ch.isprintable() and ch not in '"\\' else f"\\{ord(ch):x} "
+    """Text as a CSS string literal inside a <style> element: quotes, backslashes, line
+    breaks and the HTML characters < > & ' written as CSS escapes (so that "</style>" in a
+    name cannot end the style sheet)."""
+    body = "".join(ch if ch.isprintable() and ch not in '"\\<>&\'' else f"\\{ord(ch):x} "
                    for ch in literal(text, 80))
     return f'"{body}"'
 
