@@ -237,7 +237,7 @@ def test_markdown_report_links_the_diagram_files(tmp_path):
     for cj in sol.to_dict()["cases"].values():
         for value in cj["redundants"].values():
             assert fmt(value) in text
-    assert "Date: 2031-04-05" in text and "## Step 8." in text
+    assert "| Date | 2031-04-05 |" in text and "## Step 8." in text  # the title block
     assert not list(tmp_path.iterdir())  # nothing written
 
 

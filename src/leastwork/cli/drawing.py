@@ -4,11 +4,10 @@ SVG) or a calculation report (HTML, or Markdown with SVG images beside it)."""
 from __future__ import annotations
 
 import sys
-import textwrap
 
 from ..errors import CaseError
 from .common import add_units_option, chosen_cases, display_units, sheet_meta, split
-from .parser import DESCRIPTION, basis_option, command_parser
+from .parser import basis_option, command_description, command_parser
 from .progress import busy, progress
 
 __all__ = ["add_parsers", "run"]
@@ -31,7 +30,7 @@ def add_parsers(sub) -> None:
 
 def _file_command(sub, name: str, summary: str, description: str, output_help: str):
     """A subcommand that solves a case and writes files (``plot``, ``report``)."""
-    p = command_parser(sub, name, summary, textwrap.fill(description, 92) + "\n\n" + DESCRIPTION)
+    p = command_parser(sub, name, summary, command_description(description))
     p.add_argument("case", help="case file (TOML)")
     p.add_argument("-o", "--output", metavar="FILE", required=True, help=output_help)
     p.add_argument("--case", dest="load_case", metavar="NAME",

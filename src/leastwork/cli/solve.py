@@ -22,7 +22,7 @@ from .common import (
     output_format,
     split,
 )
-from .parser import basis_option, command_parser
+from .parser import basis_option, command_description, command_parser
 from .progress import busy, progress
 
 __all__ = ["JSON_INDENT_MAX_MEMBERS", "TIME_LIMIT_MAX", "add_parsers", "run"]
@@ -36,7 +36,11 @@ TIME_LIMIT_MAX = 3600.0
 
 def add_parsers(sub) -> None:
     """Add the ``solve`` subcommand to ``sub``."""
-    s = command_parser(sub, "solve", "solve a case file")
+    s = command_parser(sub, "solve", "solve a case file", command_description(
+        "Solve a case file by the least-work (force) method: the redundants, reactions, "
+        "member end forces, moment extremes, deflections and the checks (equilibrium and an "
+        "independent direct-stiffness cross-check); --steps prints the whole audit trail, "
+        "--json the result for programs, --format md|latex a calculation sheet."))
     s.add_argument("case", help="case file (TOML)")
     s.add_argument("--json", action="store_true", help="print only the JSON result")
     s.add_argument("--steps", action="store_true", help="print the whole audit trail")
@@ -164,7 +168,8 @@ def _show(args, st, sol, cases, fmt_name: str) -> None:
     if args.output:
         from rich.console import Console
 
-        buf = Console(record=True, file=io.StringIO(), width=FILE_WIDTH, color_system=None)
+        buf = Console(record=True, file=io.StringIO(), width=FILE_WIDTH, color_system=None,
+                      highlight=False)
         (print_steps if args.steps else print_summary)(buf, sol, cases)
         emit(buf.export_text(), args, st)
         return
@@ -235,8 +240,10 @@ def _print_closed_forms(args, st, sol, sym, cases, combos: list[str]) -> None:
     from ..output.closed_forms import print_closed_forms
 
     plain = args.no_color or bool(args.output)
-    console = (Console(record=True, file=io.StringIO(), width=FILE_WIDTH, color_system=None)
-               if args.output else Console(color_system=None) if plain else Console())
+    console = (Console(record=True, file=io.StringIO(), width=FILE_WIDTH, color_system=None,
+                       highlight=False)
+               if args.output else Console(color_system=None, highlight=False) if plain
+               else Console(highlight=False))
     if args.steps:
         from ..output.terminal import print_steps
 

@@ -78,7 +78,10 @@ def add_parsers(sub) -> None:
 
 
 def _add(sub, name: str, help_text: str, description: str, kw: dict):
-    return sub.add_parser(name, help=help_text, description=description, **kw)
+    from .parser import CAUTION_LINE
+
+    return sub.add_parser(name, help=help_text, description=description + "\n" + CAUTION_LINE,
+                          **kw)
 
 
 def run_fitup(args) -> int:

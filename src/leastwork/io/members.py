@@ -74,7 +74,7 @@ def read_members(reader: CaseReader, specs: list[MemberSpec], nodes: dict[str, N
         mat_id = spec.get("material", defaults.get("material"))
         sec_id = spec.get("section", defaults.get("section"))
         mat = _pick(reader, materials, mat_id, "material", where, "material" in spec)
-        taper = None
+        taper, sec_names = None, sec_id
         if kind == "beam" and ("taper" in spec or isinstance(sec_id, list)):
             sec_id, taper = _taper(reader, spec, where, mat, sections,
                                    math.hypot(b.x - a.x, b.y - a.y))
@@ -101,6 +101,11 @@ def read_members(reader: CaseReader, specs: list[MemberSpec], nodes: dict[str, N
             area=sec.get("A") if sec else None,
             section_modulus=_section_modulus(sec),
             taper=taper,
+            material=mat_id if mat is not None else None,
+            section=(" -> ".join(map(str, sec_names)) if isinstance(sec_names, list)
+                     else sec_id) if sec is not None else None,
+            E=mat.get("E") if mat else None,
+            I=sec.get("I") if sec else None,
         )
     return members
 

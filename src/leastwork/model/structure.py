@@ -115,6 +115,12 @@ class Member:
     area: float | None = None  #: cross-section area A (m^2), for stresses
     section_modulus: float | None = None  #: elastic section modulus S (m^3), for stresses
     taper: Taper | None = None  #: end section of a tapered beam (kind "tapered")
+    #: names of the material and section it was given (None where EA / EI came directly),
+    #: echoed on the calculation sheet with E (Pa) and I (m^4)
+    material: str | None = None
+    section: str | None = None
+    E: float | None = None
+    I: float | None = None  # noqa: E741 (the trade's name for the second moment of area)
 
     @property
     def is_beam(self) -> bool:
@@ -317,6 +323,9 @@ class Structure:
     patterns: tuple[tuple[str, tuple[str, ...]], ...] = ()
     #: ``[envelopes]``: (group, the combinations it covers, pattern variants included)
     envelope_groups: tuple[tuple[str, tuple[str, ...]], ...] = ()
+    #: ``[project]``: the calculation sheet's title block, (key, text) pairs in the
+    #: order of :data:`PROJECT_KEYS` (title, job, client, by, checked, revision)
+    project: tuple[tuple[str, str], ...] = ()
 
     def length(self, member_id: str) -> float:
         m = self.members[member_id]

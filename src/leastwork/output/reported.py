@@ -19,7 +19,7 @@ from ..displacements import deflection_extreme, relative_deflection
 from ..stresses import stress_extremes
 from .quantities import quantities
 
-__all__ = ["ROUND_OFF", "CaseNumbers", "case_numbers", "flexibility_rows", "envelope_numbers",
+__all__ = ["ROUND_OFF", "CaseNumbers", "case_numbers", "redundants_shown", "flexibility_rows", "envelope_numbers",
            "reactions", "number"]
 
 #: Fraction of a case's scale below which a reported number is round-off (shown as zero).
@@ -172,6 +172,26 @@ def case_numbers(sol, name: str) -> CaseNumbers:
         members=_members(sol, res),
         displacements=_displacements(sol, res),
         checks=_checks(sol, res))
+
+
+def redundants_shown(sol, name: str) -> dict[str, float | None]:
+    """The redundants of load case ``name`` as the sheets and the terminal show them: the
+    reported values (:func:`case_numbers`, the JSON's) with round-off as zero — a force
+    within ``ROUND_OFF`` of the case's force scale, a moment within that times the longest
+    member (a redundant of 3.7×10⁻¹⁶ kip in a symmetric case is 0)."""
+    res = sol.cases[name]
+    r = _RoundOff(sol, res)
+    out = {}
+    for j, x in zip(sol.redundant_columns, res.redundants, strict=True):
+        col = sol.topology.columns[j]
+        tol = r.m_tol if col.is_moment else r.f_tol
+        out[col.name] = 0.0 if abs(float(x)) <= tol else case_numbers_value(sol, col, x)
+    return out
+
+
+def case_numbers_value(sol, col, x: float) -> float | None:
+    """A redundant (SI) in the output units, as :func:`case_numbers` gives it."""
+    return number(x / quantities(sol.units).column_factor(col))
 
 
 def flexibility_rows(sol) -> list[list[float | None]]:
