@@ -125,9 +125,13 @@ def case_images(sol, path, diagrams: str | Iterable[str] = DIAGRAMS) -> dict:
     shown = parse_diagrams(diagrams)
     files = {}
     for case, target in case_file_names(path, list(sol.cases)).items():
-        fig = figure(sol, [case], shown)
-        buf = io.BytesIO() if fmt_name == "png" else io.StringIO()
-        _save(fig, buf, fmt_name, _salt([case]))
-        data = buf.getvalue()
-        files[target] = data if isinstance(data, bytes) else data.encode("utf-8")
+        files[target] = figure_bytes(figure(sol, [case], shown), fmt_name, case)
     return files
+
+
+def figure_bytes(fig, fmt_name: str, salt: str) -> bytes:
+    """A finished figure as PNG or SVG bytes (``fmt_name`` "png" or "svg")."""
+    buf = io.BytesIO() if fmt_name == "png" else io.StringIO()
+    _save(fig, buf, fmt_name, _salt([salt]))
+    data = buf.getvalue()
+    return data if isinstance(data, bytes) else data.encode("utf-8")
