@@ -56,6 +56,10 @@ def add_parsers(sub) -> None:
                    help="... so that the axial force of this member is zero")
     add_units_option(f)
     f.add_argument("--json", action="store_true", help="print only the JSON result")
+    f.add_argument("-o", "--output", metavar="FILE",
+                   help="also draw the locked-in forces (and the adjustment) to a PNG or "
+                        "SVG file")
+    f.add_argument("--force", action="store_true", help="replace FILE if it exists")
     f.add_argument("--no-color", action="store_true", help="plain text, no colours")
     i = _add(sub, "influence", "influence line of a reaction or internal force",
              _INFLUENCE, kw)
@@ -131,6 +135,8 @@ def _fitup(args, st, console) -> int:
         from ..studies.one_way_check import one_way_verdicts
 
         verdicts = one_way_verdicts(sol, study)
+    if args.output:
+        _draw_fitup(sol, study, adj, args)
     adj_warnings = list(adj.warnings) if adj is not None else []
     for w in adj_warnings:  # an adjustment outside the small-displacement range
         print(f"leastwork: WARNING: {w}", file=sys.stderr)
@@ -156,6 +162,31 @@ def _fitup(args, st, console) -> int:
     if adj is not None:
         _print_adjustment(console, adj, units)
     return 0
+
+
+def _draw_fitup(sol, study, adj, args) -> None:
+    """The fit-up study (and adjustment) drawn to PNG or SVG."""
+    import pathlib
+
+    from ..io.writing import write_files
+
+    out = pathlib.Path(args.output)
+    if out.suffix.lower() not in (".png", ".svg"):
+        raise CaseError(f'cannot draw to "{out}": name it .png or .svg',
+                        source="command line", where="--output")
+    import copy
+    import dataclasses
+
+    from ..output.plot.files import figure_bytes
+    from ..output.plot.fitup import fitup_figure
+
+    drawn = sol
+    if sol.display_units is not None and sol.display_units != sol.structure.units:
+        drawn = copy.copy(sol)  # drawn in the units asked for
+        drawn.structure = dataclasses.replace(sol.structure, units=sol.display_units)
+    data = figure_bytes(fitup_figure(drawn, study, adj), out.suffix.lower()[1:], "fitup")
+    write_files({out: data}, force=args.force, case=sol.structure.source)
+    print(f"leastwork: wrote {literal(out)}", file=sys.stderr)
 
 
 def _header(console, sol) -> None:
