@@ -184,15 +184,19 @@ class Panel:
                         and abs(0.5 * (b[1] + b[3]) - p[1]) < 4 * hgt for b in self.boxes):
             return True
         t = perp(d)
-        tries = [gap, gap + 0.6 * hgt, gap + 1.2 * hgt] + (
-            [gap + k * 1.1 * hgt for k in range(2, 6)] if must else [])
-        cands = [(p + d * g, d) for g in tries] + [(p + d * gap + t * s * w * f, d)
-                                                   for f in (0.35, 0.7) for s in (1, -1)]
-        if must:  # then a widening ring of places around the point, each facing out
-            for r in (0.0, 1.0, 2.0, 3.0, 4.5, 6.5, 9.0, 12.0):
+        cands = [(p + d * g, d) for g in (gap, gap + 0.6 * hgt, gap + 1.2 * hgt)]
+        cands += [(p + d * gap + t * s * w * f, d) for f in (0.35, 0.7) for s in (1, -1)]
+
+        def ring(radii):
+            for r in radii:
                 for ang in np.linspace(0.0, 2 * math.pi, 16, endpoint=False):
                     u = np.array([math.cos(ang), math.sin(ang)])
                     cands.append((p + u * (gap + r * hgt), u))
+
+        if must:  # close around the point first, then further out along d, then rings
+            ring((0.0, 0.8))
+            cands += [(p + d * (gap + k * 1.1 * hgt), d) for k in range(2, 6)]
+            ring((2.0, 3.0, 4.5, 6.5, 9.0, 12.0))
         chosen = None
         for lines_too in (True, False) if must else (True,):
             for q, u in cands:

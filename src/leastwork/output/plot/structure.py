@@ -307,10 +307,10 @@ def _dimension_chain(pn: Panel, st: Structure, axis: int) -> bool:
     def pt(along, across):
         return np.array([along, across]) if axis == 0 else np.array([across, along])
 
-    for s_ in lv:  # thin extension lines from the nearest node at each level
-        at_level = xs[np.abs(xs[:, axis] - s_) <= 1e-6 * size, 1 - axis].min()
-        pn.line([pt(s_, at_level - 0.4 * h), pt(s_, rows[-1][0] - 0.35 * h)],
-                color=FAINT, lw=0.4, z=1)
+    for s_ in lv:  # short extension lines towards the structure, through the rows it ends
+        last = min(r[0] for r in rows if s_ in r[1])
+        pn.line([pt(s_, rows[0][0] + 1.1 * h), pt(s_, last - 0.35 * h)], color=FAINT,
+                lw=0.5, z=1)
     for across, stops in rows:
         pn.line([pt(stops[0], across), pt(stops[-1], across)], color=DIMENSION, lw=0.6)
         pn.keep_off([pt(stops[0], across), pt(stops[-1], across)])
@@ -375,11 +375,13 @@ def structure_panel(pn: Panel, sol, case: str) -> tuple[str, str]:
     draw_members(pn, st)
     draw_supports(pn, st)
     keep_labels_off_members(pn, st)
-    pn.defer()  # every arrow and mark first, then their labels
+    pn.defer()  # every arrow and mark first, then the node names, then the other labels
     _draw_redundants(pn, sol, res)
     draw_loads(pn, st, case)
-    pn.place_deferred()
+    queued, pn.deferred = pn.deferred, None
     _node_names(pn, st)
+    pn.deferred = queued
+    pn.place_deferred()
     _member_names(pn, st)
     _dimensions(pn, st)  # beyond everything drawn, so they cross nothing
     _key(pn)
