@@ -308,7 +308,10 @@ def _dimension_chain(pn: Panel, st: Structure, axis: int) -> bool:
         return np.array([along, across]) if axis == 0 else np.array([across, along])
 
     for s_ in lv:  # short extension lines towards the structure, through the rows it ends
-        last = min(r[0] for r in rows if s_ in r[1])
+        ends = [r[0] for r in rows if s_ in r[1]]
+        if not ends:  # a level only the chain that did not fit would have shown
+            continue
+        last = min(ends)
         pn.line([pt(s_, rows[0][0] + 1.1 * h), pt(s_, last - 0.35 * h)], color=FAINT,
                 lw=0.5, z=1)
     for across, stops in rows:
