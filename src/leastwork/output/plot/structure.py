@@ -293,7 +293,8 @@ def _dimension_chain(pn: Panel, st: Structure, axis: int) -> bool:
         return False
     h = pn.h
     drawn = pn.extent()[0][1 - axis] if pn.pts else xs[:, 1 - axis].min()
-    base = min(drawn, xs[:, 1 - axis].min()) - (1.2 * h if axis == 0 else 1.0 * h)
+    th = pn.text_box("0", FONT)[1]  # the texts of a horizontal chain sit above its line
+    base = min(drawn, xs[:, 1 - axis].min()) - (0.5 * h + th if axis == 0 else 1.0 * h)
     texts = [number((b - a) / lf) for a, b in zip(lv[:-1], lv[1:], strict=True)]
     widths = [pn.text_box(t, FONT)[0 if axis == 0 else 1] for t in texts]
     fits = all(wd < 0.9 * (b - a) for wd, a, b in zip(widths, lv[:-1], lv[1:], strict=True))
@@ -301,7 +302,8 @@ def _dimension_chain(pn: Panel, st: Structure, axis: int) -> bool:
     if fits:
         rows.append((base, lv))
     if len(lv) > 2 or not fits:
-        step = 1.9 * h if axis == 0 else max(widths_across(pn, texts)) + 0.8 * h
+        step = (max(1.9 * h, th + 0.6 * h) if axis == 0
+                else max(widths_across(pn, texts)) + 0.8 * h)
         rows.append((base - (step if fits else 0.0), [lv[0], lv[-1]]))
 
     def pt(along, across):
