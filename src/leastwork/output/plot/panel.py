@@ -101,6 +101,7 @@ class Panel:
         self.line([tail, base], color=color, lw=lw, z=z, ls=ls)
         w = perp(d) * hl * 0.38
         self.poly([tip, base + w, base - w], face=color, z=z)
+        self.keep_off([tip, base + w, base - w, tip])  # labels keep off the head too
 
     def arc_arrow(self, c, r, ccw: bool, color=LOAD, lw=0.9, z=5) -> np.ndarray:
         """A 270 degree arc around ``c`` with a head in the turning sense; returns the
@@ -110,6 +111,7 @@ class Panel:
             t = t[::-1]
         pts = np.asarray(c) + r * np.c_[np.cos(t), np.sin(t)]
         self.line(pts[:-3], color=color, lw=lw, z=z)
+        self.keep_off(pts[:-3])
         self.arrow(pts[-4], pts[-1], color=color, lw=lw, head=0.5 * self.h, z=z)
         return np.asarray(c) + r * 1.25 * np.array([0.0, 1.0])
 
