@@ -79,8 +79,11 @@ def draw_supports(pn: Panel, st: Structure, faint: bool = False) -> None:
     h = pn.h * (0.7 if faint else 1.0)
     col = FAINT if faint else INK
     for sup in st.supports.values():
+        n_pts = len(pn.pts)
         _rigid_support(pn, st, sup, h, col)
         _springs(pn, st, sup, h, col, faint)
+        if len(pn.pts) > n_pts:  # labels keep off the support symbol
+            pn.occupy(np.vstack(pn.pts[n_pts:]))
 
 
 def _rigid_support(pn: Panel, st: Structure, sup, h: float, col: str) -> None:
