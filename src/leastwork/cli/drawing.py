@@ -21,6 +21,9 @@ def add_parsers(sub) -> None:
                        "suffix).", "PNG or SVG file to write")
     pl.add_argument("--diagrams", metavar="LIST", default="structure,n,v,m,deflected",
                     help="comma-separated: structure, n, v, m, deflected (default: all)")
+    pl.add_argument("--each-case", action="store_true",
+                    help="one image per load case, named FILE's stem, '-', the case name "
+                         "(bay.png -> bay-wind.png, bay-snow.png)")
     _file_command(sub, "report", "write a calculation report (HTML or Markdown)",
                   "Write a calculation report: inputs, assumptions, the audit steps, results, "
                   "diagrams, the cross-check and the caution. HTML (one self-contained file) "
@@ -89,6 +92,14 @@ def _figure(sol, out, args) -> dict:
         raise CaseError(f'cannot draw to "{out}": name it .png or .svg',
                         source="command line", where="--output")
     diagrams = parse_diagrams(args.diagrams)
+    if getattr(args, "each_case", False):
+        if args.load_case is not None:
+            raise CaseError("--each-case draws every load case; leave out --case NAME",
+                            source="command line", where="--each-case")
+        from ..output.plot import case_images
+
+        with busy("drawing"):
+            return case_images(sol, out, diagrams)
     fd, tmp = tempfile.mkstemp(suffix=suffix)
     os.close(fd)
     try:

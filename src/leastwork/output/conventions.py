@@ -11,7 +11,7 @@ was drawn.
 from __future__ import annotations
 
 __all__ = ["AXIAL_SIGN", "MOMENT_SIGN_SHORT", "MOMENT_SIGN", "SHEAR_SIGN", "SECTION_FORCES",
-           "MOMENT_DIAGRAM", "REACTION_SIGN"]
+           "MOMENT_DIAGRAM", "REACTION_SIGN", "moment_convention"]
 
 #: Axial force.
 AXIAL_SIGN = "n tension +"
@@ -25,7 +25,13 @@ SHEAR_SIGN = "v = dm/dx"
 #: The three section forces, as a table title's parenthesis.
 SECTION_FORCES = f"{AXIAL_SIGN}, {MOMENT_SIGN_SHORT}, {SHEAR_SIGN}"
 #: How a moment diagram is drawn.
-MOMENT_DIAGRAM = "m drawn on the tension side of each member"
+MOMENT_DIAGRAM = "bending moment drawn on the tension side of each member, values without sign"
 #: Reactions.
 REACTION_SIGN = ("forces the supports apply to the structure: x right +, y up +, moments "
                  "counter-clockwise +")
+
+
+def moment_convention() -> str:
+    """The sentence stating how bending moments are drawn and signed (plain text), as the
+    diagrams' captions print it: the drawing rule, then the sign the tables use."""
+    return f"{MOMENT_DIAGRAM}; in tables {MOMENT_SIGN_SHORT}"

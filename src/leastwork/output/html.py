@@ -17,7 +17,7 @@ from urllib.parse import quote
 
 from ..errors import CaseError
 from ..plaintext import literal
-from .conventions import MOMENT_DIAGRAM, MOMENT_SIGN
+from .conventions import moment_convention
 from .mathml import latex_mathml
 from .quantities import quantities
 from .reported import case_numbers, redundants_shown
@@ -305,7 +305,7 @@ def _diagrams(sol, cases: list[str]) -> str:
         svg = _inline_svg(figure_svg(sol, c), f"Diagrams of load case {c}", f"fig{k}-")
         out.append(f'<figure class="case">{svg}<figcaption>Load case {_e(c)}: the structure '
                    "with its loads and redundants, the axial force n, shear force v and "
-                   f"bending moment m along each member ({MOMENT_DIAGRAM}; {MOMENT_SIGN}), and "
+                   f"bending moment m along each member ({moment_convention()}), and "
                    "the deflected shape, magnified as stated.</figcaption></figure>")
     return "\n".join(out)
 
