@@ -93,6 +93,10 @@ def run(args) -> int:
     from ..solve import solve
 
     st = load_case(args.case)
+    if getattr(st, "is_space", False):
+        from ..space.cli import run_solve
+
+        return run_solve(args, st)
     console = console_for(args)
     st = _with_displacements(st, split(args.at) or [])
     names = split(args.redundants)

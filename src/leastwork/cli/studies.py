@@ -86,7 +86,12 @@ def run_fitup(args) -> int:
     MechanismError for :func:`leastwork.cli.main` to report)."""
     from ..io.reader import load_case
 
-    return _fitup(args, load_case(args.case), console_for(args))
+    st = load_case(args.case)
+    if getattr(st, "is_space", False):
+        from ..space.cli import refuse
+
+        raise refuse("leastwork fitup")
+    return _fitup(args, st, console_for(args))
 
 
 def run_influence(args) -> int:
@@ -94,7 +99,12 @@ def run_influence(args) -> int:
     :func:`run_fitup`)."""
     from ..io.reader import load_case
 
-    return _influence(args, load_case(args.case), console_for(args))
+    st = load_case(args.case)
+    if getattr(st, "is_space", False):
+        from ..space.cli import refuse
+
+        raise refuse("leastwork influence")
+    return _influence(args, st, console_for(args))
 
 
 # ---------------------------------------------------------------------------- fitup

@@ -1,0 +1,105 @@
+"""The command line for space structures: ``solve`` and ``check`` of a case whose nodes
+have three coordinates (the plane commands hand such a case here), and one plain refusal
+for what a space case does not support yet."""
+
+from __future__ import annotations
+
+import dataclasses
+import io
+import json
+import sys
+
+from ..errors import CaseError
+
+__all__ = ["run_solve", "run_check", "refuse"]
+
+
+def refuse(what: str) -> CaseError:
+    """The plain refusal of a feature a space case does not have yet (exit status 2)."""
+    return CaseError(f"{what} is not supported for space structures yet (3D nodes); "
+                     "use leastwork solve or check", source="command line")
+
+
+def _units(args, st):
+    from ..cli.common import display_units
+
+    units = display_units(getattr(args, "units", None), st.units)
+    return st if units is None else dataclasses.replace(st, units=units)
+
+
+def run_solve(args, st) -> int:
+    """``leastwork solve`` of a space case: summary, ``--steps``, ``--json``, ``--format
+    md|latex``, ``-o``; ``--symbolic`` and ``--basis local`` are refused."""
+    from ..cli.common import FILE_WIDTH, chosen_cases, console_for, emit, output_format, split
+    from ..output.terminal import print_sheet
+    from .report import space_dict, space_sheet
+    from .solve import solve_space
+
+    if args.symbolic:
+        raise refuse("--symbolic")
+    if args.basis == "local":
+        raise refuse("--basis local")
+    extra = split(args.at) or []
+    st = dataclasses.replace(st, displacements=tuple(dict.fromkeys([*st.displacements,
+                                                                    *extra])))
+    names = split(args.redundants)
+    if args.redundants is not None and not names:
+        raise CaseError("expected a comma-separated list of redundants", source="command line",
+                        where="--redundants")
+    sol = solve_space(_units(args, st), names, where="--redundants" if names else None,
+                      verify=not args.no_verify)
+    cases = chosen_cases(sol, args.load_case)
+    fmt_name = output_format(args)
+    if fmt_name == "json":
+        emit(json.dumps(space_dict(sol, cases), indent=2) + "\n", args, st)
+    elif fmt_name in ("md", "latex"):
+        from ..cli.common import sheet_meta
+        from ..output.documents import sheet_latex, sheet_markdown
+
+        sheet = space_sheet(sol, cases, meta=sheet_meta())
+        emit((sheet_markdown if fmt_name == "md" else sheet_latex)(sheet), args, st)
+    else:
+        sheet = space_sheet(sol, cases, full=bool(args.steps))
+        if args.output:
+            from rich.console import Console
+
+            buf = Console(record=True, file=io.StringIO(), width=FILE_WIDTH, color_system=None)
+            print_sheet(buf, sheet)
+            emit(buf.export_text(), args, st)
+        else:
+            print_sheet(console_for(args), sheet)
+    if fmt_name != "text" or args.output:
+        if not sol.equilibrium_ok:
+            print("leastwork: WARNING: the equilibrium check FAILED; do not use these results",
+                  file=sys.stderr)
+        if not sol.cross_check_ok:
+            print("leastwork: WARNING: the direct-stiffness cross-check DISAGREES; see the "
+                  "checks", file=sys.stderr)
+    return 0
+
+
+def run_check(args, st) -> int:
+    """``leastwork check`` of a space case: equations, rank, degree, counting formula,
+    stability (mechanisms named) and the redundants a solve would take."""
+    from rich.text import Text
+
+    from ..cli.common import console_for
+    from .topology import check_stable, choose_redundants, space_topology
+
+    console = console_for(args)
+    topo = space_topology(st, st.redundants)
+    console.print(Text(f"{st.name}  ({st.source})"))
+    console.print(Text(f"Space structure: {len(st.nodes)} joints, {len(st.members)} members; "
+                       f"{len(topo.dofs)} equilibrium equations, {len(topo.columns)} unknowns, "
+                       f"rank {topo.rank}."))
+    console.print(Text(f"Degree of indeterminacy: {topo.degree} (external {topo.external}, "
+                       f"internal {topo.internal})."))
+    console.print(Text("Counting formula: " + topo.counting["formula"]))
+    if not topo.stable:
+        console.print(Text("Unstable: the structure is a mechanism; moving: "
+                           + (", ".join(topo.mechanism) or "(not identified)")))
+        check_stable(st, topo)
+    red = choose_redundants(st, topo, st.redundants)
+    names = [topo.columns[i].name for i in red]
+    console.print(Text("Stable. Redundants: " + (", ".join(names) or "none (determinate)")))
+    return 0
