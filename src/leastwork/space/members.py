@@ -150,7 +150,7 @@ def span_terms(m: SpaceMember, L: float, shear: bool, span: SpanFields) -> dict[
         for i, r in enumerate(roles):
             u = unit_fields(r, L).get(f)
             if u is not None:
-                vec[i] = gauss_integral(pf.breaks, lambda x, u=u: npoly.polyval(x / L, u)
+                vec[i] = gauss_integral(pf.breaks, lambda x, u=u, pf=pf: npoly.polyval(x / L, u)
                                         * pf(x)) / K
         if vec.any():
             out[f"span loads ({TERM_OF_FIELD[f]})"] = vec

@@ -10,8 +10,6 @@ errors.
 
 from __future__ import annotations
 
-from typing import Any
-
 import numpy as np
 
 from ..io.analysis import read_analysis

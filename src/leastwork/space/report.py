@@ -199,7 +199,7 @@ def _redundant_step(sol) -> Step:
 
 def _state_step(sol) -> Step:
     """Basic forces of the released structure for a unit value of each redundant."""
-    st, topo = sol.structure, sol.topology
+    topo = sol.topology
     names = sol.redundant_names
     rows = []
     for j, c in enumerate(topo.columns):
