@@ -49,10 +49,13 @@ _NOT_YET = ("combinations", "patterns", "envelopes")
 
 
 def is_space_case(data: dict) -> bool:
-    """Whether a parsed case is spatial: some node has three coordinates."""
+    """Whether a parsed case is spatial: its first node has three coordinates (then every
+    node needs three; a node of another size is refused by name)."""
     nodes = data.get("nodes")
-    return isinstance(nodes, dict) and any(isinstance(v, list) and len(v) == 3
-                                           for v in nodes.values())
+    if not isinstance(nodes, dict) or not nodes:
+        return False
+    first = next(iter(nodes.values()))
+    return isinstance(first, list) and len(first) == 3
 
 
 def read_space(reader: CaseReader) -> SpaceStructure:
@@ -100,8 +103,8 @@ def _nodes(reader: CaseReader) -> dict[str, SpaceNode]:
         where = f"[nodes] {nid}"
         reader.ident(where, nid, "node")
         if not isinstance(xyz, list) or len(xyz) != 3:
-            raise reader.err(where, "expected coordinates [x, y, z] (some node has three, so "
-                             f"every node needs three), got {shown(xyz)}")
+            raise reader.err(where, "expected coordinates [x, y, z] (the first node has three, "
+                             f"so every node needs three), got {shown(xyz)}")
         x, y, z = (reader.quantity(v, "length", f"{where}[{i}] ({a})")
                    for i, (v, a) in enumerate(zip(xyz, "xyz", strict=True)))
         key = (round(x, 9), round(y, 9), round(z, 9))

@@ -26,6 +26,17 @@ ASSUMPTIONS = (
 #: Fields that are moments (the rest are forces).
 MOMENT_FIELDS = ("t", "my", "mz")
 _FIELD_TEXT = {"n": "N", "vy": "Vy", "vz": "Vz", "t": "T", "my": "My", "mz": "Mz"}
+#: Short column heads of the energy terms on a sheet (the JSON keeps the full names).
+_TERM_HEAD = {"axial": "axial", "torsion": "torsion", "bending about y": "bend y",
+              "bending about z": "bend z", "shear along y": "shear y",
+              "shear along z": "shear z", "springs": "springs", "misfit": "misfit",
+              "temperature": "temp.", "settlements": "settle."}
+
+
+def _head(term: str) -> str:
+    if term.startswith("span loads ("):
+        return "span " + _TERM_HEAD.get(term[len("span loads ("):-1], term)
+    return _TERM_HEAD.get(term, term)
 
 
 class _Units:
@@ -201,16 +212,25 @@ def _state_step(sol) -> Step:
     """Basic forces of the released structure for a unit value of each redundant."""
     topo = sol.topology
     names = sol.redundant_names
+    q = quantities(sol.structure.units)
+
+    def factor(col) -> float:
+        return q.factor("moment" if col.is_moment else "force")
+
     rows = []
     for j, c in enumerate(topo.columns):
-        vals = sol.B[j]
-        if not np.any(np.abs(vals) > 1e-12):
+        vals = [v * factor(topo.columns[k]) / factor(c) for v, k in zip(sol.B[j], sol.redundants,
+                                                                        strict=True)]
+        if not np.any(np.abs(sol.B[j]) > 1e-12):
             continue
-        rows.append((c.name, *[0.0 if abs(v) < 1e-12 else float(v) for v in vals]))
+        rows.append((c.name, *[0.0 if abs(b) < 1e-12 else float(v)
+                               for v, b in zip(vals, sol.B[j], strict=True)]))
     blocks: list = []
     if names:
-        blocks.append(Grid("Forces for a unit value of each redundant (force or moment per "
-                           "unit redundant; SI ratios)", ("force", *[f"X={n}" for n in names]),
+        blocks.append(Para(f"Each column: the forces (in {q.force_unit} or {q.moment_unit}) "
+                           f"for X = 1 {q.force_unit} (or 1 {q.moment_unit}); forces not "
+                           "listed are zero."))
+        blocks.append(Grid("Unit-redundant states", ("force", *[f"X={n}" for n in names]),
                            tuple(rows)))
     else:
         blocks.append(Para("No redundants: the loads alone fix every force."))
@@ -233,9 +253,10 @@ def _coefficient_step(sol) -> Step:
             rows.append((f"δ[{names[i]}, {names[j]}]",
                          *[float(sol.delta_parts[t][i, j] / f) for t in terms],
                          float(sol.delta[i, j] / f)))
-    blocks.append(Grid("Flexibility coefficients by energy term (each its own column; output "
-                       f"units: {q.displacement_unit} or rad per {q.force_unit} or "
-                       f"{q.moment_unit})", ("coefficient", *terms, "total"), tuple(rows)))
+    blocks.append(Para(f"Units: {q.displacement_unit} or rad per {q.force_unit} or per "
+                       f"{q.moment_unit}. Each energy term in its own column."))
+    blocks.append(Grid("Flexibility by energy term", ("coefficient", *map(_head, terms),
+                                                      "total"), tuple(rows)))
     return Step(4, "Flexibility coefficients (term by term)", tuple(blocks))
 
 
@@ -253,15 +274,15 @@ def _equation_step(sol, case_names) -> Step:
                                       for t in terms],
                           float(case.load_terms[i] / _load_term_factor(sol, i)))
                          for i in range(n))
-            blocks.append(Grid(f"Load case {name}: load terms δi0 by term", ("redundant", *terms,
-                                                                          "δi0"), rows))
+            blocks.append(Grid(f"Load terms δi0 ({name})", ("redundant", *map(_head, terms),
+                                                             "δi0"), rows))
             for i in range(n):
-                lhs = " + ".join(f"({sol.delta[i, j] / _coef_factor(sol, i, j):.6g})·X{j + 1}"
+                lhs = " + ".join(f"({sol.delta[i, j] / _coef_factor(sol, i, j):.6g})·X[{names[j]}]"
                                  for j in range(n))
                 f = _load_term_factor(sol, i)
                 d0, rhs = case.load_terms[i] / f, case.imposed[i] / f
                 blocks.append(Formula(f"{lhs} + ({d0:.6g}) = {rhs:.6g}"))
-            blocks.append(Grid(f"Load case {name}: redundants", ("redundant", "value", "unit"),
+            blocks.append(Grid(f"Redundants ({name})", ("redundant", "value", "unit"),
                                tuple((nm, u.column(sol.topology.columns[k], x) or 0.0,
                                       u.q.unit("moment" if sol.topology.columns[k].is_moment
                                                else "force"))
@@ -293,19 +314,20 @@ def _case_grids(sol, name, case, q) -> list:
         for d, v in comps.items():
             rrows.append((f"{nid}.{d}", u.direction(d, v) or 0.0,
                           q.moment_unit if d in ROTATIONS else q.force_unit))
-    out.append(Grid(f"Load case {name}: reactions (applied by the supports)",
+    out.append(Grid(f"Reactions ({name})",
                     ("reaction", "value", "unit"), tuple(rrows)))
     erows = []
     for mid, res in case.members.items():
         s, e = res.end_actions()
         for end, vals in (("start", s), ("end", e)):
             erows.append((mid, end, *[u.field(f, vals[f]) or 0.0 for f in FIELDS]))
-    out.append(Grid(f"Load case {name}: end actions ({q.force_unit}; T, My, Mz in "
-                    f"{q.moment_unit})", ("member", "end", *[_FIELD_TEXT[f] for f in FIELDS]),
+    out.append(Para(f"Reactions: applied by the supports. End actions: N, Vy, Vz in "
+                    f"{q.force_unit}; T, My, Mz in {q.moment_unit} (signs: docs/space.md)."))
+    out.append(Grid(f"End actions ({name})", ("member", "end", *[_FIELD_TEXT[f] for f in FIELDS]),
                     tuple(erows), keys=2))
     out.append(grid_summary(sol, case, u))
     if case.displacements:
-        out.append(Grid(f"Load case {name}: displacements (unit-load method)",
+        out.append(Grid(f"Displacements ({name}, unit-load method)",
                         ("at", "value", "unit"),
                         tuple((t, u.displacement(t, v) or 0.0,
                                "rad" if t.rsplit(".", 1)[1] in ROTATIONS else q.displacement_unit)
@@ -314,7 +336,8 @@ def _case_grids(sol, name, case, q) -> list:
 
 
 def grid_summary(sol, case, u) -> Grid:
-    """Per member: the largest bending moment about each axis, twist and shear (absolute)."""
+    """Per member: the largest (in size, signed) bending moment about each axis, twist,
+    shears and axial force: the grid summary (bending, twist and shear per member)."""
     rows = []
     for mid, res in case.members.items():
         vals = []
@@ -324,8 +347,7 @@ def grid_summary(sol, case, u) -> Grid:
             vals.append(u.field(f, big) or 0.0)
         rows.append((mid, *vals))
     q = u.q
-    return Grid(f"Load case {case.name}: per member, the largest (signed) My, Mz, T "
-                f"({q.moment_unit}), Vz, Vy, N ({q.force_unit})",
+    return Grid(f"Largest per member ({case.name})",
                 ("member", "My", "Mz", "T", "Vz", "Vy", "N"), tuple(rows))
 
 
