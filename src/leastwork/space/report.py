@@ -346,7 +346,6 @@ def grid_summary(sol, case, u) -> Grid:
             big = hi if abs(hi) >= abs(lo) else lo
             vals.append(u.field(f, big) or 0.0)
         rows.append((mid, *vals))
-    q = u.q
     return Grid(f"Largest per member ({case.name})",
                 ("member", "My", "Mz", "T", "Vz", "Vy", "N"), tuple(rows))
 
