@@ -441,3 +441,31 @@ def test_mechanism_names_what_moves(tmp_path, capsys):
     text = text.replace('F2 = "pinned"\n', "").replace("F2 = [", "#F2 = [")
     assert main(["check", _write(tmp_path, text)]) == 3
     assert "T." in capsys.readouterr().err
+
+
+def test_plot_draws_a_grid_with_its_plan(tmp_path, capsys):
+    # the drawing is written (PNG), with the plan view for a grid; report is refused
+    f = _write(tmp_path, _crossing(at1=2.0, at2=1.2))
+    assert main(["plot", f, "-o", str(tmp_path / "g.png")]) == 0
+    assert (tmp_path / "g.png").read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
+    assert main(["plot", f, "-o", str(tmp_path / "p.svg"), "--diagrams", "plan,m"]) == 0
+    assert b"<svg" in (tmp_path / "p.svg").read_bytes()[:400]
+    assert main(["plot", f, "-o", str(tmp_path / "q.png"), "--diagrams", "v"]) == 2
+    assert main(["report", f, "-o", str(tmp_path / "r.html")]) == 2
+
+
+def test_deflected_shape_meets_the_unit_load_displacements():
+    # invariant: the drawn shape passes through the joint displacements found by the
+    # unit-load method, and its mid-span sag of a fixed-ended arm follows the curvature
+    from leastwork.space.plot import member_shape, nodal_displacements
+
+    sol = solve(_crossing())
+    disp = nodal_displacements(sol, "default")
+    assert disp["M"][2] == pytest.approx(sol.cases["default"].displacements["M.z"], rel=1e-12)
+    shape = member_shape(sol, "default", "WM", disp)
+    assert shape[-1][2] == pytest.approx(disp["M"][2], rel=1e-9)
+    # beam 1 (W-M-E) is simply supported under its share P1 at mid-span: at its quarter
+    # point the deflection is 11 P1 L^3 / (768 EI) (handbook, from memory)
+    share1 = 60.0 * (4.0 ** 3 / 2000.0) / (6.0 ** 3 / 5000.0 + 4.0 ** 3 / 2000.0)
+    quarter = shape[len(shape) // 2][2]
+    assert -quarter == pytest.approx(11 * share1 * 6.0 ** 3 / (768 * 5000.0), rel=1e-3)

@@ -54,9 +54,9 @@ def run(args) -> int:
 
     st = load_case(args.case)
     if getattr(st, "is_space", False):
-        from ..space.cli import refuse
+        from ..space.cli import run_plot
 
-        raise refuse("leastwork plot and report")
+        return run_plot(args, st)
     units = display_units(args.units, st.units)
     if units is not None:  # the drawings and the report speak the units of the structure
         import dataclasses

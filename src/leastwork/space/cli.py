@@ -103,3 +103,56 @@ def run_check(args, st) -> int:
     names = [topo.columns[i].name for i in red]
     console.print(Text("Stable. Redundants: " + (", ".join(names) or "none (determinate)")))
     return 0
+
+
+def run_plot(args, st) -> int:
+    """``leastwork plot`` of a space case: the isometric view with supports and loads, the
+    deflected shape, the N, T, My, Mz diagrams in the members' planes and, for a grid, the
+    plan view with the twist marked (``--diagrams`` picks among them); ``report`` is
+    refused."""
+    import os
+    import pathlib
+    import tempfile
+
+    from ..cli.common import chosen_cases, split
+    from ..io.writing import write_files
+    from ..plaintext import literal
+    from .plot import SPACE_DIAGRAMS, plot_space
+    from .solve import solve_space
+
+    if args.command != "plot":
+        raise refuse("leastwork report")
+    if args.basis == "local":
+        raise refuse("--basis local")
+    out = pathlib.Path(args.output)
+    if out.suffix.lower() not in (".png", ".svg"):
+        raise CaseError(f'cannot draw to "{literal(str(out))}": name it .png or .svg',
+                        source="command line", where="--output")
+    diagrams = None
+    if args.diagrams != "structure,n,v,m,deflected":  # the plane default: the space default
+        wanted = []
+        for d in split(args.diagrams) or []:
+            names = ("my", "mz") if d == "m" else (d,)
+            for name in names:
+                if name not in SPACE_DIAGRAMS:
+                    raise CaseError(f'unknown diagram "{literal(d, 40)}" for a space structure;'
+                                    " expected some of: " + ", ".join(SPACE_DIAGRAMS) + " (m: "
+                                    "my and mz)", source="command line", where="--diagrams")
+                wanted.append(name)
+        diagrams = tuple(dict.fromkeys(wanted))
+    names = split(args.redundants)
+    sol = solve_space(_units(args, st), names, where="--redundants" if names else None)
+    cases = chosen_cases(sol, args.load_case)
+    fd, tmp = tempfile.mkstemp(suffix=out.suffix.lower())
+    os.close(fd)
+    try:
+        plot_space(sol, tmp, case=cases[0] if cases else None, diagrams=diagrams)
+        data = pathlib.Path(tmp).read_bytes()
+    finally:
+        os.unlink(tmp)
+    write_files({out: data}, force=args.force, case=st.source)
+    print(f"leastwork: wrote {literal(str(out))}", file=sys.stderr)
+    if not sol.equilibrium_ok or not sol.cross_check_ok:
+        print("leastwork: WARNING: a check FAILED (equilibrium or cross-check); see "
+              "leastwork solve", file=sys.stderr)
+    return 0

@@ -69,6 +69,8 @@ class SpaceCase:
     displacements: dict[str, float]
     equilibrium_residual: float
     load_term_parts: dict[str, np.ndarray] = field(default_factory=dict)
+    #: F s + e - c: the deformation conjugate to each column (unit-load method)
+    strain: np.ndarray | None = None
 
 
 @dataclass
@@ -223,7 +225,7 @@ def _case(st, topo, name, lu, keep, red, B, F, parts, solver) -> SpaceCase:
     for target in st.displacements:
         disp[target] = _displacement(st, topo, lu, keep, target, strain)
     return SpaceCase(name, X, load_terms, imposed, s0, s, p, members, reactions, disp,
-                     _overall_residual(st, loads, reactions), term_parts)
+                     _overall_residual(st, loads, reactions), term_parts, strain)
 
 
 def _spans(st: SpaceStructure, loads) -> dict[str, SpanFields]:
