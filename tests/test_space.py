@@ -406,8 +406,8 @@ def test_markdown_sheet(tmp_path, capsys):
 
 
 @pytest.mark.parametrize("argv,needle", [
-    (["plot", "{f}", "-o", "{d}/x.png"], "not supported for space"),
-    (["solve", "{f}", "--symbolic"], "not supported for space"),
+    (["report", "{f}", "-o", "{d}/x.html"], "not supported for space"),
+    (["solve", "{f}", "--symbolic"], "nodal loads only"),
     (["influence", "{f}", "--quantity", "A.z", "--along", "AB"], "not supported for space"),
     (["sweep", "{f}", "--vary", "L=1..2:2", "--quantity", "A.z"], "not supported for space"),
 ])
@@ -469,3 +469,50 @@ def test_deflected_shape_meets_the_unit_load_displacements():
     share1 = 60.0 * (4.0 ** 3 / 2000.0) / (6.0 ** 3 / 5000.0 + 4.0 ** 3 / 2000.0)
     quarter = shape[len(shape) // 2][2]
     assert -quarter == pytest.approx(11 * share1 * 6.0 ** 3 / (768 * 5000.0), rel=1e-3)
+
+
+SYM_HEAD = HEAD + '[parameters]\nP = "10 kN"\nEI = "2000 kN*m^2"\nGJ = "1500 kN*m^2"\n'
+
+
+def test_symbolic_propped_bent_cantilever(tmp_path, capsys):
+    # derived by least work: R = P (a^3/3EI) / (a^3/3EI + b^3/3EI + a b^2/GJ), exactly
+    import sympy
+
+    text = (SYM_HEAD.replace("[parameters]\n", '[parameters]\na = "2 m"\nb = "1.5 m"\n')
+            + '[nodes]\nA = [0, 0, 0]\nB = ["a", 0, 0]\nC = ["a", "b", 0]\n[beams]\n'
+            'AB = { nodes = ["A", "B"], EIy = "EI", EIz = "EI", GJ = "GJ" }\n'
+            'BC = { nodes = ["B", "C"], EIy = "EI", EIz = "EI", GJ = "GJ" }\n'
+            '[supports]\nA = "fixed"\nC = { restrain = ["z"] }\n[[loads]]\nnode = "B"\n'
+            'fz = "-P"\n')
+    assert main(["solve", _write(tmp_path, text), "--symbolic", "--json"]) == 0
+    d = json.loads(capsys.readouterr().out)
+    a, b, P, EIs, GJs = sympy.symbols("a b P EI GJ", positive=True)
+    got = sympy.sympify(d["cases"]["default"]["redundants"]["C.z"],
+                        locals={"a": a, "b": b, "P": P, "EI": EIs, "GJ": GJs})
+    expected = P * (a ** 3 / (3 * EIs)) / (a ** 3 / (3 * EIs) + b ** 3 / (3 * EIs)
+                                           + a * b ** 2 / GJs)
+    assert sympy.simplify(got - expected) == 0
+
+
+def test_symbolic_crossing_beams(tmp_path, capsys):
+    # common practice: beam 1 takes P (L2^3/EI2) / (L1^3/EI1 + L2^3/EI2), exactly
+    import sympy
+
+    text = (HEAD + '[parameters]\nL1 = "6 m"\nL2 = "4 m"\nEI1 = "5000 kN*m^2"\n'
+            'EI2 = "2000 kN*m^2"\nP = "60 kN"\n[nodes]\nW = [0, "L2/2", 0]\n'
+            'E = ["L1", "L2/2", 0]\nS = ["L1/2", 0, 0]\nN = ["L1/2", "L2", 0]\n'
+            'M = ["L1/2", "L2/2", 0]\n[beams]\n'
+            + "".join(f'{k} = {{ nodes = ["{k[0]}", "{k[1]}"], EIy = "{e}", EIz = "{e}", '
+                      'GJ = "1000 kN*m^2" }\n'
+                      for k, e in (("WM", "EI1"), ("ME", "EI1"), ("SM", "EI2"), ("MN", "EI2")))
+            + '[supports]\nW = { restrain = ["x", "y", "z", "rx"] }\n'
+            'E = { restrain = ["y", "z", "rx"] }\nS = { restrain = ["x", "y", "z", "ry"] }\n'
+            'N = { restrain = ["x", "z", "ry"] }\n[[loads]]\nnode = "M"\nfz = "-P"\n')
+    assert main(["solve", _write(tmp_path, text), "--symbolic", "--json",
+                 "--time-limit", "600"]) == 0
+    d = json.loads(capsys.readouterr().out)
+    L1, L2, E1, E2, P = sympy.symbols("L1 L2 EI1 EI2 P", positive=True)
+    names = {"L1": L1, "L2": L2, "EI1": E1, "EI2": E2, "P": P}
+    r = {k: sympy.sympify(v, locals=names) for k, v in d["cases"]["default"]["reactions"].items()}
+    share1 = P * (L2 ** 3 / E2) / (L1 ** 3 / E1 + L2 ** 3 / E2)
+    assert sympy.simplify(r["W.z"] + r["E.z"] - share1) == 0

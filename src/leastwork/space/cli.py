@@ -35,8 +35,6 @@ def run_solve(args, st) -> int:
     from .report import space_dict, space_sheet
     from .solve import solve_space
 
-    if args.symbolic:
-        raise refuse("--symbolic")
     if args.basis == "local":
         raise refuse("--basis local")
     extra = split(args.at) or []
@@ -50,6 +48,8 @@ def run_solve(args, st) -> int:
                       verify=not args.no_verify)
     cases = chosen_cases(sol, args.load_case)
     fmt_name = output_format(args)
+    if args.symbolic:
+        return _symbolic(args, st, sol, cases, fmt_name)
     if fmt_name == "json":
         emit(json.dumps(space_dict(sol, cases), indent=2) + "\n", args, st)
     elif fmt_name in ("md", "latex"):
@@ -155,4 +155,27 @@ def run_plot(args, st) -> int:
     if not sol.equilibrium_ok or not sol.cross_check_ok:
         print("leastwork: WARNING: a check FAILED (equilibrium or cross-check); see "
               "leastwork solve", file=sys.stderr)
+    return 0
+
+
+def _symbolic(args, st, sol, cases, fmt_name: str) -> int:
+    """``solve --symbolic`` of a space case under nodal loads: closed forms of the
+    redundants, reactions and displacements (terminal lines, or ``--json``)."""
+    import pathlib
+
+    from ..cli.common import emit
+    from ..io.files import read_case_text
+    from ..symbolic.limit import run_bounded
+    from .symbolic import closed_form_dict, closed_form_lines, space_closed_forms
+
+    if fmt_name in ("md", "latex"):
+        raise refuse("--symbolic with --format md/latex")
+    text = read_case_text(pathlib.Path(args.case))
+    cf = run_bounded(lambda tick: space_closed_forms(sol, text), args.time_limit,
+                     f"the closed forms took longer than --time-limit {args.time_limit:g} s; "
+                     "solve numerically or raise the limit", st.source)
+    if fmt_name == "json":
+        emit(json.dumps(closed_form_dict(cf, cases), indent=2) + "\n", args, st)
+    else:
+        emit("\n".join(closed_form_lines(cf, st.units, cases)) + "\n", args, st)
     return 0
