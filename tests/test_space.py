@@ -516,3 +516,20 @@ def test_symbolic_crossing_beams(tmp_path, capsys):
     r = {k: sympy.sympify(v, locals=names) for k, v in d["cases"]["default"]["reactions"].items()}
     share1 = P * (L2 ** 3 / E2) / (L1 ** 3 / E1 + L2 ** 3 / E2)
     assert sympy.simplify(r["W.z"] + r["E.z"] - share1) == 0
+
+
+def test_combination_is_the_factored_sum_of_its_cases(tmp_path, capsys):
+    # invariant (linearity): a combination's reactions are the factored sum of its load
+    # cases'; the envelope names the governing combination
+    text = GRID.replace('[[loads]]\nmember = "AB"', '[[loads]]\ncase = "live"\nmember = "AB"')
+    text += '[combinations]\nULS = { default = 1.35, live = 1.5 }\nSLS = { default = 1, live = 1 }\n'
+    assert main(["solve", _write(tmp_path, text), "--json"]) == 0
+    d = json.loads(capsys.readouterr().out)
+    c = d["cases"]
+    for node, comps in c["ULS"]["reactions"].items():
+        for k, v in comps.items():
+            assert v == pytest.approx(1.35 * c["default"]["reactions"][node][k]
+                                      + 1.5 * c["live"]["reactions"][node][k], rel=1e-9, abs=1e-9)
+    top = d["envelope"]["reactions"]["A"]["z"]["max"]
+    assert top["value"] == pytest.approx(max(c["ULS"]["reactions"]["A"]["z"],
+                                             c["SLS"]["reactions"]["A"]["z"]), rel=1e-12)

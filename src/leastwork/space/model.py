@@ -10,7 +10,7 @@ section (local y and z) about local x, counter-clockwise seen from the end node.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 import numpy as np
 
@@ -109,6 +109,9 @@ class SpaceNodalLoad:
     values: tuple[float, float, float, float, float, float]
     case: str = DEFAULT_CASE
 
+    def scaled(self, f: float, case: str) -> SpaceNodalLoad:
+        return replace(self, values=tuple(f * v for v in self.values), case=case)
+
 
 @dataclass(frozen=True)
 class SpacePointLoad:
@@ -118,6 +121,9 @@ class SpacePointLoad:
     at: float
     force: tuple[float, float, float]
     case: str = DEFAULT_CASE
+
+    def scaled(self, f: float, case: str) -> SpacePointLoad:
+        return replace(self, force=tuple(f * v for v in self.force), case=case)
 
 
 @dataclass(frozen=True)
@@ -132,6 +138,10 @@ class SpaceDistributedLoad:
     end: float
     case: str = DEFAULT_CASE
 
+    def scaled(self, f: float, case: str) -> SpaceDistributedLoad:
+        return replace(self, w0=tuple(f * v for v in self.w0),
+                       w1=tuple(f * v for v in self.w1), case=case)
+
 
 @dataclass(frozen=True)
 class SpaceMisfit:
@@ -140,6 +150,9 @@ class SpaceMisfit:
     member: str
     elongation: float
     case: str = DEFAULT_CASE
+
+    def scaled(self, f: float, case: str) -> SpaceMisfit:
+        return replace(self, elongation=f * self.elongation, case=case)
 
 
 @dataclass(frozen=True)
@@ -150,6 +163,9 @@ class SpaceTemperature:
     uniform: float
     case: str = DEFAULT_CASE
 
+    def scaled(self, f: float, case: str) -> SpaceTemperature:
+        return replace(self, uniform=f * self.uniform, case=case)
+
 
 @dataclass(frozen=True)
 class SpaceSettlement:
@@ -158,6 +174,9 @@ class SpaceSettlement:
     node: str
     values: tuple[tuple[str, float], ...]
     case: str = DEFAULT_CASE
+
+    def scaled(self, f: float, case: str) -> SpaceSettlement:
+        return replace(self, values=tuple((d, f * v) for d, v in self.values), case=case)
 
 
 SpaceLoad = (SpaceNodalLoad | SpacePointLoad | SpaceDistributedLoad | SpaceMisfit
@@ -179,6 +198,9 @@ class SpaceStructure:
     shear: bool = False
     source: str = "<structure>"
     case_order: tuple[str, ...] = ()
+    #: load combinations: (name, ((case, factor), ...)); their factored loads are among
+    #: ``loads`` under the combination's name (as in a plane case)
+    combinations: tuple[tuple[str, tuple[tuple[str, float], ...]], ...] = ()
 
     def length(self, mid: str) -> float:
         m = self.members[mid]

@@ -14,7 +14,7 @@ import numpy as np
 
 from ..io.analysis import read_analysis
 from ..io.core import CaseReader
-from ..io.loads import _intensity
+from ..io.loads import _intensity, read_combinations
 from ..io.members import _pick, connected_nodes
 from ..io.messages import echo, hint, kind_of, shown
 from ..io.reader import _defaults, _head, _materials
@@ -45,7 +45,7 @@ _SECTION_DIMS = {"A": "area", "Iy": "second moment of area", "Iz": "second momen
                  "J": "second moment of area", "shear_area": "area", "shear_area_y": "area",
                  "shear_area_z": "area", "depth": "length", "S": "section modulus"}
 #: Tables of a plane case that a space case does not take yet (a plain refusal).
-_NOT_YET = ("combinations", "patterns", "envelopes")
+_NOT_YET = ("patterns", "envelopes")
 
 
 def is_space_case(data: dict) -> bool:
@@ -89,9 +89,10 @@ def read_space(reader: CaseReader) -> SpaceStructure:
                         units=reader.units, redundants=redundants, displacements=displacements,
                         shear=shear, source=reader.source)
     loads, order = _loads(reader, st)
+    combinations = read_combinations(reader, loads, order)
     from dataclasses import replace
 
-    return replace(st, loads=tuple(loads), case_order=tuple(order))
+    return replace(st, loads=tuple(loads), case_order=tuple(order), combinations=combinations)
 
 
 # ---------------------------------------------------------------- nodes and members

@@ -155,8 +155,49 @@ def space_dict(sol: SpaceSolution, cases=None) -> dict:
         "redundants": names,
         "flexibility_by_term": _energy_split(sol),
         "cases": out_cases,
+        **_combinations(sol),
         "warnings": list(sol.warnings),
     }
+
+
+def envelope(sol: SpaceSolution) -> dict:
+    """Largest and smallest reactions and member extremes (My, Mz, T, N) over the load
+    combinations, each with the combination that gives it (output units)."""
+    names = [n for n, _ in sol.structure.combinations]
+    if not names:
+        return {}
+    rows: dict = {"reactions": {}, "members": {}}
+
+    def keep(table: dict, key: tuple, value, combo: str) -> None:
+        node = table
+        for k in key[:-1]:
+            node = node.setdefault(k, {})
+        entry = node.setdefault(key[-1], {"max": {"value": value, "combination": combo},
+                                          "min": {"value": value, "combination": combo}})
+        if value is not None and value > entry["max"]["value"]:
+            entry["max"] = {"value": value, "combination": combo}
+        if value is not None and value < entry["min"]["value"]:
+            entry["min"] = {"value": value, "combination": combo}
+
+    for name in names:
+        case = sol.cases[name]
+        u = _Units(sol, case)
+        for nid, comps in case.reactions.items():
+            for d, v in comps.items():
+                keep(rows["reactions"], (nid, d), u.direction(d, v), name)
+        for mid, res in case.members.items():
+            for f in ("my", "mz", "t", "n"):
+                (hi, _), (lo, _) = res.fields[f].extremes()
+                keep(rows["members"], (mid, f), u.field(f, hi), name)
+                keep(rows["members"], (mid, f), u.field(f, lo), name)
+    return rows
+
+
+def _combinations(sol: SpaceSolution) -> dict:
+    combos = sol.structure.combinations
+    if not combos:
+        return {}
+    return {"combinations": {n: dict(parts) for n, parts in combos}, "envelope": envelope(sol)}
 
 
 def _cross(sol) -> dict:

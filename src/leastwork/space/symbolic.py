@@ -41,6 +41,9 @@ def _exact_inputs(sol: SpaceSolution, text: str):
     from ..symbolic.exact import _Evaluator
 
     st0 = sol.structure
+    if st0.combinations:
+        raise CaseError("--symbolic of a space structure does not take [combinations] yet: "
+                        "solve numerically", source=st0.source)
     st, record = read_case_record(text, st0.source)
     ev = _Evaluator(st, record, False)
     data = record.data
