@@ -408,7 +408,7 @@ def test_markdown_sheet(tmp_path, capsys):
 @pytest.mark.parametrize("argv,needle", [
     (["report", "{f}", "-o", "{d}/x.html"], "not supported for space"),
     (["solve", "{f}", "--symbolic"], "nodal loads only"),
-    (["influence", "{f}", "--quantity", "A.z", "--along", "AB"], "not supported for space"),
+    (["fitup", "{f}", "--tolerance", "*=1mm"], "not supported for space"),
     (["sweep", "{f}", "--vary", "L=1..2:2", "--quantity", "A.z"], "not supported for space"),
 ])
 def test_unsupported_commands_refuse_in_one_line(tmp_path, capsys, argv, needle):
@@ -533,3 +533,33 @@ def test_combination_is_the_factored_sum_of_its_cases(tmp_path, capsys):
     top = d["envelope"]["reactions"]["A"]["z"]["max"]
     assert top["value"] == pytest.approx(max(c["ULS"]["reactions"]["A"]["z"],
                                              c["SLS"]["reactions"]["A"]["z"]), rel=1e-12)
+
+
+def test_influence_line_of_a_prop_in_space(tmp_path, capsys):
+    # Hicks ch. 2 (references #3): a propped cantilever with P at a from the wall has
+    # R_prop = P a^2 (3L - a) / (2 L^3); the load moves along the beam (x = a)
+    L = 5.0
+    text = case({"A": (0, 0, 0), "B": (L, 0, 0)}, {"AB": beam("A", "B")},
+                supports={"A": '"fixed"', "B": '{ restrain = ["z"] }'},
+                loads=['node = "B"\nfz = "-1 kN"'])
+    assert main(["influence", _write(tmp_path, text), "--quantity", "B.z", "--along", "AB",
+                 "--points", "5", "--json"]) == 0
+    d = json.loads(capsys.readouterr().out)
+    for p in d["points"]:
+        a = p["at"]
+        assert p["value"] == pytest.approx(a * a * (3 * L - a) / (2 * L ** 3), abs=1e-12)
+    assert d["max"]["at"] == pytest.approx(L)
+
+
+def test_influence_station_equals_a_direct_solve(tmp_path, capsys):
+    # invariant: each station of the line is the solve of that one load (grid twist)
+    text = _crossing(at1=2.0, at2=1.2)
+    assert main(["influence", _write(tmp_path, text), "--quantity", "WM.start.t",
+                 "--along", "SM,MN", "--points", "3", "--json"]) == 0
+    d = json.loads(capsys.readouterr().out)
+    p = d["points"][2]  # SM at 2/3 of its length
+    direct = solve(text.replace('fz = "-60 kN"', "fz = 0").replace(
+        "[analysis]", f'[[loads]]\nmember = "SM"\nat = {p["at"]}\nfz = "-1 kN"\n[analysis]'))
+    t = direct.cases["default"].members["WM"].end_actions()[0]["t"]
+    assert p["value"] == pytest.approx(kn(t), rel=1e-9)
+    assert abs(p["value"]) > 1e-6

@@ -101,9 +101,9 @@ def run_influence(args) -> int:
 
     st = load_case(args.case)
     if getattr(st, "is_space", False):
-        from ..space.cli import refuse
+        from ..space.cli import run_influence
 
-        raise refuse("leastwork influence")
+        return run_influence(args, st)
     return _influence(args, st, console_for(args))
 
 

@@ -179,3 +179,81 @@ def _symbolic(args, st, sol, cases, fmt_name: str) -> int:
     else:
         emit("\n".join(closed_form_lines(cf, st.units, cases)) + "\n", args, st)
     return 0
+
+
+def run_influence(args, st) -> int:
+    """``leastwork influence`` of a space case: a downward unit load moving along the
+    ``--along`` members; a table, ``--json``, and with ``-o`` a drawing of the line."""
+    from rich.table import Table
+
+    from ..cli.common import console_for, split
+    from ..output.sheet import fmt
+    from ..output.terminal import print_fitted
+    from .influence import influence_dict, influence_line
+    from .solve import solve_space
+
+    if args.points < 1 or args.points > 1000:
+        raise CaseError("expected 1 to 1000 intervals per member", source="command line",
+                        where="--points")
+    st = _units(args, st)
+    sol = solve_space(st, verify=False)
+    rows = influence_line(sol, args.quantity, split(args.along) or [], args.points)
+    d = influence_dict(sol, args.quantity, rows)
+    if args.output:
+        _influence_plot(st, d, args)
+    if args.json:
+        print(json.dumps(d, indent=2))
+        return 0
+    console = console_for(args)
+    t = Table(title=f"Influence line of {args.quantity} ({d['unit']}; load {d['load']})")
+    for h in ("member", f"at ({st.units.length})", "value"):
+        t.add_column(h, justify="right" if h != "member" else "left")
+    for p in d["points"]:
+        t.add_row(p["member"], fmt(p["at"]), fmt(p["value"]))
+    print_fitted(console, t)
+    console.print(f"largest {fmt(d['max']['value'])} at {d['max']['member']}@"
+                  f"{fmt(d['max']['at'])}; smallest {fmt(d['min']['value'])} at "
+                  f"{d['min']['member']}@{fmt(d['min']['at'])}", markup=False)
+    return 0
+
+
+def _influence_plot(st, d: dict, args) -> None:
+    import os
+    import pathlib
+    import tempfile
+
+    import matplotlib
+
+    matplotlib.use("Agg")
+    import matplotlib.pyplot as plt
+
+    from ..io.writing import write_files
+    from ..plaintext import literal
+
+    out = pathlib.Path(args.output)
+    if out.suffix.lower() not in (".png", ".svg"):
+        raise CaseError(f'cannot draw to "{literal(str(out))}": name it .png or .svg',
+                        source="command line", where="--output")
+    xs, run, last = [], 0.0, None
+    for p in d["points"]:
+        if last is not None and p["member"] != last[0]:
+            run += last[1]
+        xs.append(run + p["at"])
+        last = (p["member"], p["at"])
+    fig, ax = plt.subplots(figsize=(7, 3))
+    ax.plot(xs, [p["value"] for p in d["points"]], color="#1f4e9b")
+    ax.axhline(0, color="#888888", lw=0.8)
+    ax.set_xlabel(f"distance along {args.along} ({st.units.length})")
+    ax.set_ylabel(d["unit"])
+    ax.set_title(f"{st.name}: influence line of {d['quantity']}", fontsize=9)
+    fig.tight_layout()
+    fd, tmp = tempfile.mkstemp(suffix=out.suffix.lower())
+    os.close(fd)
+    try:
+        fig.savefig(tmp, dpi=130)
+        plt.close(fig)
+        data = pathlib.Path(tmp).read_bytes()
+    finally:
+        os.unlink(tmp)
+    write_files({out: data}, force=args.force, case=st.source)
+    print(f"leastwork: wrote {literal(str(out))}", file=sys.stderr)

@@ -33,7 +33,7 @@ from .model import (
 )
 from .topology import SpaceTopology, choose_redundants, space_topology
 
-__all__ = ["SpaceCase", "SpaceSolution", "solve_space", "MemberResult"]
+__all__ = ["SpaceCase", "SpaceSolution", "solve_space", "MemberResult", "solve_loads"]
 
 #: Relative size of the overall equilibrium residual above which the check fails.
 EQUILIBRIUM_TOL = 1e-8
@@ -87,6 +87,9 @@ class SpaceSolution:
     warnings: list[str]
     condition: float
     stiffness_check: object = None
+    #: the factorised released structure, F by term and the compatibility solver, kept
+    #: for further load cases (influence lines)
+    work: dict = field(default_factory=dict)
 
     @property
     def redundant_names(self) -> list[str]:
@@ -143,7 +146,8 @@ def solve_space(st: SpaceStructure, redundants=None, where: str | None = None,
     cases = {name: _case(st, topo, name, lu, keep, red, B, F, parts, solver)
              for name in st.case_names}
     sol = SpaceSolution(st, topo, red, B, keep, delta, delta_parts, member_terms, cases,
-                        list(solver.warnings), solver.cond)
+                        list(solver.warnings), solver.cond,
+                        work={"lu": lu, "F": F, "parts": parts, "solver": solver})
     if verify:
         from .stiffness import cross_check
 
@@ -328,3 +332,14 @@ def _overall_residual(st: SpaceStructure, loads, reactions) -> float:
                 add(w * half * q, np.zeros(3), a + x * ex)
     res = max(float(np.max(np.abs(force))), float(np.max(np.abs(moment))) / Lm)
     return res / max(size, 1e-300) if size > 0 else res
+
+
+def solve_loads(sol: SpaceSolution, loads: tuple, name: str = "extra") -> SpaceCase:
+    """One more load case (``loads``, each in case ``name``) on the factorised structure of
+    ``sol``: no new topology, released structure or flexibility."""
+    import dataclasses
+
+    st = dataclasses.replace(sol.structure, loads=loads, case_order=(name,), displacements=())
+    w = sol.work
+    return _case(st, sol.topology, name, w["lu"], sol.keep, sol.redundants, sol.B, w["F"],
+                 w["parts"], w["solver"])
