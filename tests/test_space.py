@@ -563,3 +563,32 @@ def test_influence_station_equals_a_direct_solve(tmp_path, capsys):
     t = direct.cases["default"].members["WM"].end_actions()[0]["t"]
     assert p["value"] == pytest.approx(kn(t), rel=1e-9)
     assert abs(p["value"]) > 1e-6
+
+
+def test_shear_energy_when_asked():
+    # Timoshenko beam theory (common practice): a cantilever's tip deflection under P is
+    # P L^3 / 3EI + P L / (G A_s) when shear deformation counts
+    L, P_ = 2.0, 30.0
+    text = (HEAD + '[materials.s]\nE = "210 GPa"\nG = "81 GPa"\n[sections.b]\nA = "8000 mm^2"\n'
+            'Iy = "5e7 mm^4"\nIz = "2e7 mm^4"\nJ = "1e6 mm^4"\nshear_area = "3000 mm^2"\n'
+            '[defaults]\nmaterial = "s"\nsection = "b"\n[nodes]\nA = [0, 0, 0]\nB = [2, 0, 0]\n'
+            '[beams]\nAB = { nodes = ["A", "B"] }\n[supports]\nA = "fixed"\n[[loads]]\n'
+            f'node = "B"\nfz = "-{P_} kN"\n[analysis]\nshear = true\ndisplacements = ["B.z"]\n')
+    sol = solve(text)
+    EI_, GA = 210e9 * 5e-5, 81e9 * 3e-3
+    expected = P_ * 1e3 * (L ** 3 / (3 * EI_) + L / GA)
+    assert -sol.cases["default"].displacements["B.z"] == pytest.approx(expected, rel=1e-12)
+
+
+def test_spring_prop_under_the_tip():
+    # derived by least work: a cantilever on a spring k under its loaded tip carries
+    # R = P (L^3/3EI) / (L^3/3EI + 1/k)
+    L, k, P_ = 4.0, 500.0, 20.0
+    sol = solve(case({"A": (0, 0, 0), "B": (L, 0, 0)}, {"AB": beam("A", "B")},
+                     supports={"A": '"fixed"', "B": f'{{ springs = {{ z = "{k} kN/m" }} }}'},
+                     loads=[f'node = "B"\nfz = "-{P_} kN"']))
+    d = L ** 3 / (3 * EI)
+    assert kn(sol.cases["default"].reactions["B"]["z"]) == pytest.approx(P_ * d / (d + 1 / k),
+                                                                          rel=1e-12)
+    assert sol.stiffness_check.ok
+    assert "SpaceSolution" in repr(sol) and sol.to_dict()["space"] is True

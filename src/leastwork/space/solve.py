@@ -91,6 +91,21 @@ class SpaceSolution:
     #: for further load cases (influence lines)
     work: dict = field(default_factory=dict)
 
+    def to_dict(self, cases=None) -> dict:
+        """The JSON result (contract sections 4 and 5.5) as a dictionary."""
+        from .report import space_dict
+
+        return space_dict(self, cases)
+
+    def __repr__(self) -> str:
+        st = self.structure
+        ok = "agrees" if self.cross_check_ok else "DISAGREES"
+        return (f"<SpaceSolution {st.name!r}: {len(st.nodes)} joints, {len(st.members)} "
+                f"members, degree {self.topology.degree}, redundants "
+                f"{', '.join(self.redundant_names[:8]) or 'none'}"
+                f"{' ...' if len(self.redundants) > 8 else ''}; load cases "
+                f"{', '.join(list(self.cases)[:6])}; stiffness cross-check {ok}>")
+
     @property
     def redundant_names(self) -> list[str]:
         return [self.topology.columns[i].name for i in self.redundants]
