@@ -224,7 +224,7 @@ def _structure_step(sol) -> Step:
              ("member", "kind", "nodes", f"L ({q.length_unit})", "local y", "releases"),
              tuple(rows)),
         Para(f"Equilibrium matrix A: {len(topo.dofs)} equations (x, y, z at every joint; "
-             "rx, ry, rz where a member end passes a moment) × "
+             "rx, ry, rz where a member end passes a moment) by "
              f"{len(topo.columns)} unknowns (basic forces and reactions); rank {topo.rank}."),
         Formula(f"degree = unknowns − rank = {len(topo.columns)} − {topo.rank} = "
                 f"{topo.degree}  (external {topo.external}, internal {topo.internal})"),
@@ -339,7 +339,7 @@ def _equation_step(sol, case_names) -> Step:
 def _result_step(sol, case_names) -> Step:
     q = quantities(sol.structure.units)
     blocks: list = [Para("Superposition: every force = its value in the released structure "
-                         "under the loads + Σ Xi × its value for a unit redundant i.")]
+                         "under the loads + Σ Xi · its value for a unit redundant i.")]
     for name, case in sol.cases.items():
         if case_names is not None and name not in case_names:
             continue
