@@ -592,3 +592,16 @@ def test_spring_prop_under_the_tip():
                                                                           rel=1e-12)
     assert sol.stiffness_check.ok
     assert "SpaceSolution" in repr(sol) and sol.to_dict()["space"] is True
+
+
+def test_large_space_structure_is_refused_in_one_line(tmp_path, capsys):
+    # the dense path's size bound: above it a plain refusal, not a long computation
+    n = 1100
+    text = (HEAD + "[nodes]\n" + "".join(f"N{i} = [{i}, 0, {i % 2}]\n" for i in range(n))
+            + "[bars]\n" + "".join(f'B{i} = {{ nodes = ["N{i}", "N{i + 1}"], EA = 1 }}\n'
+                                   for i in range(n - 1))
+            + '[supports]\nN0 = "pinned"\n')
+    assert main(["check", _write(tmp_path, text)]) == 2
+    assert "not supported yet" in capsys.readouterr().err
+    assert main(["solve", _write(tmp_path, GRID), "--at", "Q.z"]) == 2
+    assert "--at" in capsys.readouterr().err

@@ -10,6 +10,7 @@ import json
 import sys
 
 from ..errors import CaseError
+from .model import DIRECTIONS
 
 __all__ = ["run_solve", "run_check", "refuse"]
 
@@ -38,6 +39,12 @@ def run_solve(args, st) -> int:
     if args.basis == "local":
         raise refuse("--basis local")
     extra = split(args.at) or []
+    for t in extra:
+        node, _, d = t.partition(".")
+        if node not in st.nodes or d not in DIRECTIONS:
+            raise CaseError(f'"{t}" is not a displacement of this space structure; expected '
+                            "NODE.x|y|z|rx|ry|rz with a node of the case", source="command line",
+                            where="--at")
     st = dataclasses.replace(st, displacements=tuple(dict.fromkeys([*st.displacements,
                                                                     *extra])))
     names = split(args.redundants)

@@ -15,7 +15,13 @@ from dataclasses import dataclass
 import numpy as np
 
 from ..errors import CaseError, MechanismError
-from ..thresholds import GOOD_PIVOT, MECHANISM_INDEX, MECHANISM_MOTION, RANK_ROUND_OFF
+from ..thresholds import (
+    DENSE_CHECK_MAX_DOFS,
+    GOOD_PIVOT,
+    MECHANISM_INDEX,
+    MECHANISM_MOTION,
+    RANK_ROUND_OFF,
+)
 from .members import basic_forces, node_actions
 from .model import DIRECTIONS, ROTATIONS, SpaceStructure
 
@@ -95,6 +101,10 @@ def space_topology(st: SpaceStructure, names=None) -> SpaceTopology:
             cols.append(SpaceColumn(name, role, m.id))
             entries.append(ent)
     dofs = [f"{n}.{d}" for n in st.nodes for d in DIRECTIONS if d not in ROTATIONS or n in rot]
+    if len(dofs) > DENSE_CHECK_MAX_DOFS:
+        raise CaseError(f"{len(dofs)} equilibrium equations: space structures above "
+                        f"{DENSE_CHECK_MAX_DOFS} are not supported yet (the sparse path is for "
+                        "plane structures only)", source=st.source)
     dof_index = {d: i for i, d in enumerate(dofs)}
     restraints, dropped = [], []
     for sup in st.supports.values():
