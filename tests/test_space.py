@@ -418,6 +418,9 @@ def test_unsupported_commands_refuse_in_one_line(tmp_path, capsys, argv, needle)
     assert code == 2 and needle in err and "Traceback" not in err
 
 
+TWO = HEAD + '[nodes]\nA = [0, 0, 0]\nB = [1, 0, 0]\n'
+
+
 @pytest.mark.parametrize("text,needle", [
     (HEAD + '[nodes]\nA = [0, 0, 0]\nB = [1, 0]\n[bars]\nAB = { nodes = ["A", "B"], EA = 1 }\n'
      '[supports]\nA = "pinned"\n', "[nodes] B"),
@@ -428,6 +431,27 @@ def test_unsupported_commands_refuse_in_one_line(tmp_path, capsys, argv, needle)
     (HEAD + '[nodes]\nA = [0, 0, 0]\nB = [1, 0, 0]\n[bars]\nAB = { nodes = ["A", "B"], '
      'EA = 1 }\n[supports]\nA = "pinned"\nB = "pinned"\n[[loads]]\nnode = "B"\nfw = 1\n',
      'unknown key "fw"'),
+    (TWO + '[beams]\nAB = { nodes = ["A", "B"], EIy = 1, EIz = 1, GJ = 1, releases = '
+     '{ start = ["m"] } }\n[supports]\nA = "fixed"\n', "releases.start"),
+    (TWO + '[beams]\nAB = { nodes = ["A", "B"], EIy = 1, EIz = 1, GJ = 1, roll = "x" }\n'
+     '[supports]\nA = "fixed"\n', ".roll"),
+    (TWO + '[bars]\nAB = { nodes = ["A", "B"], EA = 1 }\n[supports]\nA = { restrain = '
+     '["x"], springs = { w = 5 } }\n', "unknown direction"),
+    (TWO + '[bars]\nAB = { nodes = ["A", "B"], EA = 1 }\n[supports]\nA = "pinned"\n'
+     'B = "pinned"\n[[loads]]\nsettlement = "A"\ndrx = 0.01\n', "not rigidly restrained"),
+    (TWO + '[bars]\nAB = { nodes = ["A", "B"], EA = 1 }\n[supports]\nA = "pinned"\n'
+     'B = "pinned"\n[[loads]]\nmember = "AB"\nwz = 1\n', "is a bar"),
+    (TWO + '[bars]\nAB = { nodes = ["A", "B"], EA = 1 }\n[supports]\nA = "pinned"\n'
+     'B = "pinned"\n[[loads]]\nself_weight = true\n', "self_weight"),
+    (TWO + '[bars]\nAB = { nodes = ["A", "B"], EA = 1 }\n[supports]\nA = "pinned"\n'
+     'B = "pinned"\n[[loads]]\nmember = "AB"\ntemperature = { gradient = "5 K" }\n',
+     "gradient"),
+    (TWO + '[sections.s]\nI = "1e6 mm^4"\n[bars]\nAB = { nodes = ["A", "B"], EA = 1 }\n'
+     '[supports]\nA = "pinned"\n', "Iy and Iz"),
+    (TWO + '[beams]\nAB = { nodes = ["A", "B"], EIy = 1, GJ = 1 }\n[supports]\n'
+     'A = "fixed"\n', "both flexural"),
+    (TWO + '[bars]\nAB = { nodes = ["A", "B"], EA = 1 }\n[supports]\nA = "pinned"\n'
+     '[patterns]\nlive = ["AB"]\n', "[patterns]"),
 ])
 def test_bad_space_input_is_one_located_line(tmp_path, capsys, text, needle):
     assert main(["check", _write(tmp_path, text)]) == 2
