@@ -629,3 +629,20 @@ def test_large_space_structure_is_refused_in_one_line(tmp_path, capsys):
     assert "not supported yet" in capsys.readouterr().err
     assert main(["solve", _write(tmp_path, GRID), "--at", "Q.z"]) == 2
     assert "--at" in capsys.readouterr().err
+
+
+def test_hinged_grid_joint_has_no_false_mechanism():
+    # two cantilevers pinned together at their tips (both moments released, the twist
+    # kept): no end resists a turn of the joint about the vertical, which is left out
+    # rather than called a mechanism; the load at the joint is shared so that both tips
+    # deflect alike, P1 L1^3/3EI1 = P2 L2^3/3EI2 (common practice, as for crossing beams)
+    L1, L2, E1, E2, Pm = 2.0, 3.0, 2000.0, 5000.0, 20.0
+    sol = solve(case({"A": (0, 0, 0), "M": (L1, 0, 0), "B": (L1, L2, 0)},
+                     {"AM": beam("A", "M", EIy=E1, extra='hinges = ["end"]'),
+                      "BM": beam("B", "M", EIy=E2, extra='hinges = ["end"]')},
+                     supports={"A": '"fixed"', "B": '"fixed"'},
+                     loads=[f'node = "M"\nfz = "-{Pm} kN"']))
+    assert sol.topology.stable and sol.stiffness_check.ok
+    assert "M.rz" not in sol.topology.dof_index and "M.rx" in sol.topology.dof_index
+    p1 = Pm * (L2 ** 3 / E2) / (L1 ** 3 / E1 + L2 ** 3 / E2)
+    assert kn(sol.cases["default"].reactions["A"]["z"]) == pytest.approx(p1, rel=1e-9)

@@ -100,7 +100,14 @@ def space_topology(st: SpaceStructure, names=None) -> SpaceTopology:
                         rot.add(node)
             cols.append(SpaceColumn(name, role, m.id))
             entries.append(ent)
-    dofs = [f"{n}.{d}" for n in st.nodes for d in DIRECTIONS if d not in ROTATIONS or n in rot]
+    # a rotation about an axis no member end resists (every end there released about it,
+    # e.g. the vertical axis of a joint of hinged grid beams) is not an equation: left out,
+    # as the plane path leaves out the rotation of a pin joint
+    held: set[str] = set()
+    for ent in entries:
+        held.update(d for d, v in ent if abs(v) > 0)
+    dofs = [f"{n}.{d}" for n in st.nodes for d in DIRECTIONS
+            if d not in ROTATIONS or (n in rot and f"{n}.{d}" in held)]
     if len(dofs) > DENSE_CHECK_MAX_DOFS:
         raise CaseError(f"{len(dofs)} equilibrium equations: space structures above "
                         f"{DENSE_CHECK_MAX_DOFS} are not supported yet (the sparse path is for "
