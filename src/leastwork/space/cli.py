@@ -32,6 +32,7 @@ def run_solve(args, st) -> int:
     """``leastwork solve`` of a space case: summary, ``--steps``, ``--json``, ``--format
     md|latex``, ``-o``; ``--symbolic`` and ``--basis local`` are refused."""
     from ..cli.common import FILE_WIDTH, chosen_cases, console_for, emit, output_format, split
+    from ..output.sheet import fmt
     from ..output.terminal import print_sheet
     from .report import space_dict, space_sheet
     from .solve import solve_space
@@ -65,6 +66,26 @@ def run_solve(args, st) -> int:
 
         sheet = space_sheet(sol, cases, meta=sheet_meta())
         emit((sheet_markdown if fmt_name == "md" else sheet_latex)(sheet), args, st)
+    elif args.quiet and not args.output:
+        from rich.text import Text
+
+        console = console_for(args)
+        console.print(Text(f"{st.name}: degree {sol.topology.degree}; redundants "
+                           + (", ".join(sol.redundant_names) or "none")))
+        from ..output.quantities import quantities
+
+        q = quantities(sol.structure.units)
+        unit = {sol.topology.columns[i].name: q.moment_unit if sol.topology.columns[i].is_moment
+                else q.force_unit for i in sol.redundants}
+        for name in sol.cases:
+            if cases is None or name in cases:
+                vals = ", ".join(f"{n} = {fmt(v)} {unit[n]}" for n, v in space_dict(
+                    sol, [name])["cases"][name]["redundants"].items())
+                console.print(Text(f"  {name}: {vals or 'no redundants'}"))
+        console.print(Text("equilibrium " + ("satisfied" if sol.equilibrium_ok else
+                                             "FAILED: do not use these results")
+                           + "; " + (sol.stiffness_check.message if sol.stiffness_check
+                                     else "stiffness cross-check not run")))
     else:
         sheet = space_sheet(sol, cases, full=bool(args.steps))
         if args.output:
