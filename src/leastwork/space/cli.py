@@ -134,7 +134,7 @@ def run_check(args, st) -> int:
 
 
 def run_plot(args, st) -> int:
-    """``leastwork plot`` of a space case: the isometric view with supports and loads, the
+    """``leastwork plot`` of a space case: the axonometric view with supports and loads, the
     deflected shape, the N, T, My, Mz diagrams in the members' planes and, for a grid, the
     plan view with the twist marked (``--diagrams`` picks among them); ``report`` is
     refused."""

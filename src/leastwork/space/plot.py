@@ -3,8 +3,9 @@ the structure with its supports and loads, the deflected shape, the section-forc
 drawn in each member's own planes, and a plan view for grids with the twist of each member
 marked.
 
-Projection: isometric — a point (x, y, z) is drawn at ((x − y) cos 30°, (x + y) sin 30° + z),
-so global z stays vertical on the page.
+Projection: axonometric, global x drawn 20° above the horizontal to the right, global y
+35° above it to the left, global z vertical — slightly unequal angles, so that the members
+of a symmetric layout do not fall on one another as they would in an isometric view.
 """
 
 from __future__ import annotations
@@ -23,15 +24,15 @@ __all__ = ["SPACE_DIAGRAMS", "project", "nodal_displacements", "member_shape", "
 
 #: Panels a space drawing can hold, in order.
 SPACE_DIAGRAMS = ("structure", "deflected", "n", "t", "my", "mz", "plan")
-_C30, _S30 = math.cos(math.radians(30)), math.sin(math.radians(30))
+_AX, _AY = math.radians(20), math.radians(35)
 _MEMBER = "#303030"
 _DIAGRAM = {"n": "#1f6f8b", "t": "#8b1f6f", "my": "#b34700", "mz": "#2f7d32"}
 
 
 def project(p) -> tuple[float, float]:
-    """The isometric drawing position of a point (x, y, z)."""
+    """The axonometric drawing position of a point (x, y, z)."""
     x, y, z = p
-    return (x - y) * _C30, (x + y) * _S30 + z
+    return x * math.cos(_AX) - y * math.cos(_AY), x * math.sin(_AX) + y * math.sin(_AY) + z
 
 
 def is_grid(st) -> bool:
@@ -263,8 +264,8 @@ def plot_space(sol: SpaceSolution, path: str, case: str | None = None,
     cols = 2 if n > 1 else 1
     rows = math.ceil(n / cols)
     fig, axs = plt.subplots(rows, cols, figsize=(5.2 * cols, 4.2 * rows), squeeze=False)
-    titles = {"structure": f"Structure and loads — case {case} (isometric view)",
-              "deflected": "Deflected shape (scaled; isometric)",
+    titles = {"structure": f"Structure and loads — case {case} (axonometric view)",
+              "deflected": "Deflected shape (scaled)",
               "n": "N — axial force", "t": "T — twist (in the local x–z plane)",
               "my": "My — drawn on the tension side (local x–z plane)",
               "mz": "Mz — drawn on the tension side (local x–y plane)",
