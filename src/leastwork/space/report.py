@@ -101,6 +101,8 @@ def member_numbers(sol: SpaceSolution, case, u: _Units) -> dict:
             ext[f] = {"max": {"value": u.field(f, hi), "at": xhi / u.q.factor("length")},
                       "min": {"value": u.field(f, lo), "at": xlo / u.q.factor("length")}}
         entry["extremes"] = ext
+        for f in ("my", "mz", "t"):  # the plane result's m_max / m_min, per moment
+            entry[f"{f}_max"], entry[f"{f}_min"] = ext[f]["max"], ext[f]["min"]
         out[mid] = entry
     return out
 
