@@ -384,6 +384,9 @@ def test_json_result_has_the_space_keys(tmp_path, capsys):
     assert len(case0["flexibility"]) == len(d["redundants"])
     assert set(case0["displacements"]) == {"E.z", "E.rx"}
     assert case0["checks"]["stiffness_cross_check"]["agrees"] is True
+    ae = case0["members"]["AE"]
+    assert {"my_max", "my_min", "mz_max", "mz_min", "t_max", "t_min"} <= set(ae)
+    assert ae["my_min"]["value"] <= min(ae["start"]["my"], ae["end"]["my"]) + 1e-12
     # flexibility = sum of the terms
     total = np.array(case0["flexibility"])
     parts = sum(np.array(v) for v in d["flexibility_by_term"].values())
