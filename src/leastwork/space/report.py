@@ -12,7 +12,7 @@ from ..output.reported import ROUND_OFF, number
 from ..output.sheet import Formula, Grid, Para, Sheet, Step
 from .members import FIELDS
 from .model import ROTATIONS
-from .solve import SpaceSolution
+from .solve import EQUILIBRIUM_TOL, SpaceSolution
 
 __all__ = ["space_dict", "space_sheet", "ASSUMPTIONS", "MOMENT_FIELDS", "grid_summary"]
 
@@ -141,7 +141,7 @@ def space_dict(sol: SpaceSolution, cases=None) -> dict:
             "members": member_numbers(sol, case, u),
             "displacements": {t: u.displacement(t, v) for t, v in case.displacements.items()},
             "checks": {"equilibrium_residual": number(case.equilibrium_residual),
-                       "equilibrium_ok": bool(case.equilibrium_residual <= 1e-8),
+                       "equilibrium_ok": bool(case.equilibrium_residual <= EQUILIBRIUM_TOL),
                        **_cross(sol)},
         }
     return {
@@ -398,7 +398,7 @@ def _check_step(sol, case_names) -> Step:
     for name, case in sol.cases.items():
         if case_names is not None and name not in case_names:
             continue
-        ok = case.equilibrium_residual <= 1e-8
+        ok = case.equilibrium_residual <= EQUILIBRIUM_TOL
         blocks.append(Para(f"Load case {name}: overall equilibrium of loads and reactions "
                            f"(forces and moments about the joints' centroid): relative "
                            f"residual {case.equilibrium_residual:.1e} — "

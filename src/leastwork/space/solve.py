@@ -204,9 +204,9 @@ def _case(st, topo, name, lu, keep, red, B, F, parts, solver) -> SpaceCase:
     for ld in loads:
         if isinstance(ld, SpaceMisfit | SpaceTemperature):
             m = st.members[ld.member]
+            # an axially rigid beam takes the imposed strain too (it has no flexibility:
+            # the compatibility solver says so if the strain cannot be accommodated)
             j = topo.column_index[m.id if not m.is_beam else f"{m.id}.n"]
-            if m.EA is None and m.is_beam:
-                pass  # an axially rigid beam still takes the imposed strain (no flexibility)
             value = (ld.elongation if isinstance(ld, SpaceMisfit)
                      else m.alpha * ld.uniform * st.length(m.id))
             key = "misfit" if isinstance(ld, SpaceMisfit) else "temperature"
