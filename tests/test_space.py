@@ -649,3 +649,19 @@ def test_hinged_grid_joint_has_no_false_mechanism():
     assert "M.rz" not in sol.topology.dof_index and "M.rx" in sol.topology.dof_index
     p1 = Pm * (L2 ** 3 / E2) / (L1 ** 3 / E1 + L2 ** 3 / E2)
     assert kn(sol.cases["default"].reactions["A"]["z"]) == pytest.approx(p1, rel=1e-9)
+
+
+def test_a_failed_cross_check_is_said_loudly(tmp_path, capsys, monkeypatch):
+    # a disagreement (forced here by a zero tolerance) is shown on the sheet and warned on
+    # standard error when the result goes to JSON; never a silent number
+    import leastwork.space.stiffness as stiffness
+
+    monkeypatch.setattr(stiffness, "CHECK_RTOL", -1.0)
+    f = _write(tmp_path, GRID)
+    assert main(["solve", f, "--json"]) == 0
+    out = capsys.readouterr()
+    assert json.loads(out.out)["cases"]["default"]["checks"]["stiffness_cross_check"][
+        "agrees"] is False
+    assert "DISAGREES" in out.err
+    assert main(["solve", f, "--no-color"]) == 0
+    assert "DISAGREES" in capsys.readouterr().out
