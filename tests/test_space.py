@@ -409,7 +409,7 @@ def test_markdown_sheet(tmp_path, capsys):
 
 
 @pytest.mark.parametrize("argv,needle", [
-    (["report", "{f}", "-o", "{d}/x.html"], "not supported for space"),
+    (["solve", "{f}", "--basis", "local"], "not supported for space"),
     (["solve", "{f}", "--symbolic"], "nodal loads only"),
     (["fitup", "{f}", "--tolerance", "*=1mm"], "not supported for space"),
     (["sweep", "{f}", "--vary", "L=1..2:2", "--quantity", "A.z"], "not supported for space"),
@@ -478,7 +478,11 @@ def test_plot_draws_a_grid_with_its_plan(tmp_path, capsys):
     assert main(["plot", f, "-o", str(tmp_path / "p.svg"), "--diagrams", "plan,m"]) == 0
     assert b"<svg" in (tmp_path / "p.svg").read_bytes()[:400]
     assert main(["plot", f, "-o", str(tmp_path / "q.png"), "--diagrams", "v"]) == 2
-    assert main(["report", f, "-o", str(tmp_path / "r.html")]) == 2
+    assert main(["report", f, "-o", str(tmp_path / "r.html")]) == 0
+    page = (tmp_path / "r.html").read_text(encoding="utf-8")
+    assert "<svg" in page and "torsion" in page and str(tmp_path) not in page
+    assert main(["report", f, "-o", str(tmp_path / "r.md")]) == 0
+    assert (tmp_path / "r-1.svg").is_file()
 
 
 def test_deflected_shape_meets_the_unit_load_displacements():

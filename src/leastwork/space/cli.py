@@ -148,10 +148,10 @@ def run_plot(args, st) -> int:
     from .plot import SPACE_DIAGRAMS, plot_space
     from .solve import solve_space
 
-    if args.command != "plot":
-        raise refuse("leastwork report")
     if args.basis == "local":
         raise refuse("--basis local")
+    if args.command != "plot":
+        return _report(args, st)
     out = pathlib.Path(args.output)
     if out.suffix.lower() not in (".png", ".svg"):
         raise CaseError(f'cannot draw to "{literal(str(out))}": name it .png or .svg',
@@ -285,3 +285,66 @@ def _influence_plot(st, d: dict, args) -> None:
         os.unlink(tmp)
     write_files({out: data}, force=args.force, case=st.source)
     print(f"leastwork: wrote {literal(str(out))}", file=sys.stderr)
+
+
+def _report(args, st) -> int:
+    """``leastwork report`` of a space case: the calculation sheet (the whole audit trail)
+    with the drawing of each load case — Markdown with SVG files beside it, or one HTML file
+    with the sheet as text and the drawings inline."""
+    import html
+    import os
+    import pathlib
+    import tempfile
+
+    from rich.console import Console
+
+    from ..cli.common import FILE_WIDTH, chosen_cases, sheet_meta, split
+    from ..io.writing import write_files
+    from ..output.documents import md_text, sheet_markdown
+    from ..output.terminal import print_sheet
+    from ..plaintext import literal
+    from .plot import plot_space
+    from .report import space_sheet
+    from .solve import solve_space
+
+    out = pathlib.Path(args.output)
+    suffix = out.suffix.lower()
+    if suffix not in (".md", ".markdown", ".html", ".htm"):
+        raise CaseError(f'cannot tell the report format of "{literal(str(out))}": name it '
+                        ".html or .md", source="command line", where="--output")
+    names = split(args.redundants)
+    sol = solve_space(_units(args, st), names, where="--redundants" if names else None)
+    cases = chosen_cases(sol, args.load_case) or list(sol.cases)
+    images = {}
+    for c in cases:
+        fd, tmp = tempfile.mkstemp(suffix=".svg")
+        os.close(fd)
+        try:
+            plot_space(sol, tmp, case=c)
+            images[c] = pathlib.Path(tmp).read_text(encoding="utf-8")
+        finally:
+            os.unlink(tmp)
+    sheet = space_sheet(sol, cases, meta=sheet_meta())
+    files: dict = {}
+    if suffix in (".md", ".markdown"):
+        lines = []
+        for k, c in enumerate(cases, 1):
+            name = f"{out.stem}-{k}.svg"
+            files[out.with_name(name)] = images[c]
+            lines += [f"![Drawings of load case {md_text(c)}]({name})", ""]
+        files = {out: sheet_markdown(sheet, extra=[("Drawings", lines)]), **files}
+    else:
+        buf = Console(record=True, file=io.StringIO(), width=FILE_WIDTH, color_system=None)
+        print_sheet(buf, sheet)
+        body = "".join(f"<h2>Load case {html.escape(c)}</h2>\n{images[c]}\n" for c in cases)
+        files[out] = ("<!DOCTYPE html>\n<html><head><meta charset=\"utf-8\"><title>"
+                      f"{html.escape(st.name)}</title></head><body>\n<h1>{html.escape(st.name)}"
+                      "</h1>\n<pre>" + html.escape(buf.export_text()) + "</pre>\n" + body
+                      + "</body></html>\n")
+    write_files(files, force=args.force, case=st.source)
+    for path in files:
+        print(f"leastwork: wrote {literal(str(path))}", file=sys.stderr)
+    if not sol.equilibrium_ok or not sol.cross_check_ok:
+        print("leastwork: WARNING: a check FAILED (equilibrium or cross-check); see the "
+              "report", file=sys.stderr)
+    return 0

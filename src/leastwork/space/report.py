@@ -425,7 +425,9 @@ def space_sheet(sol: SpaceSolution, case_names=None, meta=None, full: bool = Tru
         steps = [Step(i + 1, s.title, s.blocks) for i, s in enumerate(steps)]
     terms = sorted({t for blocks in sol.member_terms.values() for t in blocks}
                    | ({"springs"} if "springs" in sol.delta_parts else set()))
-    return Sheet(title=st.name, source=st.source,
+    import pathlib
+
+    return Sheet(title=st.name, source=pathlib.Path(st.source).name,
                  assumptions=(ASSUMPTIONS, "Energy terms in this structure: "
                               + (", ".join(terms) or "none") + "."),
                  steps=tuple(steps), cautions=(CAUTION,), meta=dict(meta or {}))
