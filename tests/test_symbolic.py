@@ -381,6 +381,21 @@ def test_extra_displacements_and_chosen_redundants():
                                                                rel=REL)
 
 
+def test_a_case_already_read_is_not_read_again(tmp_path):
+    # invariant: `--symbolic` hands over the case the numeric solve read (the structure
+    # and the quantities as written); the closed forms are those of reading the file
+    from leastwork.io.files import read_case_text
+    from leastwork.io.record import read_case_record
+
+    path = next(p for p in CASES if p.stem == "canopy-prop")
+    read = read_case_record(read_case_text(path), str(path))
+    gone = tmp_path / "no-such-file.toml"  # nothing may be read from this name
+    again = solve_symbolic(gone, read=read)
+    assert again.to_dict()["cases"] == solved("canopy-prop").to_dict()["cases"]
+    with pytest.raises(CaseError, match="no such file"):
+        solve_symbolic(gone)
+
+
 def test_derived_parameters_can_be_expanded():
     # a simply supported beam with a point load at mid-span given through a derived
     # parameter: mid-span moment PL/4 (AISC Manual, Beam Diagrams and Formulas, case 7)

@@ -79,3 +79,21 @@ def test_time_limit_is_a_clean_error(case, capsys):
     assert main(["solve", str(case), "--symbolic", "--time-limit", "0.001"]) == 2
     err = capsys.readouterr().err
     assert "beyond reach" in err and "Traceback" not in err
+
+
+def test_symbolic_solve_reads_the_case_file_once(case, capsys, monkeypatch):
+    """Invariant: the closed forms are made from the case the numeric solve read (one
+    reading of the file, not two)."""
+    from leastwork.io import files
+
+    reads = []
+    real = files._read_regular_file
+
+    def counted(p):
+        reads.append(p)
+        return real(p)
+
+    monkeypatch.setattr(files, "_read_regular_file", counted)
+    assert main(["solve", str(case), "--symbolic", "--json"]) == 0
+    assert json.loads(capsys.readouterr().out)["mode"] == "symbolic"
+    assert len(reads) == 1

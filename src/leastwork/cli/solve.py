@@ -92,7 +92,8 @@ def run(args) -> int:
     from ..io.reader import load_case
     from ..solve import solve
 
-    st = load_case(args.case)
+    read = _read_with_record(args.case) if args.symbolic else None  # the case read once
+    st = load_case(args.case) if read is None else read[0]
     if getattr(st, "is_space", False):
         from ..space.cli import run_solve
 
@@ -113,11 +114,22 @@ def run(args) -> int:
     cases = chosen_cases(sol, args.load_case)
     fmt_name = output_format(args)
     if args.symbolic:
-        return _symbolic(args, st, sol, names, cases, fmt_name)
+        return _symbolic(args, st, sol, names, cases, fmt_name, read)
     _show(args, st, sol, cases, fmt_name, console)
     if fmt_name != "text" or args.output:
         _warn_failed_checks(sol)
     return 0
+
+
+def _read_with_record(path: str):
+    """The structure and what the reader saw (the exact reading of ``--symbolic`` needs
+    the quantities as written)."""
+    from pathlib import Path
+
+    from ..io.files import read_case_text
+    from ..io.record import read_case_record
+
+    return read_case_record(read_case_text(path), str(Path(path)))
 
 
 def _with_displacements(st, extra: list[str]):
@@ -176,13 +188,13 @@ def _warn_failed_checks(sol) -> None:
               "see the warnings", file=sys.stderr)
 
 
-def _symbolic(args, st, sol, names, cases, fmt_name: str) -> int:
+def _symbolic(args, st, sol, names, cases, fmt_name: str, read) -> int:
     """``solve --symbolic``: closed forms (terminal, JSON strings, or a sheet section),
     with the redundants of the numeric solve ``sol`` (the same as its sheet's)."""
     from ..symbolic import solve_symbolic
 
     with busy(f"closed forms (at most {args.time_limit:g} s)"):
-        sym = solve_symbolic(args.case, redundants=names,
+        sym = solve_symbolic(args.case, read=read, redundants=names,
                              extra_displacements=split(args.at) or [],
                              time_limit=args.time_limit,
                              numeric_redundants=sol.redundant_names

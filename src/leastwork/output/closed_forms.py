@@ -9,8 +9,47 @@ from __future__ import annotations
 
 from .sheet import fmt
 
-__all__ = ["closed_form_rows", "print_closed_forms", "closed_forms_markdown",
-           "closed_forms_latex"]
+__all__ = ["closed_forms_json", "closed_form_rows", "print_closed_forms",
+           "closed_forms_markdown", "closed_forms_latex"]
+
+
+def closed_forms_json(sym) -> dict:
+    """The contract's JSON result of a symbolic solve (docs/json-result.md), every closed
+    form a string that sympy parses; ``sym`` a
+    :class:`leastwork.symbolic.SymbolicSolution`."""
+    from .json_result import SCHEMA
+
+    def strings(d: dict) -> dict:
+        return {k: str(v) for k, v in d.items()}
+
+    k = len(sym.redundant_names)
+    cases = {name: {
+        "redundants": strings(c.redundants),
+        "flexibility": [[str(c.flexibility[i, j]) for j in range(k)] for i in range(k)],
+        "load_terms": [str(v) for v in c.load_terms],
+        "imposed": [str(v) for v in c.imposed],
+        "reactions": {n: strings(comps) for n, comps in c.reactions.items()},
+        "members": {mid: {part: strings(r[part]) for part in ("start", "end", "m_max", "m_min")}
+                    for mid, r in c.members.items()},
+        "displacements": strings(c.displacements),
+        "checks": {"equilibrium_residual": str(c.equilibrium_residual),
+                   "equilibrium_ok": c.equilibrium_residual == 0,
+                   "equilibrium_tolerance": "0"},
+    } for name, c in sym.cases.items()}
+    return {
+        "schema": SCHEMA,
+        "mode": "symbolic",
+        "name": sym.name,
+        "units": dict(sym.units),
+        "parameters": {n: {"value": sym.values[s], "exact": str(sym.exact_values[s]),
+                           "unit": sym.parameter_units[n]} for n, s in sym.parameters.items()},
+        "indeterminacy": {"degree": sym.degree, "external": sym.external,
+                          "internal": sym.internal, "stable": sym.stable},
+        "redundants": list(sym.redundant_names),
+        "combinations": {name: strings(factors) for name, factors in sym.combinations.items()},
+        "cases": cases,
+        "warnings": list(sym.warnings),
+    }
 
 
 def closed_form_rows(sym, case_names=None) -> list[tuple[str, str, object, float, str]]:

@@ -3,10 +3,11 @@
 The names of ``[parameters]`` stay sympy symbols (each in the case units of its
 dimension); the topology and the redundants are those of the numeric solve; the pipeline
 (:mod:`.pipeline`) runs over the exact field of :mod:`.algebra`; every result is one
-cancelled rational function of the parameters, factored (:mod:`.finish`); the whole solve
-runs under a time limit (:mod:`.limit`). The full semantics — units of the symbols, exact
-constants, what decides orders and extremes, what is refused, combinations, the JSON —
-are in docs/symbolic.md ("Semantics").
+cancelled rational function of the parameters, factored (:mod:`.presentation`); the whole
+solve runs under a time limit (:mod:`.time_limit`); the JSON is written with the outputs
+(:func:`leastwork.output.closed_forms.closed_forms_json`). The full semantics — units of
+the symbols, exact constants, what decides orders and extremes, what is refused,
+combinations, the JSON — are in docs/symbolic.md ("Semantics").
 """
 
 from __future__ import annotations
@@ -16,9 +17,7 @@ import pathlib
 from dataclasses import dataclass, field
 from typing import Any
 
-__all__ = ["solve_symbolic", "SymbolicSolution", "SymbolicCase", "SCHEMA"]
-
-SCHEMA = "leastwork.result/1"
+__all__ = ["solve_symbolic", "SymbolicSolution", "SymbolicCase"]
 
 
 @dataclass
@@ -100,56 +99,19 @@ class SymbolicSolution:
             raise ValueError(f"{expr} has symbols that are not parameters: {v.free_symbols}")
         return float(v)
 
-    # -------------------------------------------------------------- JSON
     def to_dict(self) -> dict:
-        """The contract's JSON result, every number a string that sympy parses."""
+        """The contract's JSON result, every closed form a string that sympy parses
+        (:func:`leastwork.output.closed_forms.closed_forms_json`)."""
+        from ..output.closed_forms import closed_forms_json
 
-        def s(x) -> str:
-            return str(x)
-
-        cases = {}
-        for name, c in self.cases.items():
-            k = len(self.redundant_names)
-            cases[name] = {
-                "redundants": {n: s(v) for n, v in c.redundants.items()},
-                "flexibility": [[s(c.flexibility[i, j]) for j in range(k)] for i in range(k)],
-                "load_terms": [s(v) for v in c.load_terms],
-                "imposed": [s(v) for v in c.imposed],
-                "reactions": {n: {d: s(v) for d, v in comps.items()}
-                              for n, comps in c.reactions.items()},
-                "members": {mid: {
-                    "start": {q: s(v) for q, v in r["start"].items()},
-                    "end": {q: s(v) for q, v in r["end"].items()},
-                    "m_max": {q: s(v) for q, v in r["m_max"].items()},
-                    "m_min": {q: s(v) for q, v in r["m_min"].items()},
-                } for mid, r in c.members.items()},
-                "displacements": {t: s(v) for t, v in c.displacements.items()},
-                "checks": {"equilibrium_residual": s(c.equilibrium_residual),
-                           "equilibrium_ok": c.equilibrium_residual == 0,
-                           "equilibrium_tolerance": "0"},
-            }
-        return {
-            "schema": SCHEMA,
-            "mode": "symbolic",
-            "name": self.name,
-            "units": dict(self.units),
-            "parameters": {n: {"value": self.values[sym], "exact": str(self.exact_values[sym]),
-                               "unit": self.parameter_units[n]}
-                           for n, sym in self.parameters.items()},
-            "indeterminacy": {"degree": self.degree, "external": self.external,
-                              "internal": self.internal, "stable": self.stable},
-            "redundants": list(self.redundant_names),
-            "combinations": {name: {case: s(f) for case, f in factors.items()}
-                             for name, factors in self.combinations.items()},
-            "cases": cases,
-            "warnings": list(self.warnings),
-        }
+        return closed_forms_json(self)
 
 
 def solve_symbolic(
     structure_source: str | pathlib.Path,
     *,
     text: str | None = None,
+    read: tuple | None = None,
     redundants: list[str] | None = None,
     extra_displacements: list[str] | tuple[str, ...] = (),
     time_limit: float = 60.0,
@@ -164,6 +126,9 @@ def solve_symbolic(
         The case file; with ``text``, only the name used in messages.
     text : str, optional
         The case as TOML text instead of reading the file.
+    read : tuple, optional
+        The case already read: ``(Structure, CaseRecord)`` of
+        :func:`leastwork.io.record.read_case_record` (neither file nor text is read).
     redundants : list of str, optional
         Redundants to use (as ``--redundants``); default the case's own, else those the
         numeric solve (:func:`leastwork.solve.solve`) ends with: its automatic choice,
@@ -171,7 +136,7 @@ def solve_symbolic(
     extra_displacements : list of str
         Displacement targets to add (as ``--at``).
     time_limit : float
-        Seconds, positive (``math.inf``, or more than :data:`.limit.NO_TIMER_ABOVE`: no
+        Seconds, positive (``math.inf``, or more than :data:`.time_limit.NO_TIMER_ABOVE`: no
         limit); past it a CaseError is raised.
     expand_derived : bool
         Replace parameters defined by other parameters with their definitions.
@@ -189,7 +154,7 @@ def solve_symbolic(
     ValueError
         ``time_limit`` is not a positive number of seconds.
     """
-    from .limit import run_bounded
+    from .time_limit import run_bounded
 
     limit = float(time_limit)
     if not limit > 0:  # also NaN
@@ -201,24 +166,24 @@ def solve_symbolic(
 
     def work(tick):
         from ..io.files import read_case_text
+        from ..io.record import read_case_record
 
-        body = read_case_text(structure_source) if text is None else text
-        return _solve(body, source, redundants, tuple(extra_displacements), expand_derived,
+        case = read or read_case_record(read_case_text(structure_source) if text is None
+                                        else text, source)
+        return _solve(*case, source, redundants, tuple(extra_displacements), expand_derived,
                       tick, numeric_redundants)
 
     return run_bounded(work, limit, message, source)
 
 
-def _solve(text: str, source: str, redundants, extra: tuple[str, ...], expand_derived: bool,
+def _solve(st, record, source: str, redundants, extra: tuple[str, ...], expand_derived: bool,
            tick, numeric_redundants=None) -> SymbolicSolution:
     from ..displacements import parse_target
-    from ..io.record import read_case_record
     from ..topology import build_topology, choose_redundants
     from .exact import read_exact
-    from .finish import Finisher, unit_text
     from .pipeline import run_pipeline
+    from .presentation import Presenter, unit_text
 
-    st, record = read_case_record(text, source)
     own = st.displacements
     if extra:
         st = dataclasses.replace(st, displacements=tuple(dict.fromkeys([*own, *extra])))
@@ -235,7 +200,7 @@ def _solve(text: str, source: str, redundants, extra: tuple[str, ...], expand_de
     model = read_exact(st, record, expand_derived=expand_derived)
     tick()
     ex = run_pipeline(st, topo, red, model, tick)
-    fin = Finisher(ex.alg, tick)
+    fin = Presenter(ex.alg, tick)
     red_names = [topo.columns[j].name for j in red]
     import sympy
 

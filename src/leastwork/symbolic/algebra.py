@@ -9,8 +9,8 @@ at the end. A result that is an identity of rational functions with independent
 auxiliaries stays true when they take their values.
 
 Every element can also be evaluated at the parameter values (60 significant digits) to
-make the decisions that depend on them: the order of positions along a member, pivots,
-which root of dm/dx is a moment extreme.
+make the decisions that depend on them: the order of positions along a member, which
+root of dm/dx is a moment extreme.
 """
 
 from __future__ import annotations
@@ -31,7 +31,6 @@ __all__ = [
     "Atomizer",
     "Algebra",
     "Piecewise",
-    "SparseLU",
     "cramer",
     "factors",
     "Lin",
@@ -129,17 +128,10 @@ class Algebra:
         expr = self.atomizer(sympy.sympify(expr))
         return self.K.from_expr(expr) if expr != 0 else self.K.zero
 
-    def expr(self, el) -> sympy.Expr:
-        """Back to a sympy expression, auxiliaries still in place."""
-        return el.as_expr() if el else sympy.S.Zero
-
     def num(self, el) -> mpmath.mpf:
         """Value at the parameter values (60 digits)."""
         with mpmath.workdps(_DPS):
             return self._poly(el.numer) / self._poly(el.denom)
-
-    def fnum(self, el) -> float:
-        return float(self.num(el))
 
     def _poly(self, p) -> mpmath.mpf:
         total = mpmath.mpf(0)
@@ -210,77 +202,6 @@ def _at_or_after(alg: Algebra, x, b, order: list) -> bool:
 
 
 # --------------------------------------------------------------------- linear algebra
-class SparseLU:
-    """Gaussian elimination of a square sparse matrix over K, pivots chosen by their
-    values at the parameters (threshold partial pivoting, sparse rows preferred); every
-    pivot is checked to be exactly nonzero.
-
-    ``rows`` : list of dict {column: element}.
-    """
-
-    def __init__(self, alg: Algebra, rows: list[dict[int, object]], tick: Callable[[], None],
-                 row_scale: Sequence[float] | None = None):
-        n = len(rows)
-        self.n = n
-        self.alg = alg
-        work = [dict(r) for r in rows]
-        scale = list(row_scale) if row_scale is not None else [1.0] * n
-        fl = [{c: abs(float(alg.num(v))) * scale[r] for c, v in row.items()}
-              for r, row in enumerate(work)]
-        self.ops: list[tuple[int, int, object]] = []
-        self.order: list[int] = []
-        active = set(range(n))
-        by_col: dict[int, set[int]] = {}
-        for r, row in enumerate(work):
-            for c in row:
-                by_col.setdefault(c, set()).add(r)
-        for k in range(n):
-            tick()
-            cand = [r for r in by_col.get(k, ()) if r in active and work[r].get(k)]
-            if not cand:
-                raise ZeroDivisionError("singular matrix")
-            big = max(fl[r].get(k, 0.0) for r in cand)
-            good = [r for r in cand if fl[r].get(k, 0.0) >= 0.1 * big] or cand
-            p = min(good, key=lambda r: (len(work[r]), -fl[r].get(k, 0.0), r))
-            piv = work[p][k]
-            prow = work[p]
-            for r in cand:
-                if r == p:
-                    continue
-                f = work[r][k] / piv
-                row = work[r]
-                for c, v in prow.items():
-                    nv = row.get(c, alg.zero) - f * v
-                    if nv:
-                        row[c] = nv
-                        by_col.setdefault(c, set()).add(r)
-                    else:
-                        row.pop(c, None)
-                row.pop(k, None)
-                # values of the changed row, for the choice of later pivots
-                fl[r] = {c: abs(float(alg.num(v))) * scale[r] for c, v in row.items()}
-                self.ops.append((r, p, f))
-            active.discard(p)
-            self.order.append(p)
-        self.U = work
-
-    def solve(self, rhs: Sequence) -> list:
-        """x with M x = rhs (rhs: a sequence of n elements)."""
-        b = list(rhs)
-        for r, p, f in self.ops:
-            if b[p]:
-                b[r] = b[r] - f * b[p]
-        x = [self.alg.zero] * self.n
-        for k in range(self.n - 1, -1, -1):
-            r = self.order[k]
-            acc = b[r]
-            for c, v in self.U[r].items():
-                if c > k and x[c]:
-                    acc = acc - v * x[c]
-            x[k] = acc / self.U[r][k]
-        return x
-
-
 def cramer(alg: Algebra, M: list[list], rhs: list):
     """Solve M x = rhs for a small dense matrix over K fraction-free, with no polynomial
     gcd at all (sympy's ``DomainMatrix.solve_den`` over K's polynomial ring).
@@ -405,35 +326,25 @@ class Closure:
         if not any(c[1:]):
             return c[0]
         if c not in self._closed:
-            self._closed[c] = self.close_terms([(x, (i,) if i else ())
-                                                for i, x in enumerate(c) if x])
+            self._closed[c] = self._close(c)
         return self._closed[c]
 
-    def close_terms(self, terms: list[tuple[Any, tuple[int, ...]]]):
-        """sum coef * prod X_i over ``terms`` ((coef in K, indices i >= 1 of the
-        redundants)), as one cancelled element of K."""
+    def _close(self, c: tuple):
+        """c[0] + sum c[i] X_i as one fraction N / (Q det) over the common denominator Q of
+        the coefficients, cancelled by trial division by the factors of Q and det."""
         K = self.alg.K
-        ring = K.ring
-        terms = [(x, idx) for x, idx in terms if x]
-        if not terms:
-            return K.zero
-        deg = max(len(idx) for _, idx in terms)
-        Q = ring.one
-        for x, _ in terms:
-            if x.denom != Q:
+        Q = K.ring.one
+        for x in c:
+            if x and x.denom != Q:
                 Q = Q.lcm(x.denom)
-        N = ring.zero
-        for x, idx in terms:
-            poly = x.numer * Q.exquo(x.denom)
-            for i in idx:
-                poly = poly * self.nums[i - 1]
-            for _ in range(deg - len(idx)):
-                poly = poly * self.det
-            N += poly
+        N = K.ring.zero
+        for i, x in enumerate(c):
+            if x:
+                N += x.numer * Q.exquo(x.denom) * (self.nums[i - 1] if i else self.det)
         if not N:
             return K.zero
-        den = Q * self.det**deg
-        for f in [*self.det_factors * deg, *self._factors(Q)]:
+        den = Q * self.det
+        for f in [*self.det_factors, *self._factors(Q)]:
             if not _may_divide(f, N):
                 continue
             try:
@@ -443,21 +354,12 @@ class Closure:
             N, den = N2, den.exquo(f)
         return _canonical(K, N, den)
 
-    def close_quadratic(self, a: Lin, b: Lin, k):
-        """a + k * b**2 as one cancelled element of K (a, b linear, k in K)."""
-        terms = [(x, (i,) if i else ()) for i, x in enumerate(a.c) if x]
-        bc = [(i, x) for i, x in enumerate(b.c) if x]
-        for i, x in bc:
-            for j, y in bc:
-                terms.append((k * x * y, tuple(t for t in (i, j) if t)))
-        return self.close_terms(terms)
-
     def _factors(self, Q) -> list:
         if Q.is_ground:
             return []
         key = tuple(sorted(Q.terms()))
         if key not in self._q_factors:
-            self._q_factors[key] = [f for f, m in Q.factor_list()[1] for _ in range(m)]
+            self._q_factors[key] = factors(Q)
         return self._q_factors[key]
 
 

@@ -4,8 +4,8 @@ field K of :mod:`.algebra` needs that floats do not.
 * :class:`ExactNumbers` — geometry, sections and loads as elements of K; span-load fields
   on pieces ordered by the values of their ends; exact integrals;
 * :class:`ExactReleased` — the released basis over K (:class:`leastwork.statics.
-  ReleasedStructure` with exact sparse elimination instead of a float LU; displacements
-  by a unit load at each nodal direction asked for);
+  ReleasedStructure` with A0 inverted exactly by sympy's ``DomainMatrix`` instead of a
+  float LU; displacements by a unit load at each nodal direction asked for);
 * :class:`ExactSolver` — the compatibility equations by fraction-free elimination
   (X_i = N_i / det), the unknowns returned as :class:`.algebra.Lin` values so that
   superposition never divides by the determinant (:class:`.algebra.Closure` does, once
@@ -22,6 +22,8 @@ from typing import Any
 
 import numpy as np
 import sympy
+from sympy.polys.matrices import DomainMatrix
+from sympy.polys.matrices.exceptions import DMError
 
 from ..errors import CaseError
 from ..fields import ParticularFields, span_fields
@@ -32,7 +34,6 @@ from .algebra import (
     Closure,
     Lin,
     Piecewise,
-    SparseLU,
     SparseMatrix,
     cramer,
     factors,
@@ -107,7 +108,7 @@ class ExactNumbers:
         return v
 
     def load_values(self, index: int, ld) -> dict:
-        return _exact_values(self.alg, self.loads[index])
+        return self.loads[index]
 
     def end_of(self, at, L) -> str | None:
         return "start" if at == self.zero else "end" if at == L else None
@@ -175,9 +176,8 @@ class ExactNumbers:
 
 
 class ExactReleased(ReleasedStructure):
-    """The released structure over K: the rows of A0 eliminated exactly, pivots chosen by
-    their values at the parameters (:class:`.algebra.SparseLU`); raises
-    ZeroDivisionError when A0 is singular."""
+    """The released structure over K: A0 inverted exactly (sympy's ``DomainMatrix``);
+    raises ZeroDivisionError when A0 is singular."""
 
     def __init__(self, topo, redundants: list[int], columns: list, nums: ExactNumbers,
                  tick: Callable[[], None]):
@@ -189,14 +189,16 @@ class ExactReleased(ReleasedStructure):
         for j, col in enumerate(columns):
             for i, v in col:
                 self._A[i, j] = self._A[i, j] + v
-        rows: list[dict[int, Any]] = [dict() for _ in range(ndof)]
+        rows: dict[int, dict[int, Any]] = {}
         for k, j in enumerate(self.keep):
             for i, _ in columns[j]:
-                rows[i][k] = self._A[i, j]
-        lengths = [nums.alg.fnum(g.L) for g in nums.mem.values()]
-        lref = sum(lengths) / len(lengths)
-        scale = [1.0 / lref if d.endswith(".rz") else 1.0 for d in topo.dofs]
-        self._lu = SparseLU(nums.alg, rows, tick, scale)
+                if self._A[i, j]:
+                    rows.setdefault(i, {})[k] = self._A[i, j]
+        try:  # A0 is sparse and small beside the rest of the exact solve: inverted once
+            inverse = DomainMatrix(rows, (ndof, len(self.keep)), nums.alg.K.to_domain()).inv()
+        except DMError:
+            raise ZeroDivisionError("singular matrix") from None
+        self._inverse = inverse.to_sdm()
         self._unit: dict[int, np.ndarray] = {}
 
     @property
@@ -210,9 +212,9 @@ class ExactReleased(ReleasedStructure):
         s = objects((self.ncol, rhs.shape[1]), self.nums.zero)
         for k in range(rhs.shape[1]):
             self.tick()
-            x = self._lu.solve([-r if r else r for r in rhs[:, k]])
-            for i, j in enumerate(self.keep):
-                s[j, k] = x[i]
+            for i, row in self._inverse.items():
+                s[self.keep[i], k] = -sum((v * rhs[j, k] for j, v in row.items()
+                                           if rhs[j, k]), self.nums.zero)
         return s
 
     def unit_state(self, dof: int) -> np.ndarray:
@@ -292,13 +294,3 @@ class ExactSolver:
             X[i] = Lin([alg.zero] + [alg.one if i == j else alg.zero for j in range(k)])
         return X
 
-
-def _exact_values(alg: Algebra, v):
-    """A load's exact values (sympy) as elements of K; names and None kept."""
-    if v is None or isinstance(v, str):
-        return v
-    if isinstance(v, dict):
-        return {k: _exact_values(alg, x) for k, x in v.items()}
-    if isinstance(v, (list, tuple)):
-        return type(v)(_exact_values(alg, x) for x in v)
-    return alg.el(v)

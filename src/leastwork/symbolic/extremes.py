@@ -4,7 +4,7 @@ The candidates for an extreme (piece ends, roots of dm/dx inside a piece) are co
 their values at the parameters (60 digits); only the two chosen are worked out exactly. A
 root of a quadratic dm/dx lies outside the field K: it is kept as a :class:`RootValue`
 (and a large moment at a root of a linear dm/dx as a :class:`QuadraticValue`) for
-:mod:`.finish` to write out.
+:mod:`.presentation` to write out.
 """
 
 from __future__ import annotations

@@ -135,10 +135,7 @@ class _Pipeline:
         for v in model.springs.values():
             atom(v)
         for ld in model.loads:
-            for v in ld.values():
-                for x in _flatten(v):
-                    if isinstance(x, sympy.Basic):
-                        atom(x)
+            _map(ld, lambda x: atom(x) if isinstance(x, sympy.Basic) else x)
         # ---- stage 2: the field
         alg = Algebra(list(model.parameters.values()), model.values, atom)
         self.alg = alg
@@ -156,7 +153,7 @@ class _Pipeline:
         self.nums = ExactNumbers(alg, mem, {n: (alg.el(s), alg.el(c))
                                             for n, (s, c) in trig.items()},
                                  {k: alg.el(v) for k, v in model.springs.items()}, pairs,
-                                 model.loads, tick, st.source)
+                                 [_map(ld, alg.el) for ld in model.loads], tick, st.source)
 
     # ------------------------------------------------------------------ geometry
     def _length_expr(self, dx: sympy.Expr, dy: sympy.Expr) -> sympy.Expr:
@@ -253,9 +250,12 @@ class _Pipeline:
         return [closure.close(v) for v in out]
 
 
-def _flatten(v):
+def _map(v, fn):
+    """``fn`` of every number of a load's values (names and None kept)."""
+    if v is None or isinstance(v, str):
+        return v
+    if isinstance(v, dict):
+        return {k: _map(x, fn) for k, x in v.items()}
     if isinstance(v, (list, tuple)):
-        for x in v:
-            yield from _flatten(x)
-    else:
-        yield v
+        return type(v)(_map(x, fn) for x in v)
+    return fn(v)

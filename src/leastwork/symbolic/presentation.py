@@ -12,13 +12,13 @@ from ..model.units import UnitSystem
 from .algebra import Algebra, Lin
 from .extremes import QuadraticValue, RootValue
 
-__all__ = ["Finisher", "unit_text"]
+__all__ = ["Presenter", "unit_text"]
 
 #: numerators with up to this many terms are factored completely
 _FACTOR_TERMS = 30
 
 
-class Finisher:
+class Presenter:
     """Turn pipeline values into final expressions: factor the rational function
     (numerator and denominator over the rationals) and put back what the auxiliaries stand
     for (square roots with their square factors taken out, sines, pi). Results are
