@@ -193,7 +193,7 @@ def _symbolic(args, st, sol, cases, fmt_name: str) -> int:
 
     from ..cli.common import emit
     from ..io.files import read_case_text
-    from ..symbolic.limit import run_bounded
+    from ..symbolic.time_limit import run_bounded
     from .symbolic import closed_form_dict, closed_form_lines, space_closed_forms
 
     if fmt_name in ("md", "latex"):
