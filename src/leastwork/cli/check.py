@@ -41,6 +41,10 @@ def run(args) -> int:
     from ..topology import build_topology, check_stable, choose_redundants
 
     st = load_case(args.case)
+    if getattr(st, "is_space", False):
+        from ..space.cli import run_check
+
+        return run_check(args, st)
     units = display_units(args.units, st.units)
     if units is not None:  # check reads nothing more: its messages speak these units
         st = dataclasses.replace(st, units=units)

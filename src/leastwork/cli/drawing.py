@@ -55,6 +55,10 @@ def run(args) -> int:
     from ..solve import solve
 
     st = load_case(args.case)
+    if getattr(st, "is_space", False):
+        from ..space.cli import run_plot
+
+        return run_plot(args, st)
     units = display_units(args.units, st.units)
     if units is not None:  # the drawings and the report speak the units of the structure
         import dataclasses

@@ -98,6 +98,10 @@ def run(args) -> int:
 
     read = _read_with_record(args.case) if args.symbolic else None  # the case read once
     st = load_case(args.case) if read is None else read[0]
+    if getattr(st, "is_space", False):
+        from ..space.cli import run_solve
+
+        return run_solve(args, st)
     st = _with_displacements(st, split(args.at) or [])
     names = split(args.redundants)
     if args.redundants is not None and not names:

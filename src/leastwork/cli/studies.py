@@ -93,7 +93,12 @@ def run_fitup(args) -> int:
     MechanismError for :func:`leastwork.cli.main` to report)."""
     from ..io.reader import load_case
 
-    return _fitup(args, load_case(args.case), console_for(args))
+    st = load_case(args.case)
+    if getattr(st, "is_space", False):
+        from ..space.cli import refuse
+
+        raise refuse("leastwork fitup")
+    return _fitup(args, st, console_for(args))
 
 
 def run_influence(args) -> int:
@@ -101,7 +106,12 @@ def run_influence(args) -> int:
     :func:`run_fitup`)."""
     from ..io.reader import load_case
 
-    return _influence(args, load_case(args.case), console_for(args))
+    st = load_case(args.case)
+    if getattr(st, "is_space", False):
+        from ..space.cli import run_influence
+
+        return run_influence(args, st)
+    return _influence(args, st, console_for(args))
 
 
 # ---------------------------------------------------------------------------- fitup

@@ -85,7 +85,12 @@ def structure(source: str = "<python>", **tables) -> Structure:
 
 
 def read_structure(reader: CaseReader) -> Structure:
-    """The structure of the parsed case ``reader.data``, every table checked."""
+    """The structure of the parsed case ``reader.data``, every table checked (a case whose
+    nodes have three coordinates is a space structure: :mod:`leastwork.space`)."""
+    from ..space.reader import is_space_case, read_space
+
+    if is_space_case(reader.data):
+        return read_space(reader)  # type: ignore[return-value]
     name = _head(reader)
     # the checks that read no quantity first: a large case with a wrong id or a stray
     # node is refused before its values are read
