@@ -210,3 +210,6 @@ def multi_span_truss_panels(bars: int) -> int:
 
 
 __all__ += ["multi_span_truss", "multi_span_truss_degree", "multi_span_truss_panels"]
+
+#: The multi-support girder as a family of its own (a support every 50 panels).
+FAMILIES["multi-support truss"] = (multi_span_truss, "panels")

@@ -3,7 +3,7 @@ local self-stress basis (sparse throughout) against the project's own direct sti
 solver (sparse), on the same structures, with their agreement.
 
 For each family of :mod:`generators` (cross-braced truss, cross-braced grid, multi-bay
-multi-storey frame, continuous beam) the size starts near 100 members and roughly doubles
+multi-storey frame, continuous beam, cross-braced truss on a support every 50 panels) the size starts near 100 members and roughly doubles
 the member count (up to just over 10^5, or ``--max-members``) until the next size would
 overrun the family's share of the time budget, judged from the growth seen so far.
 
@@ -62,9 +62,17 @@ import numpy as np  # noqa: E402
 
 sys.path.insert(0, str(Path(__file__).resolve().parent))
 
+# the modules both methods use, imported before any timing (the package imports them on
+# first use only)
+import scipy.linalg  # noqa: E402,F401
+import scipy.sparse.csgraph  # noqa: E402,F401
+import scipy.sparse.linalg  # noqa: E402,F401
 from generators import FAMILIES, structure  # noqa: E402
 
 import leastwork  # noqa: E402
+import leastwork.selfstress  # noqa: E402,F401
+import leastwork.sparse_solve  # noqa: E402,F401
+import leastwork.verify.stiffness  # noqa: E402,F401
 from leastwork.solve import column_count  # noqa: E402
 from leastwork.verify import solve_stiffness  # noqa: E402
 
@@ -80,7 +88,8 @@ DENSE_MAX_COLUMNS = 3000
 #: Size parameter of the smallest structure of each family (about 100 members) and the
 #: factor that roughly doubles its member count.
 _START = {"braced truss": (20, 2.0), "braced grid": (5, math.sqrt(2.0)),
-          "storey frame": (10, math.sqrt(2.0)), "continuous beam": (100, 2.0)}
+          "storey frame": (10, math.sqrt(2.0)), "continuous beam": (100, 2.0),
+          "multi-support truss": (20, 2.0)}
 
 #: Summary of one load case: (reactions, member end forces), SI, as both methods give them.
 Summary = dict[str, tuple[dict[str, dict[str, float]], dict[str, tuple[tuple, tuple]]]]
@@ -88,7 +97,7 @@ Summary = dict[str, tuple[dict[str, dict[str, float]], dict[str, tuple[tuple, tu
 
 def members_of(family: str, size: int) -> int:
     """Member count of ``family`` at ``size`` without reading the structure."""
-    if family == "braced truss":
+    if family in ("braced truss", "multi-support truss"):
         return 5 * size + 1
     if family == "braced grid":
         return 4 * size * size + size

@@ -17,7 +17,8 @@ import scale  # noqa: E402
 import leastwork
 
 #: Tiny size of each family (a few to a few dozen members).
-TINY = {"braced truss": 4, "braced grid": 3, "storey frame": 3, "continuous beam": 6}
+TINY = {"braced truss": 4, "braced grid": 3, "storey frame": 3, "continuous beam": 6,
+        "multi-support truss": 5}
 
 
 @pytest.mark.parametrize("nx, ny", [(1, 1), (2, 1), (1, 3), (3, 2), (4, 4)])

@@ -41,6 +41,7 @@ from leastwork.output.plot import (
     parse_diagrams,
     plot_case,
 )
+from leastwork.output.plot.numbers import magnitude, number
 from leastwork.output.sheet import fmt
 from leastwork.verify.cross_check import StiffnessCheck
 
@@ -54,12 +55,13 @@ def solved(name: str):
 
 
 def _redundant_labels(sol) -> list[str]:
-    """The redundants as the structure panel writes them (3 significant figures)."""
+    """The redundants as the structure panel writes them (3 significant figures, a true
+    minus sign)."""
     data = sol.to_dict()
     unit = {n: (f"{data['units']['force']}·{sol.structure.units.length}"
                 if n.endswith(".rz") or n.endswith(".m") else data["units"]["force"])
             for n in data["redundants"]}
-    return [f"X{i + 1} = {n} = {fmt(cj['redundants'][n], 3)} {unit[n]}"
+    return [f"X{i + 1} = {n} = {number(cj['redundants'][n])} {unit[n]}"
             for cj in data["cases"].values() for i, n in enumerate(data["redundants"])]
 
 
@@ -157,10 +159,13 @@ def test_propped_cantilever_diagrams_match_the_closed_forms():
     k = int(np.argmax(m["value"]))
     assert m["points"][0, 1] > 0 and m["points"][k, 1] < 0
     assert v["points"][0, 1] > 0 > v["points"][-1, 1]  # v: + on local +y (up)
-    # the labels carry the closed-form values (3 significant figures)
-    texts = _svg_texts(ET.fromstring(figure_svg(sol)))
-    for value in (-W * L**2 / 8, 9 * W * L**2 / 128, 5 * W * L / 8, -3 * W * L / 8):
-        assert fmt(value, 3) in texts.split(), value
+    # the labels carry the closed-form values (3 significant figures): moments without
+    # sign (the tension side shows the sense), shear forces with it
+    texts = _svg_texts(ET.fromstring(figure_svg(sol))).split()
+    for value in (-W * L**2 / 8, 9 * W * L**2 / 128):
+        assert magnitude(value) in texts, value
+    for value in (5 * W * L / 8, -3 * W * L / 8):
+        assert number(value) in texts, value
 
 
 def test_deflected_shape_magnification_and_largest_deflection():
@@ -174,7 +179,7 @@ def test_deflected_shape_magnification_and_largest_deflection():
     # the largest displacement is drawn at 5 % to 10 % of the structure's size
     assert DEFLECTION_SHARE / 2 * L < factor * umax <= DEFLECTION_SHARE * L
     texts = _svg_texts(ET.fromstring(figure_svg(sol, "default", "deflected")))
-    assert f"displacements drawn × {fmt(factor)}" in texts
+    assert f"displacements drawn × {number(factor, 1)}" in texts
 
 
 # ---------------------------------------------------------------------------- reports
@@ -237,7 +242,7 @@ def test_markdown_report_links_the_diagram_files(tmp_path):
     for cj in sol.to_dict()["cases"].values():
         for value in cj["redundants"].values():
             assert fmt(value) in text
-    assert "Date: 2031-04-05" in text and "## Step 8." in text
+    assert "| Date | 2031-04-05 |" in text and "## Step 8." in text  # the title block
     assert not list(tmp_path.iterdir())  # nothing written
 
 

@@ -42,9 +42,9 @@ def _imported(modules: list[str], package: str) -> bool:
     return any(m == package or m.startswith(package + ".") for m in modules)
 
 
-#: The declared dependencies a plain solve needs: arrays, the dense and sparse solvers, the
-#: unit reader and the terminal output. Every other one (the exact-arithmetic and drawing
-#: libraries, the graph library) must stay unloaded.
+#: The declared dependencies a plain solve may load: arrays, scipy's bare package (pint
+#: looks for it), the unit reader and the terminal output. Every other one (the
+#: exact-arithmetic and drawing libraries, the graph library) must stay unloaded.
 _NEEDED = {"numpy", "scipy", "pint", "rich"}
 
 
@@ -69,6 +69,22 @@ def test_a_plain_solve_loads_only_the_dependencies_it_needs():
     assert not loaded, f"a plain solve imported {loaded}"
     assert _imported(probe["modules"], "leastwork.verify")
     assert not _imported(probe["modules"], "leastwork.symbolic")
+
+
+def test_a_small_json_solve_loads_no_scipy_solver_dask_nor_terminal_output():
+    """A small solve and its cross-check run on numpy's dense solvers: scipy's linear
+    algebra (0.1-0.2 s to import), Dask (pint's optional hook) and the terminal output
+    (JSON needs none of it) stay unloaded; the package's own names load on first use."""
+    probe = _solve_in_fresh_interpreter()
+    assert probe["status"] == 0
+    assert probe["result"]["cases"]["default"]["checks"]["stiffness_ok"] is True
+    modules = probe["modules"]
+    unused = ("scipy.linalg", "scipy.sparse", "dask", "rich", "leastwork.output.terminal",
+              "leastwork.studies.reanalysis", "leastwork.studies.sweep",
+              "leastwork.sparse_solve", "leastwork.selfstress")
+    loaded = [p for p in unused if _imported(modules, p)]
+    assert not loaded, f"a small solve --json imported {loaded}"
+    assert _imported(modules, "pint")  # the test has teeth: the unit reader did load
 
 
 def test_no_verify_does_not_load_the_stiffness_solver():
@@ -166,3 +182,68 @@ def test_the_registry_is_built_without_its_cache_when_the_cache_fails(monkeypatc
         assert (reg.Quantity(1.0, unit).to_base_units().magnitude
                 == pytest.approx(fresh.Quantity(1.0, unit).to_base_units().magnitude,
                                  rel=1e-15)), unit
+
+
+# ---------------------------------------------------------------- dense solvers of small structures
+
+
+def _end_forces_and_reactions(result) -> list[float]:
+    """Every reaction component and member end force of a stiffness result, in order."""
+    values = [v for node in sorted(result.reactions) for _, v in sorted(result.reactions[node].items())]
+    return values + [v for m in sorted(result.end_forces) for end in result.end_forces[m] for v in end]
+
+
+@pytest.mark.parametrize("case", CASES, ids=lambda p: p.stem)
+def test_the_dense_stiffness_solve_agrees_with_the_sparse_one(case, monkeypatch):
+    """Invariant: the dense solves of a small structure (numpy, no scipy) and the sparse
+    ones give the same reactions and end forces to round-off, and the same condition number
+    within the sparse estimate's factor (Hager's estimate is a lower bound of the exact
+    one-norm condition, seldom below a third of it)."""
+    from leastwork.verify import stiffness
+
+    structure = leastwork.load_case(case)
+    for name in structure.case_names:
+        dense = stiffness.solve_stiffness(structure, name)
+        monkeypatch.setattr(stiffness, "DENSE_MAX_DOFS", -1)
+        sparse = stiffness.solve_stiffness(structure, name)
+        monkeypatch.undo()
+        a, b = _end_forces_and_reactions(dense), _end_forces_and_reactions(sparse)
+        scale = max(map(abs, a + b), default=1.0) or 1.0
+        assert max(abs(x - y) for x, y in zip(a, b, strict=True)) <= 1e-10 * scale
+        assert sparse.condition <= dense.condition * (1 + 1e-9) <= 10 * sparse.condition
+
+
+@pytest.mark.parametrize("case", CASES, ids=lambda p: p.stem)
+def test_numpy_and_scipy_solve_the_released_structure_alike(case, monkeypatch):
+    """Invariant: the released structure solved by numpy's LU afresh (small structures) and
+    by scipy's stored factors give the same redundants to round-off."""
+    from leastwork import statics
+
+    structure = leastwork.load_case(case)
+    small = leastwork.solve(structure, basis="released", verify=False).to_dict()
+    monkeypatch.setattr(statics, "NUMPY_LU_MAX", -1)
+    large = leastwork.solve(structure, basis="released", verify=False).to_dict()
+    for name, case_result in small["cases"].items():
+        ours, theirs = case_result["redundants"], large["cases"][name]["redundants"]
+        assert ours.keys() == theirs.keys()
+        scale = max([abs(v) for v in theirs.values()] + [1e-300])
+        for key, value in ours.items():
+            assert value == pytest.approx(theirs[key], abs=1e-10 * scale)
+
+
+@settings(max_examples=60, deadline=None)
+@given(st.lists(st.sampled_from([-2.5, -0.0, 0.0, 1.0, 1.5, 3.0, 7.25]), min_size=1, max_size=30),
+       st.lists(st.sampled_from([0.0, 0.5, 1.5, 9.0]), max_size=10))
+def test_the_sorting_helpers_give_numpys_median_unique_and_union(values, more):
+    """Invariant: the helpers that keep numpy.ma unloaded return numpy's own results."""
+    import numpy as np
+
+    from leastwork.arrays import first_and_inverse, median, union
+
+    x = np.array(values)
+    assert median(x) == float(np.median(x))
+    _, first, inverse = np.unique(x, return_index=True, return_inverse=True)
+    ours_first, ours_inverse = first_and_inverse(x)
+    assert ours_first.tolist() == first.tolist()
+    assert ours_inverse.tolist() == inverse.ravel().tolist()
+    assert union(x, np.array(more)).tolist() == np.union1d(x, np.array(more)).tolist()

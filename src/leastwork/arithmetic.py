@@ -16,6 +16,7 @@ from typing import Any, Protocol
 
 import numpy as np
 
+from .arrays import union
 from .elements import kind_of
 from .elements.base import integrate
 from .fields import ParticularFields, gauss_integral
@@ -88,6 +89,32 @@ class Numbers(Protocol):
 
     def member_position(self, target) -> Any:
         """The position along its member of a ``MEMBER@DISTANCE`` displacement target."""
+
+
+def _varying_work(brk, unit: ParticularFields, real, section: dict, free: dict) -> float:
+    """The in-span virtual work of :meth:`FloatNumbers.span_work` when a stiffness or a free
+    strain varies along the member (a tapered beam): adaptive Gauss–Kronrod on each piece
+    (:func:`leastwork.elements.integrate`, error bound ``QUAD_RTOL``)."""
+
+    def at(v, x):
+        return v(x) if callable(v) else v
+
+    total = 0.0
+    for f in ("n", "m", "v"):
+        K, extra = section.get(f), free.get(f, []) if f != "v" else []
+        if K is None and not any(callable(e) or e for e in extra):
+            continue
+        u, r = getattr(unit, f), getattr(real, f)
+
+        def integrand(x, u=u, r=r, K=K, extra=extra):
+            acc = float(r(x)) / at(K, x) if K is not None else 0.0
+            for e in extra:
+                acc += at(e, x)
+            return float(u(x)) * acc
+
+        total += sum(integrate(integrand, float(a), float(b))
+                     for a, b in zip(brk[:-1], brk[1:], strict=True) if b > a)
+    return total
 
 
 class FloatNumbers:
@@ -170,7 +197,10 @@ class FloatNumbers:
                   free: dict) -> float:
         """Gauss–Legendre on the union of both fields' breaks (exact for their
         polynomials), added to ``value`` field by field."""
-        brk = np.union1d(unit.m.breaks, real.m.breaks)
+        brk = union(unit.m.breaks, real.m.breaks)
+        if any(callable(v) for v in section.values()) or any(
+                callable(e) for e in free.get("m", []) + free.get("n", [])):
+            return value + _varying_work(brk, unit, real, section, free)
         for f in ("n", "m", "v"):
             K, extra = section.get(f), free.get(f, [])
             if K is None and not any(extra):

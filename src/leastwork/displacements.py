@@ -151,7 +151,9 @@ def _section(st: Structure, res, mid: str, nums: Numbers | None = None) -> tuple
     else:
         sec, L, zero = nums.section(mid), nums.length(mid), nums.zero
     imposed = res.loading.imposed.get(mid, (zero, zero, zero))
-    return kind.section(mem, sec, st.shear), kind.free_strains(mem, sec, L, imposed)
+    along = getattr(kind, "section_at_length", None)  # a section that varies along x
+    section = along(mem, L, st.shear) if along else kind.section(mem, sec, st.shear)
+    return section, kind.free_strains(mem, sec, L, imposed)
 
 
 def curved_shape(st: Structure, topo, res, mid: str, samples: int = 41):
@@ -230,6 +232,8 @@ def member_shape(st: Structure, topo, res, mid: str, samples: int = 41,
     w_pieces = []  # (a, b, poly of w_rel)
     w_rel = np.zeros_like(xs)  # K(x) - Gamma(x): deflection from curvature/shear with w(0)=w'(0)=0
     ua_rel = np.zeros_like(xs)
+    if _varies(sec, free):
+        return _varying_shape(mr, sec, free, xs, us, ue, ex, ey, return_extreme)
     if sec.get("m") is not None:
         slope0 = 0.0
         w0 = 0.0
@@ -268,6 +272,141 @@ def member_shape(st: Structure, topo, res, mid: str, samples: int = 41,
     return xs, ux, uy, w
 
 
+def _varies(sec: dict, free: dict) -> bool:
+    """Whether a section stiffness or a free strain varies along the member (a tapered
+    beam): its deflection is then integrated numerically."""
+    return any(callable(v) for v in sec.values()) or any(
+        callable(e) for e in free.get("m", []) + free.get("n", []))
+
+
+def _at(value, x: float) -> float:
+    return float(value(x)) if callable(value) else float(value)
+
+
+#: sub-intervals per piece of a member whose section varies: between two grid points the
+#: deflection is the quintic through the exact values, slopes and curvatures there
+#: (Hermite; the cubic through values and slopes when shear strains count), an error of
+#: order h^6 (h^4) of the sub-interval h
+VARYING_SUBDIVISIONS = 32
+
+
+def varying_pieces(mr, sec: dict, free: dict):
+    """(pieces (a, b, w_rel cubic in x), w_rel(L)) of a member whose EI (or free curvature)
+    varies: the slope and w_rel = int (slope - v/GAs) from the curvature m/EI + kappa_free by
+    adaptive integration between grid points (w_rel(0) = slope(0) = 0), joined by cubic
+    Hermite pieces through the exact values and slopes."""
+    from .elements import integrate
+
+    EI, GAs = sec["m"], sec.get("v")
+    kap_free = free.get("m", [])
+
+    def kappa(x: float) -> float:
+        acc = float(mr.m(x)) / _at(EI, x)
+        for e in kap_free:
+            acc += _at(e, x)
+        return acc
+
+    def gamma(x: float) -> float:
+        return float(mr.v(x)) / _at(GAs, x) if GAs is not None else 0.0
+
+    pieces = []
+    slope = w = 0.0
+    for a, b, _ in mr.m.pieces():
+        grid = np.linspace(float(a), float(b), VARYING_SUBDIVISIONS + 1)
+        for x0, x1 in zip(grid[:-1], grid[1:], strict=True):
+            d_slope = integrate(kappa, x0, x1)
+            # w(x1) - w(x0) = slope0 h + int_x0^x1 (x1 - t) kappa dt - int gamma
+            d_w = slope * (x1 - x0) + integrate(lambda t, x1=x1: (x1 - t) * kappa(t), x0, x1)
+            if GAs is not None:
+                d_w -= integrate(gamma, x0, x1)
+            d0 = slope - _gamma_at(gamma, x0, 1)
+            s1 = slope + d_slope
+            d1 = s1 - _gamma_at(gamma, x1, -1)
+            if GAs is None:  # w'' = kappa at both ends: the quintic through all six
+                c0, c1 = _inside(kappa, x0, 1), _inside(kappa, x1, -1)
+                poly = _hermite(x0, x1, (w, d0, c0), (w + d_w, d1, c1))
+            else:
+                poly = _hermite(x0, x1, (w, d0), (w + d_w, d1))
+            pieces.append((float(x0), float(x1), poly))
+            slope, w = s1, w + d_w
+    return pieces, w
+
+
+def _gamma_at(gamma, x: float, side: int) -> float:
+    """The shear strain just inside a sub-interval (v jumps at a point load)."""
+    return _inside(gamma, x, side)
+
+
+def _inside(f, x: float, side: int) -> float:
+    """``f`` just inside a sub-interval from its end ``x`` (fields jump at point loads)."""
+    return f(x + side * 1e-12 * max(abs(x), 1.0))
+
+
+def _hermite(x0: float, x1: float, left: tuple, right: tuple) -> list:
+    """Ascending coefficients in x of the polynomial with the given (value, slope[,
+    second derivative]) at x0 and x1: the cubic or the quintic Hermite interpolant."""
+    h, k = x1 - x0, len(left)
+    n = 2 * k
+    rows, rhs = [], []
+    for t, vals in ((0.0, left), (h, right)):
+        for order, v in enumerate(vals):
+            row = [0.0] * n
+            for p in range(order, n):
+                coef = 1.0
+                for q in range(order):
+                    coef *= p - q
+                row[p] = coef * t ** (p - order)
+            rows.append(row)
+            rhs.append(v)
+    local = np.linalg.solve(np.array(rows), np.array(rhs))  # in t = x - x0
+    return _shift(local, x0).tolist()
+
+
+def _shift(coef: np.ndarray, x0: float) -> np.ndarray:
+    """Coefficients in x of p(x - x0), p given in ascending powers."""
+    out = np.zeros(len(coef))
+    for k, c in enumerate(coef):
+        out[: k + 1] += c * P.polypow([-x0, 1.0], k)[: k + 1]
+    return out
+
+
+def _varying_shape(mr, sec: dict, free: dict, xs, us, ue, ex, ey, return_extreme: bool):
+    """:func:`member_shape` of a member whose section varies (see :func:`varying_pieces`);
+    the axial displacement from n/EA + the free strain, integrated adaptively."""
+    from .elements import integrate
+
+    L = mr.length
+    pieces, w_end = varying_pieces(mr, sec, free)
+    w_rel = np.array([_piece_value(pieces, x) for x in xs])
+    EA = sec.get("n")
+    free_n = free.get("n", [0.0])
+    free_n = free_n[0] + free_n[1] if len(free_n) == 2 else sum(free_n, 0.0)
+
+    def strain(x: float) -> float:
+        return (float(mr.n(x)) / _at(EA, x) if EA is not None else 0.0) + _at(free_n, x)
+
+    ua_rel = np.zeros_like(xs)
+    for k in range(1, len(xs)):
+        ua_rel[k] = ua_rel[k - 1] + (integrate(strain, xs[k - 1], xs[k])
+                                     if xs[k] > xs[k - 1] else 0.0)
+    ws, we = us @ ey, ue @ ey
+    theta = (we - ws - w_end) / L
+    w = ws + theta * xs + w_rel
+    ua = us @ ex + ua_rel
+    ux = ua * ex[0] + w * ey[0]
+    uy = ua * ex[1] + w * ey[1]
+    if return_extreme:
+        return xs, ux, uy, w, _extreme(pieces, ws, theta, xs, w)
+    return xs, ux, uy, w
+
+
+def _piece_value(pieces, x: float) -> float:
+    for a, b, poly in pieces:
+        if a <= x <= b:
+            return float(poly_eval(poly, x))
+    return float(poly_eval(pieces[-1][2], x))
+
+
 def _extreme(pieces, ws, theta, xs, w) -> tuple[float, float]:
     """Largest |w| along the member (value with its sign, position), exact on each piece."""
     best_x = float(xs[int(np.argmax(np.abs(w)))])
@@ -297,6 +436,9 @@ def _deflection_pieces(st: Structure, topo, res, mid: str):
     ws = -s * u[di[f"{mem.start}.x"]] + c * u[di[f"{mem.start}.y"]]
     we = -s * u[di[f"{mem.end}.x"]] + c * u[di[f"{mem.end}.y"]]
     sec, free = _section(st, res, mid)
+    if _varies(sec, free):
+        pieces, w0 = varying_pieces(mr, sec, free)
+        return pieces, ws, we, (we - ws - w0) / L
     kappa_t = sum(free.get("m", []), 0.0)
     EI, GAs = sec["m"], sec.get("v")
     pieces = []

@@ -22,6 +22,7 @@ from __future__ import annotations
 
 import numpy as np
 
+from .arrays import first_and_inverse, median
 from .plaintext import literal
 
 __all__ = ["ON_MEMBER", "overlap_warnings", "joints_on_members", "duplicate_members"]
@@ -93,7 +94,7 @@ def duplicate_members(st, layout=None) -> list[tuple[str, str]]:
     if len(mids) < 2:
         return []
     code = np.minimum(a, b) * len(ids) + np.maximum(a, b)
-    _, first, inverse = np.unique(code, return_index=True, return_inverse=True)
+    first, inverse = first_and_inverse(code)
     dup = np.flatnonzero(first[inverse.ravel()] != np.arange(len(mids)))
     return [(mids[int(first[inverse.ravel()[i]])], mids[int(i)]) for i in dup]
 
@@ -108,7 +109,7 @@ def joints_on_members(st, tol: float = ON_MEMBER, layout=None) -> list[tuple[str
     length = np.hypot(d[:, 0], d[:, 1])
     # cells of the median member length, not below a twentieth of the mean (few samples
     # per member even when most members are tiny)
-    h = max(float(np.median(length)), float(np.mean(length)) / 20.0)
+    h = max(median(length), float(np.mean(length)) / 20.0)
     origin = xy.min(axis=0)
     cell = np.floor((xy - origin) / h).astype(np.int64)
     ncy = int(cell[:, 1].max()) + 3

@@ -10,10 +10,14 @@ so that they make one decision.
 
 from __future__ import annotations
 
+from typing import TYPE_CHECKING
+
 import numpy as np
-import scipy.sparse as sp
 
 from .model import Structure
+
+if TYPE_CHECKING:
+    import scipy.sparse as sp
 
 __all__ = ["scaled_dense", "scaled_equilibrium"]
 
@@ -29,10 +33,19 @@ def scaled_dense(A: np.ndarray, dofs, st: Structure) -> np.ndarray:
     return S / norms
 
 
-def scaled_equilibrium(topo, lref: float) -> tuple[sp.csr_matrix, np.ndarray]:
+def scaled_equilibrium(topo, lref: float) -> tuple[sp.csr_matrix | np.ndarray, np.ndarray]:
     """The scaled equilibrium matrix S = diag(rs) A diag(cs): moment rows divided by
     ``lref`` (the mean member length), columns to unit norm (the scaling of every rank
-    decision); and the column scales cs."""
+    decision); and the column scales cs. Sparse (CSR) from the local path's topology, a
+    dense array from the dense path's (which has no sparse matrix)."""
+    if topo.A_sparse is None:
+        rs = np.array([1.0 / lref if d.endswith(".rz") else 1.0 for d in topo.dofs])
+        S = rs[:, None] * topo.A
+        norms = np.sqrt((S * S).sum(axis=0))
+        norms[norms == 0] = 1.0
+        return S * (1.0 / norms), 1.0 / norms
+    import scipy.sparse as sp
+
     A = sp.csr_matrix(topo.A_sparse)
     rs = np.array([1.0 / lref if d.endswith(".rz") else 1.0 for d in topo.dofs])
     S = sp.diags(rs) @ A

@@ -30,7 +30,8 @@ Berry, Heath et al., Numer. Math. 47, 1985; Gilbert & Heath 1987):
 5. Long-range self-stresses (a truss pinned at both far ends, a ring of many members) are
    missed by step 3; they show as more kept columns than equations. They are found at the
    end with one sparse factorisation of the kept columns bordered by a few rows (one per
-   missing state), and their closing columns picked by threshold pivoting, latest first.
+   missing state), and their closing columns picked by partial pivoting (the largest
+   entries: the forces the long-range self-stresses rely on most).
 
 The kept columns less those closing columns form the released structure: square, and
 stable exactly when its sparse LU has no negligible pivot.
@@ -49,7 +50,7 @@ import scipy.sparse as sp
 from scipy.linalg.lapack import dgelsy
 
 from .thresholds import GOOD_PIVOT as _GOOD_PIVOT
-from .thresholds import LOCAL_LEAST_SQUARES_RCOND, LONG_RANGE_PIVOT, MOVING_FRACTION
+from .thresholds import LOCAL_LEAST_SQUARES_RCOND, MOVING_FRACTION
 from .thresholds import LOCAL_STATE_BOUND as _STATE_BOUND
 from .thresholds import LOCAL_STATE_RESIDUAL as _LOCAL_TOL
 from .thresholds import RELEASED_PIVOT_SINGULAR as _RANK_TOL
@@ -425,17 +426,27 @@ def _kept_null_space(SK: sp.csc_matrix, g: int) -> np.ndarray | None:
 
 def _unit_on_pivots(X: np.ndarray, candidates: np.ndarray) -> tuple[np.ndarray, list[int]]:
     """Step 5: the null basis ``X`` (k, g) recombined to be the identity on g pivot rows,
-    picked by threshold pivoting (at least ``LONG_RANGE_PIVOT`` of the column's largest) in
-    the order of ``candidates``: (W, pivots)."""
+    picked by partial pivoting: the largest entry of each column in turn (ties to the
+    earliest in ``candidates``): (W, pivots).
+
+    The pivots close the long-range states, and the kept columns less them form the
+    released structure. The largest entries of the self-stresses are the forces they rely
+    on most (on a girder over many supports, the chords over the supports), so cutting
+    those leaves a released structure of short determinate pieces and states two spans
+    long: on a cross-braced girder with a support every 50 panels, the flexibility's
+    condition number was 9.5e7 at 400 panels and 3.3e13 at 800 with the latest columns of
+    the sweep as pivots (a released structure cantilevering to the far end), 2.7 and 2.9
+    this way (docs/performance.md)."""
     g = X.shape[1]
     W = X.copy()
     pivots: list[int] = []
+    cand = np.asarray(candidates, dtype=int)
     for i in range(g):
         col = W[:, i]
-        big = np.max(np.abs(col))
-        pick = next(c for c in candidates
-                    if c not in pivots and abs(col[c]) >= LONG_RANGE_PIVOT * big)
-        pivots.append(int(pick))
+        size = np.abs(col[cand])
+        size[np.isin(cand, pivots)] = -1.0
+        pick = int(cand[int(np.argmax(size))])
+        pivots.append(pick)
         W[:, i] = col / col[pick]
         for q in range(i + 1, g):
             W[:, q] -= W[:, i] * W[pick, q]

@@ -73,7 +73,15 @@ def solve(structure: Structure, redundants=None, *, where: str | None = None,
     MechanismError
         The structure, or the released structure, is unstable; or a load case has no state
         in which its one-way members and supports act as they may.
+
+    A space structure (a case with 3D nodes) is solved by
+    :func:`leastwork.space.solve_space` and gives a :class:`leastwork.space.SpaceSolution`.
     """
+    if getattr(structure, "is_space", False):
+        from .space.solve import solve_space
+
+        return solve_space(structure, redundants, where=where,  # type: ignore[return-value]
+                           verify=verify is not False)
     sol = _solve_as_given(structure, redundants, where=where, verify=verify, basis=basis,
                           progress=progress)
     if any(m.acts != "both" for m in structure.members.values()) or any(

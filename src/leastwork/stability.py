@@ -35,10 +35,11 @@ and to the direct-stiffness cross-check.
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import TYPE_CHECKING
 
 import numpy as np
-import scipy.sparse as sp
 
+from .arrays import median
 from .elements import kind_of
 from .errors import MechanismError
 from .scaling import scaled_dense, scaled_equilibrium
@@ -46,6 +47,9 @@ from .thresholds import INDEX_RECHECK as _RECHECK
 from .thresholds import MECHANISM_INDEX, NEAR_MECHANISM_INDEX, SLIDING_TURN, SOFT_SPRING_RATIO
 from .thresholds import MOVING_FRACTION as _MOVING
 from .thresholds import ZERO_STATE_ENTRY as _ZERO_STATE
+
+if TYPE_CHECKING:
+    import scipy.sparse as sp
 
 __all__ = ["MECHANISM_INDEX", "NEAR_MECHANISM_INDEX", "WeakSpot", "weakest_spot",
            "assess_stability", "layout_warnings", "size_factor", "smallest_singular_value",
@@ -137,7 +141,14 @@ def _member_spot(st, topo, S: sp.csr_matrix, ids, a, b) -> WeakSpot | None:
     # so that every block has the same size and the dummies never give the smallest value
     dummy = ndof + np.arange(6)
     R = np.where(R < 0, dummy[None, :], R)
-    K = sp.block_diag([S @ S.T, _DUMMY * sp.identity(6)], format="csr")
+    if isinstance(S, np.ndarray):  # the dense path (a small structure): no scipy
+        K = np.zeros((ndof + 6, ndof + 6))
+        K[:ndof, :ndof] = S @ S.T
+        K[ndof:, ndof:] = _DUMMY * np.identity(6)
+    else:
+        import scipy.sparse as sp
+
+        K = sp.block_diag([S @ S.T, _DUMMY * sp.identity(6)], format="csr")
     index = np.zeros(len(a))
     for lo in range(0, len(a), _BATCH):
         Rb = R[lo:lo + _BATCH]
@@ -161,8 +172,10 @@ def _block_index(S: sp.csr_matrix, rows: list[int], dofs) -> tuple[float, tuple[
     """Smallest singular value of the rows ``rows`` of ``S`` (every column acting on them),
     and the directions moving most in the weakest motion."""
     block = S[rows, :]
-    cols = np.unique(block.indices)
-    M = block[:, cols].toarray()
+    if isinstance(block, np.ndarray):
+        M = block[:, np.flatnonzero((block != 0.0).any(axis=0))]
+    else:
+        M = block[:, np.unique(block.indices)].toarray()
     if M.shape[1] < M.shape[0]:
         M = np.hstack([M, np.zeros((M.shape[0], M.shape[0] - M.shape[1]))])
     u, sv, _ = np.linalg.svd(M, full_matrices=False)
@@ -171,8 +184,25 @@ def _block_index(S: sp.csr_matrix, rows: list[int], dofs) -> tuple[float, tuple[
     return float(sv[-1]), motion
 
 
-def _parts(ids: list[str], a: np.ndarray, b: np.ndarray) -> np.ndarray:
-    """The part (connected component of the member graph) of each joint, as a label."""
+def _parts(ids: list[str], a: np.ndarray, b: np.ndarray, sparse: bool = True) -> np.ndarray:
+    """The part (connected component of the member graph) of each joint, as a label: by
+    scipy's graph search (``sparse``), else by union-find in plain Python (the dense path's
+    small structures, without scipy)."""
+    if not sparse:
+        parent = list(range(len(ids)))
+
+        def root(i: int) -> int:
+            while parent[i] != i:
+                parent[i] = parent[parent[i]]
+                i = parent[i]
+            return i
+
+        for i, j in zip(a.tolist(), b.tolist(), strict=True):
+            ri, rj = root(i), root(j)
+            if ri != rj:
+                parent[ri] = rj
+        return np.array([root(i) for i in range(len(ids))], dtype=int)
+    import scipy.sparse as sp
     from scipy.sparse.csgraph import connected_components
 
     n = len(ids)
@@ -185,11 +215,11 @@ def _support_spot(st, topo, ids, xy, a, b, lref: float) -> WeakSpot | None:
     if not topo.restraints:
         return None
     index = {n: i for i, n in enumerate(ids)}
-    label = _parts(ids, a, b)
+    label = _parts(ids, a, b, sparse=topo.A_sparse is not None)
     node = np.array([index[r.node] for r in topo.restraints], dtype=int)
     vec = np.array([r.vector for r in topo.restraints], dtype=float)
     best = None
-    for part in np.unique(label[node]):
+    for part in sorted(set(label[node].tolist())):  # np.unique would load numpy.ma
         pick = np.flatnonzero(label[node] == part)
         if len(pick) < 3:
             continue  # fewer than three restraints: a mechanism, found by the rank
@@ -277,6 +307,7 @@ def smallest_singular_value(S: sp.csr_matrix, cs: np.ndarray, basis, iterations:
     quotient: never below the true value, equal to it to about ``rtol`` once converged; a
     near-mechanism's value lies far below the next and is found in a few steps). From a
     fixed start: the same structure always gives the same number."""
+    import scipy.sparse as sp
     from scipy.sparse.linalg import splu
 
     ndof, ncol = S.shape
@@ -392,9 +423,13 @@ def soft_spring_warnings(st, topo, states, ratio: float = SOFT_SPRING_RATIO) -> 
             member_k.append(section["m"] / L ** 3)
     if not member_k:
         return []
-    k_ref = float(np.median(member_k))
+    k_ref = median(member_k)
     lmax = max(st.length(m) for m in st.members)
-    rows = sp.csr_matrix(states) if sp.issparse(states) else None
+    rows = None
+    if not isinstance(states, np.ndarray):  # a scipy.sparse matrix (the local basis)
+        import scipy.sparse as sp
+
+        rows = sp.csr_matrix(states)
     out = []
     for j, c in soft:
         r = topo.restraints[c.restraint_index]

@@ -11,7 +11,6 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 import numpy as np
-from scipy.linalg import lu_factor, lu_solve
 
 from .arithmetic import FloatNumbers, Numbers
 from .basis import Basis
@@ -19,6 +18,7 @@ from .errors import MechanismError
 from .fields import ParticularFields
 from .loadkinds import CaseEffects, load_kind
 from .model import Structure
+from .thresholds import NUMPY_LU_MAX
 from .topology import Topology
 
 __all__ = ["CaseLoading", "ReleasedStructure", "case_loading"]
@@ -92,7 +92,12 @@ class ReleasedStructure(Basis):
                 f"the released structure has {A0.shape[1]} forces for {A0.shape[0]} "
                 "equilibrium equations: it is not statically determinate (a mechanism, or "
                 "a wrong number of redundants)", list(topo.mechanism))
-        self._lu = lu_factor(A0)
+        self._A0 = A0
+        self._lu = None
+        if A0.shape[0] > NUMPY_LU_MAX:  # factorised once; small ones need no scipy at all
+            from scipy.linalg import lu_factor
+
+            self._lu = lu_factor(A0)
         self.ncol = ncol
 
     def forces(self, rhs: np.ndarray) -> np.ndarray:
@@ -100,14 +105,23 @@ class ReleasedStructure(Basis):
         nodal loads ``rhs`` (ndof, k): solves ``A0 s = -rhs``; redundant columns are zero."""
         rhs = np.atleast_2d(rhs.T).T
         s = np.zeros((self.ncol, rhs.shape[1]))
-        s[self.keep] = lu_solve(self._lu, -rhs)
+        s[self.keep] = self._solve(-rhs)
         return s
 
     def displacements(self, compatible: np.ndarray) -> np.ndarray:
         """Nodal displacements (ndof,) for member deformations less settlements
         ``compatible`` (ncol,), by the unit-load method: u = -A0^-T compatible[keep] (a unit
         load at each nodal direction on the released structure, all at once)."""
-        return -lu_solve(self._lu, compatible[self.keep], trans=1)
+        return -self._solve(compatible[self.keep], transposed=True)
+
+    def _solve(self, b: np.ndarray, transposed: bool = False) -> np.ndarray:
+        """A0 x = b (A0' x = b when ``transposed``): numpy's LU with partial pivoting (LAPACK
+        gesv) up to :data:`NUMPY_LU_MAX` equations, scipy's stored factors above."""
+        if self._lu is None:
+            return np.linalg.solve(self._A0.T if transposed else self._A0, b)
+        from scipy.linalg import lu_solve
+
+        return lu_solve(self._lu, b, trans=1 if transposed else 0)
 
     def unit_redundant_states(self) -> np.ndarray:
         """B (ncol, nred): column i is the state for X_i = 1 with no loads."""

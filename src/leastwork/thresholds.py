@@ -15,12 +15,12 @@ nothing of the package.
 from __future__ import annotations
 
 __all__ = [
-    "LOCAL_BASIS_MIN_COLUMNS", "DENSE_CHECK_MAX_DOFS", "CONDITION_WARN",
+    "LOCAL_BASIS_MIN_COLUMNS", "NUMPY_LU_MAX", "DENSE_CHECK_MAX_DOFS", "CONDITION_WARN",
     "BETTER_CONDITION_FACTOR", "NO_FLEXIBILITY", "SINGULAR_FLEXIBILITY",
     "INCOMPATIBLE_RESIDUAL", "RANK_ROUND_OFF", "GOOD_PIVOT", "MECHANISM_MOTION",
     "MECHANISM_INDEX", "NEAR_MECHANISM_INDEX", "INDEX_RECHECK", "MOVING_FRACTION",
     "SLIDING_TURN", "SOFT_SPRING_RATIO", "ZERO_STATE_ENTRY", "RELEASED_PIVOT_SINGULAR",
-    "LOCAL_STATE_RESIDUAL", "LOCAL_STATE_BOUND", "STATE_ENTRY_DROP", "LONG_RANGE_PIVOT",
+    "LOCAL_STATE_RESIDUAL", "LOCAL_STATE_BOUND", "STATE_ENTRY_DROP",
     "LOCAL_LEAST_SQUARES_RCOND", "LOCAL_STATE_ACCURACY", "EQUILIBRIUM_ROUND_OFF",
     "FORCE_FLOOR", "EXTREME_TIE", "EXTREME_TIE_FLOOR", "ONE_WAY_FORCE", "ONE_WAY_GAP",
     "ONE_WAY_TRIALS_PER_ITEM", "ONE_WAY_TRIALS_MIN",
@@ -32,6 +32,11 @@ __all__ = [
 #: self-stress basis (sparse path, :mod:`leastwork.sparse_solve`) when no redundants are
 #: named.
 LOCAL_BASIS_MIN_COLUMNS = 1500
+
+#: Equations of a released structure up to which numpy's dense LU solves it afresh at each
+#: solve (a few per load case, each well under a millisecond), so that a small solve does
+#: not import scipy (0.1-0.2 s of start-up); larger ones are factorised once by scipy.
+NUMPY_LU_MAX = 100
 #: Nodal directions (count) up to which a structure whose local sweep found no non-singular
 #: released structure is decided by the dense rank (and, if stable, solved on the released
 #: basis instead): one verdict for the two paths.
@@ -113,9 +118,6 @@ LOCAL_STATE_BOUND = 1e2
 #: Entries of a state below this fraction of its largest are round-off of the local
 #: least-squares and dropped.
 STATE_ENTRY_DROP = 1e-14
-#: Pivot rows of the long-range states are picked by threshold pivoting: at least this
-#: fraction of the column's largest entry.
-LONG_RANGE_PIVOT = 0.1
 #: Singular values below this fraction of the largest count as zero in the least-norm
 #: solution of a local state (LAPACK ``rcond``).
 LOCAL_LEAST_SQUARES_RCOND = 1e-10

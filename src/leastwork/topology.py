@@ -74,7 +74,9 @@ class Topology:
     mechanism: tuple[str, ...]  #: free motions when unstable
     loops: int = 0  #: independent closed loops of the member graph (cycle rank)
     parts: int = 1  #: connected parts of the member graph
-    A_sparse: object = None  #: the same equilibrium matrix, scipy.sparse CSC
+    #: the same equilibrium matrix, scipy.sparse CSC (local path; None on the dense path,
+    #: whose small solves do not load scipy)
+    A_sparse: object = None
     #: smallest singular value of the scaled equilibrium matrix (dense path; NaN unknown)
     sigma_min: float = float("nan")
 
@@ -158,11 +160,10 @@ def equilibrium_columns(st: Structure, nums: Numbers):
     return dofs, dof_index, columns, restraints, dropped, entries
 
 
-def assemble_equilibrium(st: Structure):
+def assemble_equilibrium(st: Structure, dense: bool = False):
     """Rows (nodal directions), columns (basic forces and reactions), restraints, dropped
-    rz restraints and the sparse equilibrium matrix ``A`` (CSC, SI) with ``A s + p = 0``."""
-    import scipy.sparse as sp
-
+    rz restraints and the equilibrium matrix ``A`` (SI) with ``A s + p = 0``: sparse (CSC),
+    or a dense array when ``dense`` (repeated entries summed either way)."""
     dofs, dof_index, columns, restraints, dropped, entries = equilibrium_columns(
         st, FloatNumbers(st))
     rows, cols, vals = [], [], []
@@ -172,6 +173,13 @@ def assemble_equilibrium(st: Structure):
                 rows.append(dof_index[dof])
                 cols.append(j)
                 vals.append(val)
+    if dense:
+        A = np.zeros((len(dofs), len(columns)))
+        np.add.at(A, (np.asarray(rows, dtype=int), np.asarray(cols, dtype=int)),
+                  np.asarray(vals, dtype=float))
+        return dofs, dof_index, columns, restraints, dropped, A
+    import scipy.sparse as sp
+
     A = sp.csc_matrix((vals, (rows, cols)), shape=(len(dofs), len(columns)))
     A.sum_duplicates()
     return dofs, dof_index, columns, restraints, dropped, A
@@ -215,8 +223,7 @@ def sparse_topology(st: Structure) -> Topology:
 def build_topology(st: Structure) -> Topology:
     """Assemble the equilibrium matrix and decide indeterminacy and stability (dense
     singular values: for structures of up to a few thousand basic forces)."""
-    dofs, dof_index, columns, restraints, dropped, A_sparse = assemble_equilibrium(st)
-    A = A_sparse.toarray()
+    dofs, dof_index, columns, restraints, dropped, A = assemble_equilibrium(st, dense=True)
     column_index = {c.name: i for i, c in enumerate(columns)}
     scaled = _scaled(A, dofs, st)
     tol = rank_tolerance(st)
@@ -231,7 +238,7 @@ def build_topology(st: Structure) -> Topology:
     counting = _counting(st, dofs, columns, restraints)
     parts, loops = member_graph_counts(st)
     return Topology(
-        loops=loops, parts=parts, A_sparse=A_sparse,
+        loops=loops, parts=parts,
         dofs=tuple(dofs), dof_index=dof_index, columns=tuple(columns),
         column_index=column_index, restraints=tuple(restraints), A=A, rank=rank,
         degree=degree, internal=internal, external=degree - internal, stable=stable,

@@ -5,7 +5,7 @@ from __future__ import annotations
 
 from ..errors import MechanismError
 from .common import add_units_option, console_for, display_units
-from .parser import basis_option, command_parser
+from .parser import basis_option, command_description, command_parser
 from .progress import progress
 
 __all__ = ["add_parsers", "run"]
@@ -13,7 +13,12 @@ __all__ = ["add_parsers", "run"]
 
 def add_parsers(sub) -> None:
     """Add the ``check`` subcommand to ``sub``."""
-    c = command_parser(sub, "check", "indeterminacy, stability and suggested redundants")
+    c = command_parser(sub, "check", "indeterminacy, stability and suggested redundants",
+                       command_description(
+                           "Check a case without solving it: the degree of indeterminacy "
+                           "(by the rank of the equilibrium matrix and by counting), whether "
+                           "the structure is stable or a mechanism, and the redundants a "
+                           "solve would take."))
     c.add_argument("case", help="case file (TOML)")
     basis_option(c)
     add_units_option(c)
@@ -36,6 +41,10 @@ def run(args) -> int:
     from ..topology import build_topology, check_stable, choose_redundants
 
     st = load_case(args.case)
+    if getattr(st, "is_space", False):
+        from ..space.cli import run_check
+
+        return run_check(args, st)
     units = display_units(args.units, st.units)
     if units is not None:  # check reads nothing more: its messages speak these units
         st = dataclasses.replace(st, units=units)

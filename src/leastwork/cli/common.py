@@ -33,7 +33,7 @@ def console_for(args):
 
     if getattr(args, "no_color", False):
         return Console(color_system=None, highlight=False)
-    return Console()
+    return Console(highlight=False)
 
 
 def split(text: str | None) -> list[str] | None:

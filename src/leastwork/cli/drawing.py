@@ -4,11 +4,10 @@ SVG) or a calculation report (HTML, or Markdown with SVG images beside it)."""
 from __future__ import annotations
 
 import sys
-import textwrap
 
 from ..errors import CaseError
 from .common import add_units_option, chosen_cases, display_units, sheet_meta, split
-from .parser import DESCRIPTION, basis_option, command_parser
+from .parser import basis_option, command_description, command_parser
 from .progress import busy, progress
 
 __all__ = ["add_parsers", "run"]
@@ -22,6 +21,9 @@ def add_parsers(sub) -> None:
                        "suffix).", "PNG or SVG file to write")
     pl.add_argument("--diagrams", metavar="LIST", default="structure,n,v,m,deflected",
                     help="comma-separated: structure, n, v, m, deflected (default: all)")
+    pl.add_argument("--each-case", action="store_true",
+                    help="one image per load case, named FILE's stem, '-', the case name "
+                         "(bay.png -> bay-wind.png, bay-snow.png)")
     _file_command(sub, "report", "write a calculation report (HTML or Markdown)",
                   "Write a calculation report: inputs, assumptions, the audit steps, results, "
                   "diagrams, the cross-check and the caution. HTML (one self-contained file) "
@@ -31,7 +33,7 @@ def add_parsers(sub) -> None:
 
 def _file_command(sub, name: str, summary: str, description: str, output_help: str):
     """A subcommand that solves a case and writes files (``plot``, ``report``)."""
-    p = command_parser(sub, name, summary, textwrap.fill(description, 92) + "\n\n" + DESCRIPTION)
+    p = command_parser(sub, name, summary, command_description(description))
     p.add_argument("case", help="case file (TOML)")
     p.add_argument("-o", "--output", metavar="FILE", required=True, help=output_help)
     p.add_argument("--case", dest="load_case", metavar="NAME",
@@ -53,6 +55,10 @@ def run(args) -> int:
     from ..solve import solve
 
     st = load_case(args.case)
+    if getattr(st, "is_space", False):
+        from ..space.cli import run_plot
+
+        return run_plot(args, st)
     units = display_units(args.units, st.units)
     if units is not None:  # the drawings and the report speak the units of the structure
         import dataclasses
@@ -90,6 +96,14 @@ def _figure(sol, out, args) -> dict:
         raise CaseError(f'cannot draw to "{out}": name it .png or .svg',
                         source="command line", where="--output")
     diagrams = parse_diagrams(args.diagrams)
+    if getattr(args, "each_case", False):
+        if args.load_case is not None:
+            raise CaseError("--each-case draws every load case; leave out --case NAME",
+                            source="command line", where="--each-case")
+        from ..output.plot import case_images
+
+        with busy("drawing"):
+            return case_images(sol, out, diagrams)
     fd, tmp = tempfile.mkstemp(suffix=suffix)
     os.close(fd)
     try:

@@ -13,7 +13,8 @@ import argparse
 
 from ..errors import CaseError
 
-__all__ = ["DESCRIPTION", "Parser", "basis_option", "command_parser"]
+__all__ = ["DESCRIPTION", "Parser", "basis_option", "command_parser", "CAUTION_LINE",
+           "command_description"]
 
 DESCRIPTION = """\
 Solve statically indeterminate 2D beams, trusses, frames and beam-and-tie structures by the
@@ -26,6 +27,21 @@ must be checked by a qualified engineer against the governing local codes before
 """
 
 
+#: The assumptions and caution, short, at the foot of every subcommand's own description.
+CAUTION_LINE = """\
+Assumes linear elastic material, small displacements and a plane structure (leastwork --help
+lists every assumption). Results must be checked by a qualified engineer against the
+governing local codes before use."""
+
+
+def command_description(text: str) -> str:
+    """A subcommand's ``--help`` description: what it does (``text``, wrapped), then the
+    short assumptions and caution (:data:`CAUTION_LINE`)."""
+    import textwrap
+
+    return textwrap.fill(text, 92) + "\n\n" + CAUTION_LINE
+
+
 class Parser(argparse.ArgumentParser):
     """An argument parser whose errors are one plain line with exit status 2."""
 
@@ -33,9 +49,11 @@ class Parser(argparse.ArgumentParser):
         raise CaseError(message, source="command line")
 
 
-def command_parser(sub, name: str, summary: str, description: str = DESCRIPTION):
-    """A subcommand whose ``--help`` shows ``description`` as written (the common
-    description with the assumptions and the caution by default)."""
+def command_parser(sub, name: str, summary: str, description: str | None = None):
+    """A subcommand whose ``--help`` shows ``description`` as written (default: what it
+    does, from ``summary``, with the short assumptions and caution)."""
+    if description is None:
+        description = command_description(summary[0].upper() + summary[1:] + ".")
     return sub.add_parser(name, help=summary, description=description,
                           formatter_class=argparse.RawDescriptionHelpFormatter)
 

@@ -22,7 +22,7 @@ from .common import (
     output_format,
     split,
 )
-from .parser import basis_option, command_parser
+from .parser import basis_option, command_description, command_parser
 from .progress import busy, progress
 
 __all__ = ["JSON_INDENT_MAX_MEMBERS", "TIME_LIMIT_MAX", "add_parsers", "run"]
@@ -36,7 +36,11 @@ TIME_LIMIT_MAX = 3600.0
 
 def add_parsers(sub) -> None:
     """Add the ``solve`` subcommand to ``sub``."""
-    s = command_parser(sub, "solve", "solve a case file")
+    s = command_parser(sub, "solve", "solve a case file", command_description(
+        "Solve a case file by the least-work (force) method: the redundants, reactions, "
+        "member end forces, moment extremes, deflections and the checks (equilibrium and an "
+        "independent direct-stiffness cross-check); --steps prints the whole audit trail, "
+        "--json the result for programs, --format md|latex a calculation sheet."))
     s.add_argument("case", help="case file (TOML)")
     s.add_argument("--json", action="store_true", help="print only the JSON result")
     s.add_argument("--steps", action="store_true", help="print the whole audit trail")
@@ -94,7 +98,10 @@ def run(args) -> int:
 
     read = _read_with_record(args.case) if args.symbolic else None  # the case read once
     st = load_case(args.case) if read is None else read[0]
-    console = console_for(args)
+    if getattr(st, "is_space", False):
+        from ..space.cli import run_solve
+
+        return run_solve(args, st)
     st = _with_displacements(st, split(args.at) or [])
     names = split(args.redundants)
     if args.redundants is not None and not names:
@@ -111,7 +118,7 @@ def run(args) -> int:
     fmt_name = output_format(args)
     if args.symbolic:
         return _symbolic(args, st, sol, names, cases, fmt_name, read)
-    _show(args, st, sol, cases, fmt_name, console)
+    _show(args, st, sol, cases, fmt_name)
     if fmt_name != "text" or args.output:
         _warn_failed_checks(sol)
     return 0
@@ -145,10 +152,9 @@ def _with_displacements(st, extra: list[str]):
     return st
 
 
-def _show(args, st, sol, cases, fmt_name: str, console) -> None:
-    """The result in its format: JSON, a sheet, text to a file, or the terminal."""
-    from ..output.terminal import print_brief, print_steps, print_summary
-
+def _show(args, st, sol, cases, fmt_name: str) -> None:
+    """The result in its format: JSON, a sheet, text to a file, or the terminal (the
+    terminal output and its console loaded only for text)."""
     if fmt_name == "json":
         d = sol.to_dict()
         if cases:
@@ -157,15 +163,22 @@ def _show(args, st, sol, cases, fmt_name: str, console) -> None:
         # only without indentation, and nobody reads 10^4 members by eye)
         indent = 2 if len(st.members) <= JSON_INDENT_MAX_MEMBERS else None
         emit(json.dumps(d, indent=indent) + "\n", args, st)
-    elif fmt_name in ("md", "latex"):
+        return
+    if fmt_name in ("md", "latex"):
         emit(document(sol, cases, fmt_name), args, st)
-    elif args.output:
+        return
+    from ..output.terminal import print_brief, print_steps, print_summary
+
+    if args.output:
         from rich.console import Console
 
-        buf = Console(record=True, file=io.StringIO(), width=FILE_WIDTH, color_system=None)
+        buf = Console(record=True, file=io.StringIO(), width=FILE_WIDTH, color_system=None,
+                      highlight=False)
         (print_steps if args.steps else print_summary)(buf, sol, cases)
         emit(buf.export_text(), args, st)
-    elif args.quiet:
+        return
+    console = console_for(args)
+    if args.quiet:
         print_brief(console, sol, cases)
     elif args.steps:
         print_steps(console, sol, cases)
@@ -231,8 +244,10 @@ def _print_closed_forms(args, st, sol, sym, cases, combos: list[str]) -> None:
     from ..output.closed_forms import print_closed_forms
 
     plain = args.no_color or bool(args.output)
-    console = (Console(record=True, file=io.StringIO(), width=FILE_WIDTH, color_system=None)
-               if args.output else Console(color_system=None) if plain else Console())
+    console = (Console(record=True, file=io.StringIO(), width=FILE_WIDTH, color_system=None,
+                       highlight=False)
+               if args.output else Console(color_system=None, highlight=False) if plain
+               else Console(highlight=False))
     if args.steps:
         from ..output.terminal import print_steps
 

@@ -32,7 +32,11 @@ def add_parsers(sub) -> None:
                                    "and edit it: leastwork new portal-frame > shed.toml")
     n.add_argument("kind", nargs="?", help="kind of structure (see --list)")
     n.add_argument("--list", action="store_true", help="list the kinds, one per line")
-    sub.add_parser("demo", help="solve a bundled example and show what the tool can do")
+    d = sub.add_parser("demo", help="solve a bundled example and show what the tool can do",
+                       description="Solve a bundled example (an invented tied beam) and show "
+                                   "the summary, a step of the audit trail and what else the "
+                                   "tool can do.")
+    d.add_argument("--no-color", action="store_true", help="plain text, no colours")
 
 
 def run_new(args) -> int:
@@ -50,10 +54,10 @@ def run_new(args) -> int:
 
 
 def run_demo_command(args) -> int:
-    """``leastwork demo`` on the terminal."""
-    from rich.console import Console
+    """``leastwork demo`` on the terminal (plain with ``--no-color``)."""
+    from .common import console_for
 
-    return run_demo(Console())
+    return run_demo(console_for(args))
 
 
 #: The starter the demo solves.
@@ -105,6 +109,7 @@ def _effects_table(sol, numbers: dict) -> Table:
     from rich.table import Table
 
     from ..output.quantities import quantities
+    from ..output.sheet import fmt
     from ..output.terminal import user_text
 
     q = quantities(sol.units)
@@ -115,9 +120,9 @@ def _effects_table(sol, numbers: dict) -> Table:
     t.add_column(user_text(f"m at the wall A, sagging + [{q.moment_unit}]"), justify="right")
     t.add_column(user_text(f"tip B.y, up + [{q.displacement_unit}]"), justify="right")
     for c, n in numbers.items():
-        t.add_row(user_text(c), f"{_rod_force(n):.4g}",
-                  f"{float(n.members['AB']['start']['m']):.4g}",
-                  f"{float(n.displacements['B.y']):.3g}")
+        t.add_row(user_text(c), fmt(_rod_force(n)),
+                  fmt(float(n.members['AB']['start']['m'])),
+                  fmt(float(n.displacements['B.y']), 3))
     return t
 
 
@@ -126,12 +131,13 @@ def run_demo(console: Console) -> int:
     from rich.markup import escape
     from rich.panel import Panel
     from rich.table import Table
+    from rich.text import Text
 
     from ..io.reader import loads_case
     from ..io.starters import STARTERS, starter_text
     from ..output.audit import audit_sheet
     from ..output.reported import case_numbers
-    from ..output.terminal import print_sheet, print_summary, user_text
+    from ..output.terminal import print_sheet, print_summary, rule, user_text
     from ..solve import solve
 
     text = starter_text(DEMO_KIND)
@@ -141,7 +147,7 @@ def run_demo(console: Console) -> int:
     numbers = {c: case_numbers(sol, c) for c in cases}  # in the case units
     first = cases[0]
 
-    console.rule("[bold]leastwork demo — 1/4: the structure and its summary[/bold]")
+    rule(console, "leastwork demo — 1/4: the structure and its summary")
     console.print(Panel(
         escape(f"{STARTERS[DEMO_KIND][0][0].upper()}{STARTERS[DEMO_KIND][0][1:]}: ")
         + escape(_structure_note(text)) + "\n\n"
@@ -152,15 +158,14 @@ def run_demo(console: Console) -> int:
         title=f"Starter \"{DEMO_KIND}\""))
     print_summary(console, sol, [first])
 
-    console.rule("[bold]2/4: a glimpse of the audit trail (--steps shows all eight steps)"
-                 "[/bold]")
+    rule(console, "2/4: a glimpse of the audit trail (--steps shows all eight steps)")
     sheet = audit_sheet(sol, cases[:2])
     glimpse = dataclasses.replace(
         sheet, assumptions=(), cautions=(),
         steps=tuple(s for s in sheet.steps if s.number in _GLIMPSE_STEPS))
     print_sheet(console, glimpse)
 
-    console.rule("[bold]3/4: a misfit locks in forces[/bold]")
+    rule(console, "3/4: a misfit locks in forces")
     console.print(
         "Tightening the turnbuckle shortens the rod by 3 mm (a misfit of -3 mm). The "
         "structure is indeterminate, so the rod cannot simply take up its new length: "
@@ -179,13 +184,19 @@ def run_demo(console: Console) -> int:
         console.print(user_text(f"Load case {c}: equilibrium check {eq}; direct-stiffness "
                                 f"cross-check {cross}."))
 
-    console.rule("[bold]4/4: what to try next[/bold]")
-    t = Table(show_header=False, box=None, pad_edge=False)
-    t.add_column("command", style="bold", no_wrap=True)
-    t.add_column("does")
-    for cmd, what in NEXT_COMMANDS:
-        t.add_row(escape(cmd), escape(what))
-    console.print(t)
+    rule(console, "4/4: what to try next")
+    widest = max(len(cmd) for cmd, _ in NEXT_COMMANDS)
+    if console.width >= widest + 32:
+        t = Table(show_header=False, box=None, pad_edge=False)
+        t.add_column("command", style="bold", no_wrap=True)
+        t.add_column("does")
+        for cmd, what in NEXT_COMMANDS:
+            t.add_row(escape(cmd), escape(what))
+        console.print(t)
+    else:  # narrow: each command on its line, what it does indented below
+        for cmd, what in NEXT_COMMANDS:
+            console.print(Text(cmd, style="bold"), overflow="fold")
+            console.print(Text("    " + what))
     console.print("Other starters: " + ", ".join(STARTERS) + ". The tutorial is docs/guide.md,"
                   " the method docs/method.md.")
     console.print(Panel("Results come from an idealised model and must be checked by a "

@@ -56,6 +56,10 @@ def add_parsers(sub) -> None:
                    help="... so that the axial force of this member is zero")
     add_units_option(f)
     f.add_argument("--json", action="store_true", help="print only the JSON result")
+    f.add_argument("-o", "--output", metavar="FILE",
+                   help="also draw the locked-in forces (and the adjustment) to a PNG or "
+                        "SVG file")
+    f.add_argument("--force", action="store_true", help="replace FILE if it exists")
     f.add_argument("--no-color", action="store_true", help="plain text, no colours")
     i = _add(sub, "influence", "influence line of a reaction or internal force",
              _INFLUENCE, kw)
@@ -78,7 +82,10 @@ def add_parsers(sub) -> None:
 
 
 def _add(sub, name: str, help_text: str, description: str, kw: dict):
-    return sub.add_parser(name, help=help_text, description=description, **kw)
+    from .parser import CAUTION_LINE
+
+    return sub.add_parser(name, help=help_text, description=description + "\n" + CAUTION_LINE,
+                          **kw)
 
 
 def run_fitup(args) -> int:
@@ -86,7 +93,12 @@ def run_fitup(args) -> int:
     MechanismError for :func:`leastwork.cli.main` to report)."""
     from ..io.reader import load_case
 
-    return _fitup(args, load_case(args.case), console_for(args))
+    st = load_case(args.case)
+    if getattr(st, "is_space", False):
+        from ..space.cli import refuse
+
+        raise refuse("leastwork fitup")
+    return _fitup(args, st, console_for(args))
 
 
 def run_influence(args) -> int:
@@ -94,7 +106,12 @@ def run_influence(args) -> int:
     :func:`run_fitup`)."""
     from ..io.reader import load_case
 
-    return _influence(args, load_case(args.case), console_for(args))
+    st = load_case(args.case)
+    if getattr(st, "is_space", False):
+        from ..space.cli import run_influence
+
+        return run_influence(args, st)
+    return _influence(args, st, console_for(args))
 
 
 # ---------------------------------------------------------------------------- fitup
@@ -131,6 +148,8 @@ def _fitup(args, st, console) -> int:
         from ..studies.one_way_check import one_way_verdicts
 
         verdicts = one_way_verdicts(sol, study)
+    if args.output:
+        _draw_fitup(sol, study, adj, args)
     adj_warnings = list(adj.warnings) if adj is not None else []
     for w in adj_warnings:  # an adjustment outside the small-displacement range
         print(f"leastwork: WARNING: {w}", file=sys.stderr)
@@ -156,6 +175,31 @@ def _fitup(args, st, console) -> int:
     if adj is not None:
         _print_adjustment(console, adj, units)
     return 0
+
+
+def _draw_fitup(sol, study, adj, args) -> None:
+    """The fit-up study (and adjustment) drawn to PNG or SVG."""
+    import pathlib
+
+    from ..io.writing import write_files
+
+    out = pathlib.Path(args.output)
+    if out.suffix.lower() not in (".png", ".svg"):
+        raise CaseError(f'cannot draw to "{out}": name it .png or .svg',
+                        source="command line", where="--output")
+    import copy
+    import dataclasses
+
+    from ..output.plot.files import figure_bytes
+    from ..output.plot.fitup import fitup_figure
+
+    drawn = sol
+    if sol.display_units is not None and sol.display_units != sol.structure.units:
+        drawn = copy.copy(sol)  # drawn in the units asked for
+        drawn.structure = dataclasses.replace(sol.structure, units=sol.display_units)
+    data = figure_bytes(fitup_figure(drawn, study, adj), out.suffix.lower()[1:], "fitup")
+    write_files({out: data}, force=args.force, case=sol.structure.source)
+    print(f"leastwork: wrote {literal(out)}", file=sys.stderr)
 
 
 def _header(console, sol) -> None:
@@ -282,8 +326,7 @@ def _print_adjustment(console, adj, units) -> None:
 
 # ------------------------------------------------------------------------ influence
 def _draw_influence(d: dict, args, st) -> None:
-    """The ordinates along the listed members, one after the other, to PNG or SVG."""
-    import io
+    """The influence line with a sketch of the structure above it, to PNG or SVG."""
     import pathlib
 
     from ..io.writing import write_files
@@ -292,43 +335,12 @@ def _draw_influence(d: dict, args, st) -> None:
     if out.suffix.lower() not in (".png", ".svg"):
         raise CaseError(f'cannot draw to "{out}": name it .png or .svg',
                         source="command line", where="--output")
-    from matplotlib.backends.backend_agg import FigureCanvasAgg
-    from matplotlib.figure import Figure
+    from ..output.plot.files import figure_bytes
+    from ..output.plot.influence import influence_figure
 
-    fig = Figure(figsize=(8, 3.2))
-    FigureCanvasAgg(fig)
-    ax = fig.add_subplot()
-    u = d["units"]
-    offset, x, y, ticks = 0.0, [], [], []
-    last = None
-    for p in d["points"]:
-        if p["member"] != last:
-            if last is not None:
-                offset = x[-1]
-            ticks.append((offset, p["member"]))
-            last = p["member"]
-        x.append(offset + p["at"])
-        y.append(p["value"])
-    ax.plot(x, y, color="0.15", lw=1.4)
-    ax.fill_between(x, y, 0.0, color="0.75", alpha=0.6)
-    ax.axhline(0.0, color="0.3", lw=0.8)
-    for pos, name in ticks:
-        ax.axvline(pos, color="0.6", lw=0.6, ls=":")
-        ax.annotate(name, (pos, 1.0), xycoords=("data", "axes fraction"), xytext=(3, -12),
-                    textcoords="offset points", fontsize=8)
-    k_max, k_min = max(range(len(y)), key=y.__getitem__), min(range(len(y)), key=y.__getitem__)
-    for k in {k_max, k_min}:
-        ax.annotate(f"{y[k]:.4g}", (x[k], y[k]), xytext=(0, 6 if y[k] >= 0 else -12),
-                    textcoords="offset points", ha="center", fontsize=8)
-    ax.set_xlabel(f"position of the load along {', '.join(n for _, n in ticks)} "
-                  f"[{u['length']}]")
-    ax.set_ylabel(f"{d['quantity']} [{u['value']}]")
-    ax.set_title(f"Influence line of {d['quantity']} — moving load {u['load']}",
-                 fontsize=10)
-    fig.tight_layout()
-    buf = io.BytesIO()
-    fig.savefig(buf, format=out.suffix[1:].lower())
-    write_files({out: buf.getvalue()}, force=args.force, case=st.source)
+    data = figure_bytes(influence_figure(st, d), out.suffix.lower()[1:],
+                        f"influence-{d['quantity']}")
+    write_files({out: data}, force=args.force, case=st.source)
     print(f"leastwork: wrote {literal(out)}", file=sys.stderr)
 
 

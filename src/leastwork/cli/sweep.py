@@ -9,18 +9,19 @@ import sys
 
 from ..errors import CaseError
 from .common import console_for
-from .parser import DESCRIPTION
+from .parser import CAUTION_LINE
 
 __all__ = ["add_parsers", "run"]
 
-_HELP = DESCRIPTION + """
-Every combination of the values given by --vary (COUNT values from START to STOP, both
-included; each NAME a [parameters] name) is solved; each row gives the values and the
-quantities asked for, in the case's output units. Samples that change only sections,
+_HELP = """\
+Solve a case over ranges of its parameters. Every combination of the values given by
+--vary (COUNT values from START to STOP, both included; each NAME a [parameters] name) is
+solved; each row gives the values and the quantities asked for, in the case's output units. Samples that change only sections,
 springs or loads reuse the previous sample's structure; a moved node is solved afresh.
 Quantities: B.y (reaction), BC (a member's axial force), AB.start.m / AB.end.n,
 AB.m_max / AB.m_min, d:B.y or d:AB@2.5.y (displacements, the --at names).
-"""
+
+""" + CAUTION_LINE
 
 
 def add_parsers(sub) -> None:

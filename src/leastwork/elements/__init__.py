@@ -2,13 +2,13 @@
 
 :mod:`.base` states what a kind supplies (:class:`~.base.MemberKind`), keeps the registry
 (:func:`~.base.kind_of`, :func:`~.base.register`) and integrates energy generically;
-:mod:`.bar`, :mod:`.beam` and :mod:`.curved` (a beam with ``curve``) are the kinds a case
-file can name. Nothing outside a
+:mod:`.bar`, :mod:`.beam`, :mod:`.tapered` (a beam with ``taper``) and :mod:`.curved`
+(a beam with ``curve``) are the kinds a case file can name. Nothing outside a
 kind knows its formulas: topology, energy, statics, results, displacements and the audit
 sheet ask the kind.
 """
 
-from . import bar, beam, curved  # noqa: F401  (registers the kinds)
+from . import bar, beam, curved, tapered  # noqa: F401  (registers the kinds)
 from .base import (
     MEMBER_KINDS,
     BasicForce,

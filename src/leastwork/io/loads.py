@@ -289,7 +289,8 @@ def self_weight(reader: CaseReader, spec: dict, where: str, members: dict[str, M
             out += [NodalLoad(m.start, fy=half, case=case, written=text),
                     NodalLoad(m.end, fy=half, case=case, written=text)]
         else:
-            out.append(DistributedLoad(mid, wy=(-m.weight, -m.weight), case=case,
+            end = m.taper.weight if m.taper and m.taper.weight is not None else m.weight
+            out.append(DistributedLoad(mid, wy=(-m.weight, -end), case=case,
                                        written=text))
     return out
 

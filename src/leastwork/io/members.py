@@ -6,7 +6,7 @@ from __future__ import annotations
 import math
 from typing import Any
 
-from ..model import Curve, Member, Node
+from ..model import Curve, Member, Node, Taper
 from .core import CaseReader
 from .messages import echo, hint, kind_of, shown
 
@@ -16,7 +16,7 @@ __all__ = ["member_specs", "connected_nodes", "read_members"]
 MemberSpec = tuple[str, str, dict, list[str]]
 
 _BEAM_KEYS = ("nodes", "material", "section", "EI", "EA", "hinges", "end_springs",
-              "description", "curve")
+              "description", "taper", "curve")
 _BAR_KEYS = ("nodes", "material", "section", "EA", "acts", "description")
 
 
@@ -74,6 +74,15 @@ def read_members(reader: CaseReader, specs: list[MemberSpec], nodes: dict[str, N
         mat_id = spec.get("material", defaults.get("material"))
         sec_id = spec.get("section", defaults.get("section"))
         mat = _pick(reader, materials, mat_id, "material", where, "material" in spec)
+        taper, sec_names = None, sec_id
+        if kind == "beam" and "curve" in spec and ("taper" in spec
+                                                   or isinstance(sec_id, list)):
+            raise reader.err(where + (".taper" if "taper" in spec else ".section"),
+                             "a curved beam is prismatic here: give one section and leave "
+                             "out taper, or leave out curve")
+        if kind == "beam" and ("taper" in spec or isinstance(sec_id, list)):
+            sec_id, taper = _taper(reader, spec, where, mat, sections,
+                                   math.hypot(b.x - a.x, b.y - a.y))
         sec = _pick(reader, sections, sec_id, "section", where, "section" in spec)
         EA, EI = _stiffnesses(reader, kind, spec, where, mat, sec, sec_id)
         GAs = None
@@ -85,7 +94,7 @@ def read_members(reader: CaseReader, specs: list[MemberSpec], nodes: dict[str, N
                 raise reader.err(where + ".hinges", 'expected ["start"], ["end"] or '
                                  f'["start", "end"], got {shown(hinges)}')
         members[mid] = Member(
-            id=mid, kind=kind, start=ends[0], end=ends[1], EA=EA, EI=EI, GAs=GAs,
+            id=mid, kind="tapered" if taper else kind, start=ends[0], end=ends[1], EA=EA, EI=EI, GAs=GAs,
             alpha=mat.get("alpha") if mat else None,
             depth=sec.get("depth") if sec else None,
             hinge_start="start" in hinges, hinge_end="end" in hinges,
@@ -98,6 +107,12 @@ def read_members(reader: CaseReader, specs: list[MemberSpec], nodes: dict[str, N
             section_modulus=_section_modulus(sec),
             curve=_curve(reader, spec, where, math.hypot(b.x - a.x, b.y - a.y))
             if "curve" in spec else None,
+            taper=taper,
+            material=mat_id if mat is not None else None,
+            section=(" -> ".join(map(str, sec_names)) if isinstance(sec_names, list)
+                     else sec_id) if sec is not None else None,
+            E=mat.get("E") if mat else None,
+            I=sec.get("I") if sec else None,
         )
     return members
 
@@ -149,6 +164,68 @@ def _end_springs(reader: CaseReader, spec: dict, where: str,
                              "have a joint spring; give one or the other")
         out.append(reader.positive(table[end], "rotational stiffness", f"{key}.{end}"))
     return (out[0], out[1])
+_TAPERS = ("linear", "depth")
+#: relative agreement asked of the end section of a "depth" taper with the start's
+_DEPTH_RTOL = 1e-3
+
+
+def _taper(reader: CaseReader, spec: dict, where: str, mat: dict | None, sections: dict,
+           length: float) -> tuple[str, Taper]:
+    """The start section's name and the end section (:class:`Taper`) of a tapered beam:
+    ``section = ["start", "end"]`` with ``taper = "linear"`` or ``"depth"``."""
+    names = spec.get("section")
+    law = spec.get("taper")
+    if law is None:
+        raise reader.err(where + ".taper", 'a section pair ["start", "end"] needs taper = '
+                         '"linear" or "depth"')
+    if law not in _TAPERS:
+        raise reader.err(where + ".taper", 'expected "linear" (A and I vary linearly) or '
+                         '"depth" (a solid rectangle whose depth varies linearly), got '
+                         f"{shown(law)}")
+    if not (isinstance(names, list) and len(names) == 2
+            and all(isinstance(n, str) for n in names)):
+        raise reader.err(where + ".section", "a tapered beam needs two section names "
+                         f'["start", "end"], got {shown(names)}')
+    for key in ("EI", "EA"):
+        if key in spec:
+            raise reader.err(where + "." + key, "a tapered beam takes its stiffnesses from "
+                             f"its two sections; remove {key}")
+    secs = [_pick(reader, sections, n, "section", where, True) for n in names]
+    E = mat.get("E") if mat else None
+    if E is None:
+        raise reader.err(where, "a tapered beam needs a material with E")
+    for n, sec in zip(names, secs, strict=True):
+        if "I" not in sec:
+            raise reader.err(f"[sections.{n}]", f'needs I (section "{echo(n)}" ends the '
+                             f"tapered beam {where})")
+    s0, s1 = secs
+    if law == "depth":
+        for n, sec in zip(names, secs, strict=True):
+            if "depth" not in sec:
+                raise reader.err(f"[sections.{n}]", 'needs depth for taper = "depth"')
+        r = s1["depth"] / s0["depth"]
+        for key, want in (("I", s0["I"] * r**3), ("A", s0["A"] * r if "A" in s0 else None)):
+            if want is None or abs(s1.get(key, want) - want) <= _DEPTH_RTOL * abs(want):
+                continue
+            unit = "m^4" if key == "I" else "m^2"
+            raise reader.err(where + ".section", f'taper = "depth" needs the end section '
+                             f'"{echo(names[1])}" to agree with the start: {key} = {key}_start '
+                             f"(d_end/d_start)^{3 if key == 'I' else 1} = {want:.6g} {unit}, "
+                             f"got {s1[key]:.6g} {unit}; give matching sections or taper = \"linear\"")
+    G = mat.get("G") if mat else None
+    weight = (mat["unit_weight"] * s1["A"]
+              if mat and "unit_weight" in mat and "A" in s1 else None)
+    taper = Taper(
+        law=law, EA=E * s1["A"] if "A" in s1 else None, EI=E * s1["I"],
+        GAs=G * s1["shear_area"] if G is not None and "shear_area" in s1 else None,
+        depth=s1.get("depth"), weight=weight, area=s1.get("A"),
+        section_modulus=_section_modulus(s1), length=length)
+    if (taper.EA is None) != ("A" not in s0):
+        raise reader.err(where + ".section", "both sections of a tapered beam need A, or "
+                         "neither (axially rigid)")
+    return names[0], taper
+
+
 def _section_modulus(sec: dict | None) -> float | None:
     """Elastic section modulus (m^3): the section's S, else I / (depth / 2)."""
     if not sec:

@@ -29,7 +29,13 @@ __all__ = ["load_case", "loads_case", "read_structure", "structure"]
 _TABLES = (
     "structure", "parameters", "materials", "sections", "defaults", "nodes", "beams",
     "bars", "supports", "loads", "combinations", "analysis", "patterns", "envelopes",
+    "project",
 )
+
+#: ``[project]`` keys: the calculation sheet's title block (all optional, free text).
+PROJECT_KEYS = ("title", "job", "client", "by", "checked", "revision")
+#: Longest text of a ``[project]`` entry.
+PROJECT_TEXT_LIMIT = 200
 
 
 def load_case(path: str | Path) -> Structure:
@@ -79,7 +85,12 @@ def structure(source: str = "<python>", **tables) -> Structure:
 
 
 def read_structure(reader: CaseReader) -> Structure:
-    """The structure of the parsed case ``reader.data``, every table checked."""
+    """The structure of the parsed case ``reader.data``, every table checked (a case whose
+    nodes have three coordinates is a space structure: :mod:`leastwork.space`)."""
+    from ..space.reader import is_space_case, read_space
+
+    if is_space_case(reader.data):
+        return read_space(reader)  # type: ignore[return-value]
     name = _head(reader)
     # the checks that read no quantity first: a large case with a wrong id or a stray
     # node is refused before its values are read
@@ -107,7 +118,7 @@ def read_structure(reader: CaseReader) -> Structure:
         units=reader.units, redundants=redundants, displacements=displacements, shear=shear,
         source=reader.source, case_order=tuple(case_order), combinations=combinations,
         deflection_limits=limits,
-        patterns=patterns, envelope_groups=groups,
+        patterns=patterns, envelope_groups=groups, project=_project(reader),
     )
 
 
@@ -129,6 +140,27 @@ def _head(reader: CaseReader) -> str:
         reader.ident(f"[parameters] {pname}", pname, "parameter")
     reader.define_parameters(params)
     return name
+
+
+def _project(reader: CaseReader) -> tuple[tuple[str, str], ...]:
+    """``[project]``: title, job, client, by, checked, revision as one-line texts (a number
+    such as revision = 2 is read as its text), in that order."""
+    table = reader.table("project")  # a table (refused otherwise by reader.table)
+    reader.keys_known("[project]", table, PROJECT_KEYS)
+    out = []
+    for key in PROJECT_KEYS:
+        if key not in table:
+            continue
+        value = table[key]
+        if isinstance(value, bool) or not isinstance(value, (str, int)):
+            raise reader.err(f"[project] {key}", f"expected text, got {kind_of(value)}")
+        text = " ".join(str(value).split())
+        if len(text) > PROJECT_TEXT_LIMIT:
+            raise reader.err(f"[project] {key}", f"expected at most {PROJECT_TEXT_LIMIT} "
+                             f"characters, got {len(text)}")
+        if text:
+            out.append((key, text))
+    return tuple(out)
 
 
 def _units(reader: CaseReader, spec: Any) -> UnitSystem:

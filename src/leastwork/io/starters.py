@@ -533,6 +533,133 @@ redundants = ["CB"]
 displacements = ["B.y", "B.x", "C-B"]
 """
 
+_HAUNCHED_PORTAL = """\
+# Glued-laminated timber portal for a riding-arena shed, with tapered rafters.
+#
+# Structure : a 15 m span portal, 5.0 m to the eaves, 1.5 m rise to the apex, frames at
+#             5 m centres. Columns are 140 x 600 mm solid glulam. Each rafter is cut from
+#             one tapered glulam blank: 900 mm deep at the eaves knee, 600 mm at the end
+#             of the knee haunch 3 m along the span, 450 mm at the apex. Rigid knee and
+#             apex joints (glued-in rods), both column bases fixed.
+# Shows     : tapered beams (section = [start, end], taper = "depth": a solid rectangle
+#             whose depth varies linearly, A ~ d and I ~ d^3) beside prismatic ones; the
+#             energy of a tapered member integrated numerically (see --steps: the
+#             integrand of each coefficient along the taper and the error bound); self
+#             weight that tapers with the section; a wind case.
+# Degree    : 3 (0 internal) - two fixed bases = 6 reactions, 3 equations of statics.
+# Try       : leastwork check haunched-portal.toml
+#             leastwork solve haunched-portal.toml --case roof --steps
+#             leastwork solve haunched-portal.toml --redundants A.x,A.y,BF.start.m
+#             leastwork plot haunched-portal.toml --case roof -o portal.png
+
+# name printed on the results; units of bare numbers (force, length)
+[structure]
+name = "Glulam portal with tapered rafters, 15 m span"
+units = { force = "kN", length = "m" }
+
+# the geometry, used in the node coordinates below
+[parameters]
+span = "15 m"
+eaves = "5.0 m"
+rise = "1.5 m"
+knee = "3.0 m"           # horizontal length of each knee haunch
+
+# glued-laminated timber
+[materials.glulam]       # strength class GL24h, mean stiffness, long-term creep not included
+E = "11.5 GPa"
+density = "4.2 kN/m^3"
+
+# solid rectangles 140 mm wide; "depth" is what a depth taper interpolates
+[sections.column]        # 140 x 600
+A = "0.084 m^2"
+I = "2.52e-3 m^4"
+depth = "600 mm"
+
+[sections.knee]          # 140 x 900, rafter at the eaves knee
+A = "0.126 m^2"
+I = "8.505e-3 m^4"
+depth = "900 mm"
+
+[sections.rafter]        # 140 x 600, end of the knee haunch
+A = "0.084 m^2"
+I = "2.52e-3 m^4"
+depth = "600 mm"
+
+[sections.apex]          # 140 x 450
+A = "0.063 m^2"
+I = "1.063125e-3 m^4"
+depth = "450 mm"
+
+# what a member uses when it names no material or section
+[defaults]
+material = "glulam"
+section = "column"
+
+# x, y in m; F and G end the knee haunches
+[nodes]
+A = [0, 0]                                   # left base
+B = [0, "eaves"]                             # left eaves knee
+F = ["knee", "eaves + rise * knee / (span/2)"]          # end of the left haunch
+C = ["span/2", "eaves + rise"]               # apex
+G = ["span - knee", "eaves + rise * knee / (span/2)"]   # end of the right haunch
+D = ["span", "eaves"]                        # right eaves knee
+E = ["span", 0]                              # right base
+
+# columns prismatic; each rafter two tapered beams: knee to F, F to the apex
+[beams]
+AB = { nodes = ["A", "B"] }
+BF = { nodes = ["B", "F"], section = ["knee", "rafter"], taper = "depth" }
+FC = { nodes = ["F", "C"], section = ["rafter", "apex"], taper = "depth" }
+CG = { nodes = ["C", "G"], section = ["apex", "rafter"], taper = "depth" }
+GD = { nodes = ["G", "D"], section = ["rafter", "knee"], taper = "depth" }
+ED = { nodes = ["E", "D"] }
+
+# both column bases fixed into their foundations
+[supports]
+A = "fixed"
+E = "fixed"
+
+# ---- roof: 0.35 kN/m^2 roofing + 0.9 kN/m^2 snow on 5 m frame spacing ----
+[[loads]]
+case = "roof"
+self_weight = true
+
+[[loads]]
+case = "roof"
+member = "BF"
+wy = "-6.25 kN/m"
+
+[[loads]]
+case = "roof"
+member = "FC"
+wy = "-6.25 kN/m"
+
+[[loads]]
+case = "roof"
+member = "CG"
+wy = "-6.25 kN/m"
+
+[[loads]]
+case = "roof"
+member = "GD"
+wy = "-6.25 kN/m"
+
+# ---- wind from the left: 0.5 kN/m^2 pressure, 0.3 kN/m^2 suction, 5 m spacing ----
+[[loads]]
+case = "wind"
+member = "AB"
+wx = "2.5 kN/m"
+
+[[loads]]
+case = "wind"
+member = "ED"
+wx = "1.5 kN/m"
+
+# the apex drop, the eaves sway and the spread of the eaves
+[analysis]
+displacements = ["C.y", "B.x", "D.x", "B-D"]
+"""
+
 #: kind -> (one-line description, case file text)
 STARTERS: dict[str, tuple[str, str]] = {
     "propped-beam": ("a beam fixed at one end and resting on a support at the other "
@@ -550,6 +677,8 @@ STARTERS: dict[str, tuple[str, str]] = {
                              BRACED_BAY_TENSION_ONLY),
     "us-propped-beam": ("a floor beam built in and propped, in kip, ft, in, ksi, with a "
                         "deflection limit L/360", US_PROPPED_BEAM),
+    "haunched-portal": ("a glulam portal with tapered rafters and fixed bases (degree 3), "
+                        "roof and wind cases", _HAUNCHED_PORTAL),
 }
 
 

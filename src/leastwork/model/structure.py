@@ -20,6 +20,7 @@ __all__ = [
     "Node",
     "Member",
     "Curve",
+    "Taper",
     "Restraint",
     "Support",
     "reaction_components",
@@ -63,6 +64,26 @@ class Curve:
 
 
 @dataclass(frozen=True)
+class Taper:
+    """The end section of a tapered beam (the member's own values are its start section).
+
+    ``law`` "linear": EA, EI, GAs, the area and the own weight vary linearly from start to
+    end; "depth": a solid rectangle whose depth varies linearly, A and GAs as the depth
+    ratio r = d(x)/d_start, I as r^3 (the end values then follow from the start's).
+    """
+
+    law: Literal["linear", "depth"]
+    EA: float | None  #: N, at the end
+    EI: float  #: N*m^2, at the end
+    GAs: float | None = None  #: N, at the end
+    depth: float | None = None  #: m, at the end
+    weight: float | None = None  #: N/m, at the end
+    area: float | None = None  #: m^2, at the end
+    section_modulus: float | None = None  #: m^3, at the end
+    length: float = 0.0  #: m, the member's length when read (x/L along the taper)
+
+
+@dataclass(frozen=True)
 class Member:
     """A beam (bending + axial) or a bar (pin-ended, axial force only).
 
@@ -92,7 +113,7 @@ class Member:
     """
 
     id: str
-    kind: Literal["beam", "bar"]
+    kind: Literal["beam", "bar", "tapered"]
     start: str
     end: str
     EA: float | None = None
@@ -108,10 +129,18 @@ class Member:
     area: float | None = None  #: cross-section area A (m^2), for stresses
     section_modulus: float | None = None  #: elastic section modulus S (m^3), for stresses
     curve: Curve | None = None  #: a curved axis (a beam whose kind is then "curved")
+    taper: Taper | None = None  #: end section of a tapered beam (kind "tapered")
+    #: names of the material and section it was given (None where EA / EI came directly),
+    #: echoed on the calculation sheet with E (Pa) and I (m^4)
+    material: str | None = None
+    section: str | None = None
+    E: float | None = None
+    I: float | None = None  # noqa: E741 (the trade's name for the second moment of area)
 
     @property
     def is_beam(self) -> bool:
-        return self.kind == "beam"
+        """A member in bending (a beam, prismatic or tapered)."""
+        return self.kind in ("beam", "tapered")
 
 
 def rotational_nodes(members) -> set[str]:
@@ -313,6 +342,9 @@ class Structure:
     patterns: tuple[tuple[str, tuple[str, ...]], ...] = ()
     #: ``[envelopes]``: (group, the combinations it covers, pattern variants included)
     envelope_groups: tuple[tuple[str, tuple[str, ...]], ...] = ()
+    #: ``[project]``: the calculation sheet's title block, (key, text) pairs in the
+    #: order of :data:`PROJECT_KEYS` (title, job, client, by, checked, revision)
+    project: tuple[tuple[str, str], ...] = ()
 
     def length(self, member_id: str) -> float:
         """Length along the member's axis (the arc length of a curved member), m."""

@@ -104,10 +104,10 @@ def print_closed_forms(console, sym, case_names=None) -> None:
                 console.print(table)
             current = case
             table = Table(title=user_text(f"Load case {case}"), header_style="bold")
-            table.add_column("quantity")
-            table.add_column("closed form")
-            table.add_column("value", justify="right")
-            table.add_column("unit")
+            table.add_column("quantity", overflow="fold")
+            table.add_column("closed form", overflow="fold")
+            table.add_column("value", justify="right", overflow="fold", min_width=11)
+            table.add_column("unit", overflow="fold")
         table.add_row(user_text(q), user_text(expr), fmt(value), user_text(unit))
     if table is not None:
         console.print(table)

@@ -14,7 +14,8 @@ from __future__ import annotations
 import re
 
 from ..plaintext import literal
-from .sheet import Formula, Grid, Para, Sheet, fmt, split_grid
+from .mathml import tex_number
+from .sheet import Formula, Grid, Para, Sheet, fmt, shown, split_grid
 
 __all__ = ["sheet_markdown", "sheet_latex", "FORMATS", "md_text", "md_block", "md_code",
            "tex_escape"]
@@ -94,9 +95,9 @@ def sheet_markdown(sheet: Sheet, extra: list[tuple[str, list[str]]] | None = Non
     """The sheet as Markdown: headings per step, pipe tables, formulas as code lines.
     Every text of the sheet is escaped by :func:`md_text`; ``extra`` adds sections (title,
     Markdown lines already escaped by the caller) before the cautions."""
-    out = [f"# {md_text(sheet.title)}", "", f"Case file: {md_code(sheet.source, False)}"]
-    for k, v in sheet.meta.items():
-        out.append(f"  \n{md_text(k)}: {md_text(v)}")
+    out = [f"# {md_text(sheet.project.get('title') or sheet.title)}", "",
+           "| title block | |", "|:---|:---|"]
+    out += [f"| {md_text(k)} | {md_text(v)} |" for k, v in sheet.title_block()]
     out += ["", "## Assumptions", ""]
     out += [f"- {md_block(a)}" for a in sheet.assumptions]
     for step in sheet.steps:
@@ -118,6 +119,7 @@ def sheet_markdown(sheet: Sheet, extra: list[tuple[str, list[str]]] | None = Non
 
 
 def _md_table(g: Grid) -> list[str]:
+    g = shown(g)
     out = [f"**{md_text(g.title)}**", ""]
     out.append("| " + " | ".join(_md_cell(h) for h in g.headers) + " |")
     out.append("|" + "|".join(":---" if k < g.keys or all(isinstance(r[k], str) for r in g.rows)
@@ -125,8 +127,8 @@ def _md_table(g: Grid) -> list[str]:
     for r in g.rows:
         out.append("| " + " | ".join(_md_cell(c) for c in r) + " |")
     if g.total:
-        out.append("| " + " | ".join(f"**{_md_cell(c)}**" if fmt(c) else "" for c in g.total)
-                   + " |")
+        out.append("| " + " | ".join(f"**{_md_cell(c)}**" if fmt(c) not in ("", "0") else
+                                     _md_cell(c) for c in g.total) + " |")
     return [*out, ""]
 
 
@@ -136,7 +138,13 @@ _TEX_SPECIAL = {"\\": r"\textbackslash{}", "&": r"\&", "%": r"\%", "$": r"\$", "
 _TEX_UNICODE = {"δ": r"$\delta$", "Δ": r"$\Delta$", "Σ": r"$\Sigma$", "∫": r"$\int$",
                 "∂": r"$\partial$", "·": r"$\cdot$", "α": r"$\alpha$", "—": "---",
                 "−": "-", "²": r"$^2$", "³": r"$^3$", "⁴": r"$^4$", "⁵": r"$^5$",
-                "≤": r"$\le$", "≥": r"$\ge$", "→": r"$\to$"}
+                "≤": r"$\le$", "≥": r"$\ge$", "→": r"$\to$", "×": r"$\times$",
+                "ε": r"$\varepsilon$", "κ": r"$\kappa$", "σ": r"$\sigma$", "±": r"$\pm$",
+                "⁻": r"$^{-}$", "⁰": r"$^0$", "¹": r"$^1$", "⁶": r"$^6$", "⁷": r"$^7$",
+                "⁸": r"$^8$", "⁹": r"$^9$"}
+
+
+_TEX_POWER = re.compile(r"(-?[0-9.]+)×10([⁻⁰¹²³⁴⁵⁶⁷⁸⁹]+)")
 
 
 def tex_escape(text: str) -> str:
@@ -146,13 +154,23 @@ def tex_escape(text: str) -> str:
     >>> tex_escape("δ12 = 5% of M_0")
     '$\\\\delta$12 = 5\\\\% of M\\\\_0'
     """
-    out = []
-    for ch in literal(text):
-        out.append(_TEX_SPECIAL.get(ch) or _TEX_UNICODE.get(ch) or ch)
-    return "".join(out)
+    parts = []
+    last = 0
+    lit = literal(text)
+    for m in _TEX_POWER.finditer(lit):  # 3.071×10⁻⁶ as math
+        parts.append(_tex_chars(lit[last:m.start()]))
+        parts.append(f"${tex_number(m.group(0))}$")
+        last = m.end()
+    parts.append(_tex_chars(lit[last:]))
+    return "".join(parts)
+
+
+def _tex_chars(text: str) -> str:
+    return "".join(_TEX_SPECIAL.get(ch) or _TEX_UNICODE.get(ch) or ch for ch in text)
 
 
 def _tex_table(g: Grid, max_cols: int = 7) -> list[str]:
+    g = shown(g)
     out = []
     for part in split_grid(g, 10 ** 6) if len(g.headers) <= max_cols else _chunks(g, max_cols):
         align = "".join("l" if k < part.keys or all(isinstance(r[k], str) for r in part.rows)
@@ -182,13 +200,24 @@ def _chunks(g: Grid, max_cols: int) -> list[Grid]:
 def sheet_latex(sheet: Sheet, extra: list[tuple[str, list[str]]] | None = None) -> str:
     """The sheet as a standalone LaTeX article (pdflatex). ``extra`` adds sections
     (title, LaTeX lines) before the cautions, e.g. closed forms in symbolic mode."""
+    p = sheet.project
+    head = tex_escape(" · ".join(x for x in (p.get("job"), p.get("title") or sheet.title) if x))
+    foot = tex_escape(" · ".join(x for x in (sheet.source, p.get("revision") and
+                                             f"rev. {p['revision']}",
+                                             sheet.meta.get("Date")) if x))
     out = [r"\documentclass[a4paper,10pt]{article}", r"\usepackage[utf8]{inputenc}",
            r"\usepackage[T1]{fontenc}", r"\usepackage{amsmath}",
-           r"\usepackage[margin=18mm]{geometry}", r"\setlength{\parindent}{0pt}",
-           rf"\title{{{tex_escape(sheet.title)}}}", r"\date{}", r"\begin{document}",
-           r"\maketitle", rf"Case file: \texttt{{{tex_escape(sheet.source)}}}\\"]
-    for k, v in sheet.meta.items():
-        out.append(rf"{tex_escape(k)}: {tex_escape(v)}\\")
+           r"\usepackage[margin=18mm,headheight=14pt]{geometry}",
+           r"\usepackage{fancyhdr}", r"\usepackage{lastpage}",
+           r"\setlength{\parindent}{0pt}", rf"\title{{{tex_escape(sheet.title)}}}",
+           r"\pagestyle{fancy}", r"\fancyhf{}",
+           rf"\lhead{{\small {head}}}", rf"\lfoot{{\small {foot}}}",
+           r"\rfoot{\small Sheet \thepage\ of \pageref{LastPage}}",
+           r"\begin{document}", r"\thispagestyle{fancy}",
+           rf"{{\Large\bfseries {tex_escape(p.get('title') or sheet.title)}}}\par\medskip",
+           r"\begin{tabular}{|l|l|}", r"\hline"]
+    out += [rf"{tex_escape(k)} & {tex_escape(v)} \\ \hline" for k, v in sheet.title_block()]
+    out += [r"\end{tabular}\par\bigskip"]
     out += [r"\section*{Assumptions}", r"\begin{itemize}"]
     out += [rf"\item {tex_escape(a)}" for a in sheet.assumptions]
     out += [r"\end{itemize}"]

@@ -17,11 +17,13 @@ from urllib.parse import quote
 
 from ..errors import CaseError
 from ..plaintext import literal
+from .conventions import moment_convention
+from .mathml import latex_mathml
 from .quantities import quantities
-from .reported import case_numbers
-from .sheet import Formula, Grid, Para, Sheet, fmt, split_grid
+from .reported import case_numbers, redundants_shown
+from .sheet import Formula, Grid, Para, Sheet, fmt, shown, split_grid
 
-__all__ = ["report_html", "report_markdown_files", "image_names", "default_meta", "summary_grids", "CSS",
+__all__ = ["report_html", "title_block_html", "page_css", "report_markdown_files", "image_names", "default_meta", "summary_grids", "CSS",
            "HTML_TABLE_WIDTH"]
 
 #: Widest table (characters) before it is split into parts repeating its key columns.
@@ -50,9 +52,15 @@ th, td { border: 1px solid #c8c8c8; padding: 0.5mm 1.8mm; vertical-align: top; }
 th { background: var(--head); text-align: left; font-weight: bold; }
 td.num { text-align: right; white-space: nowrap; }
 tr.total td { font-weight: bold; border-top: 2px solid #555; }
-.formula { font-family: "DejaVu Sans Mono", "Liberation Mono", Consolas, monospace;
-           font-size: 9pt; background: #f4f4f4; border-left: 3px solid #c8c8c8;
-           padding: 1mm 2.5mm; margin: 1.5mm 0; white-space: pre-wrap; }
+tr.total td.zero { font-weight: normal; }
+.formula { font-size: 10.5pt; background: #f6f6f6; border-left: 3px solid #c8c8c8;
+           padding: 1mm 2.5mm; margin: 1.5mm 0; overflow-x: auto; }
+.formula math { font-size: 11pt; margin: 0; }
+.formula.text { font-family: "DejaVu Sans Mono", "Liberation Mono", Consolas, monospace;
+                font-size: 9pt; white-space: pre-wrap; }
+table.titleblock { font-size: 9pt; width: 100%; table-layout: fixed; margin: 0 0 4mm; }
+table.titleblock th { width: 16%; font-weight: normal; color: var(--muted); }
+table.titleblock td { width: 34%; }
 .tone-note { color: var(--muted); }
 .tone-warning { background: var(--warn-bg); border-left: 4px solid var(--warn-edge);
                 color: var(--warn); padding: 1.5mm 3mm; }
@@ -68,15 +76,16 @@ footer { margin-top: 8mm; color: var(--muted); font-size: 9pt;
          border-top: 1px solid var(--rule); padding-top: 2mm; }
 @page { size: A4; margin: 14mm 12mm 16mm; }
 @media print {
-  body { max-width: none; margin: 0; padding: 0; font-size: 9.5pt; }
-  section.step, section.diagrams, figure.case { break-before: page; }
-  section.diagrams figure.case:first-of-type { break-before: avoid; }
+  body { max-width: none; margin: 0; padding: 0; font-size: 9pt; line-height: 1.35; }
+  table { font-size: 8pt; margin: 1mm 0 2.5mm; }
+  h2 { margin: 5mm 0 1.5mm; }
+  section.diagrams, section.cautions { break-before: page; }
   h2, h3, .tt { break-after: avoid; }
   tr, .formula, .tone-warning, .tone-alarm, figure, .caution { break-inside: avoid; }
   table.short { break-inside: avoid; }
   thead { display: table-header-group; }
-  .scroll { overflow: visible; }
-  figure svg { max-height: 240mm; }
+  .scroll, .formula { overflow: visible; }
+  figure svg { max-height: 235mm; }
   a { color: inherit; text-decoration: none; }
 }
 """.strip()
@@ -121,7 +130,7 @@ def _para(b: Para) -> str:
 
 def _table(g: Grid) -> str:
     out = []
-    for part in split_grid(g, HTML_TABLE_WIDTH):
+    for part in split_grid(shown(g), HTML_TABLE_WIDTH):
         numeric = [not all(isinstance(r[k], str) for r in part.rows) and k >= part.keys
                    for k in range(len(part.headers))]
         nrows = len(part.rows) + (1 if part.total else 0)
@@ -142,7 +151,9 @@ def _table(g: Grid) -> str:
 
 
 def _cell(value, numeric: bool) -> str:
-    cls = ' class="num"' if numeric and not isinstance(value, str) else ""
+    number = not isinstance(value, str)
+    cls = (' class="num zero"' if number and value == 0 else ' class="num"') \
+        if numeric and number else ""
     return f"<td{cls}>{_e(fmt(value))}</td>"
 
 
@@ -152,7 +163,8 @@ def _blocks(blocks) -> str:
         if isinstance(b, Para):
             out.append(_para(b))
         elif isinstance(b, Formula):
-            out.append(f'<div class="formula">{_e(b.text)}</div>')
+            out.append(f'<div class="formula">{latex_mathml(b.latex, b.text)}</div>'
+                       if b.latex else f'<div class="formula text">{_e(b.text)}</div>')
         else:
             out.append(_table(b))
     return "\n".join(out)
@@ -171,9 +183,10 @@ def summary_grids(sol, cases: list[str]) -> list[Grid]:
     numbers = {c: case_numbers(sol, c) for c in cases}
     grids = []
     names = sol.redundant_names
+    shown_x = {c: redundants_shown(sol, c) for c in cases}
     if names:
         rows = tuple((f"X{i + 1}", n, _redundant_unit(sol, j),
-                      *[numbers[c].redundants[n] for c in cases])
+                      *[shown_x[c][n] for c in cases])
                      for i, (n, j) in enumerate(zip(names, sol.redundant_columns,
                                                     strict=True)))
         grids.append(Grid("The redundants", ("X", "redundant", "unit", *cases), rows, keys=3))
@@ -195,7 +208,68 @@ def summary_grids(sol, cases: list[str]) -> list[Grid]:
                       ("case", f"residual [{sol.units.force}]", "tolerance",
                        "equilibrium", "difference (relative)", "at", "cross-check"),
                       tuple(rows)))
+    grids.append(_reactions_summary(sol, cases, numbers))
+    grids.append(_governing_summary(sol, cases, numbers))
     return grids
+
+
+def _reactions_summary(sol, cases: list[str], numbers) -> Grid:
+    """Every support's reaction components in every load case (output units)."""
+    q = quantities(sol.units)
+    dirs = [d for d in ("x", "y", "rz", "n")
+            if any(d in comps for c in cases for comps in numbers[c].reactions.values())]
+    unit = {"x": q.force_unit, "y": q.force_unit, "rz": q.moment_unit, "n": q.force_unit}
+    name = {"x": "x", "y": "y", "rz": "moment rz", "n": "normal n"}
+    rows = tuple((c, node, *[comps.get(d, "-") for d in dirs])
+                 for c in cases for node, comps in numbers[c].reactions.items())
+    return Grid("Reactions (forces the supports apply to the structure; x right, y up, "
+                "moments counter-clockwise +)",
+                ("case", "support", *[f"{name[d]} [{unit[d]}]" for d in dirs]), rows, keys=2)
+
+
+def _governing_summary(sol, cases: list[str], numbers) -> Grid:
+    """Per load case: the largest axial force, shear force, sagging and hogging moment
+    (where and at what distance from the member's start), and the largest beam deflection
+    with its limit ratio when the case gives limits; round-off as zero."""
+    q = quantities(sol.units)
+    fu, mu, du, lu = q.force_unit, q.moment_unit, q.displacement_unit, q.length_unit
+    rows = []
+    for c in cases:
+        members = numbers[c].members
+        if not members:
+            continue
+        ends = [(mj[e][k], mid, mj_at, k) for mid, mj in members.items()
+                for e, mj_at in (("start", 0.0), ("end", None)) for k in ("n", "v")]
+        for k, label in (("n", "axial force n (tension +)"), ("v", "shear force v")):
+            vals = [(v, mid, at) for v, mid, at, kk in ends if kk == k and v is not None]
+            if k == "v" and not any(sol.structure.members[m].is_beam for m in members):
+                continue
+            if vals:
+                v, mid, at = max(vals, key=lambda t: abs(t[0]))
+                end = "start" if at == 0.0 else "end"
+                rows.append((c, label, v, fu, mid if v != 0 else "-", end if v != 0 else "-"))
+        beams = [mid for mid in members if sol.structure.members[mid].is_beam]
+        if beams:
+            hi = max(((members[m]["m_max"]["value"], m, members[m]["m_max"]["at"])
+                      for m in beams), key=lambda t: t[0])
+            lo = min(((members[m]["m_min"]["value"], m, members[m]["m_min"]["at"])
+                      for m in beams), key=lambda t: t[0])
+            for label, (v, mid, at) in (("largest moment m (most positive)", hi),
+                                        ("smallest moment m (most negative)", lo)):
+                rows.append((c, label, v, mu, mid if v != 0 else "-",
+                             f"{fmt(at)} {lu}" if v != 0 else "-"))
+            d = max(((members[m]["deflection"]["value"] or 0.0, m) for m in beams),
+                    key=lambda t: t[0])
+            if d[0]:
+                info = members[d[1]]["deflection"]
+                ratio = "" if info.get("ratio") is None else \
+                    f"; {fmt(info['ratio'], 3)} of the limit" + (
+                        " — OVER THE LIMIT" if info["ratio"] > 1 else "")
+                rows.append((c, "largest beam deflection (from the chord)", d[0], du, d[1],
+                             f"{fmt(info['at'])} {lu}{ratio}"))
+    return Grid("Governing section forces and deflection (on members; ends for n and v, "
+                "extremes along the member for m)",
+                ("case", "quantity", "value", "unit", "member", "where"), tuple(rows), keys=2)
 
 
 def _inputs(sol) -> str:
@@ -207,8 +281,11 @@ def _inputs(sol) -> str:
     out = [f"<p>Units of the case: forces in {_e(st.units.force)}, lengths in {_e(lu)}"
            f"{named}; every number below is in these units.</p>"]
     lf = quantities(st.units).factor("length")
+    from .audit.structure import support_kind
+
     rows = tuple((n.id, n.x / lf, n.y / lf,
-                  "yes" if n.id in st.supports else "-") for n in st.nodes.values())
+                  support_kind(st.supports[n.id]) if n.id in st.supports else "-")
+                 for n in st.nodes.values())
     out.append(_table(Grid("Nodes", ("node", f"x [{lu}]", f"y [{lu}]", "support"), rows)))
     opts = [("redundants", ", ".join(sol.redundant_names) or "none (statically determinate)"),
             ("chosen by", "the user" if sol.chosen_by_user else "the tool"),
@@ -228,7 +305,7 @@ def _diagrams(sol, cases: list[str]) -> str:
         svg = _inline_svg(figure_svg(sol, c), f"Diagrams of load case {c}", f"fig{k}-")
         out.append(f'<figure class="case">{svg}<figcaption>Load case {_e(c)}: the structure '
                    "with its loads and redundants, the axial force n, shear force v and "
-                   "bending moment m along each member (m drawn on the tension side), and "
+                   f"bending moment m along each member ({moment_convention()}), and "
                    "the deflected shape, magnified as stated.</figcaption></figure>")
     return "\n".join(out)
 
@@ -265,15 +342,46 @@ def report_html(sol, case_names=None, meta: dict[str, str] | None = None) -> str
     return _document(sol, sheet, cases)
 
 
+def title_block_html(sheet: Sheet) -> str:
+    """The title block (:meth:`Sheet.title_block`) as a two-pairs-a-row table."""
+    rows = sheet.title_block()
+    cells = [f"<th>{_e(k)}</th><td>{_e(v)}</td>" for k, v in rows]
+    if len(cells) % 2:
+        cells.append("<th></th><td></td>")
+    trs = "".join(f"<tr>{cells[i]}{cells[i + 1]}</tr>" for i in range(0, len(cells), 2))
+    return f'<table class="titleblock short" aria-label="title block"><tbody>{trs}</tbody></table>'
+
+
+def _css_string(text: str) -> str:
+    """Text as a CSS string literal inside a <style> element: quotes, backslashes, line
+    breaks and the HTML characters < > & ' written as CSS escapes (so that "</style>" in a
+    name cannot end the style sheet)."""
+    body = "".join(ch if ch.isprintable() and ch not in '"\\<>&\'' else f"\\{ord(ch):x} "
+                   for ch in literal(text, 80))
+    return f'"{body}"'
+
+
+def page_css(sheet: Sheet) -> str:
+    """Printed pages: the job and structure at the top of each page, and "Sheet n of N"
+    with the date at its foot (CSS page margin boxes)."""
+    p = sheet.project
+    top = " · ".join(x for x in (p.get("job"), p.get("title") or sheet.title) if x)
+    date = sheet.meta.get("Date", "")
+    rev = p.get("revision")
+    foot = " · ".join(x for x in (sheet.source, f"rev. {rev}" if rev else "", date) if x)
+    return ("@page { @top-left { content: " + _css_string(top) + "; font-size: 8pt; "
+            "color: #5a5a5a; } @bottom-left { content: " + _css_string(foot)
+            + "; font-size: 8pt; color: #5a5a5a; } @bottom-right { content: \"Sheet \" "
+            "counter(page) \" of \" counter(pages); font-size: 8pt; } }")
+
+
 def _document(sol, sheet: Sheet, cases: list[str]) -> str:
     head = ['<!DOCTYPE html>', '<html lang="en">', "<head>", '<meta charset="utf-8"/>',
             '<meta name="viewport" content="width=device-width, initial-scale=1"/>',
             f"<title>{_e(sheet.title)} — calculation report</title>",
-            f"<style>\n{CSS}\n</style>", "</head>", "<body>"]
-    meta = "".join(f"<span>{_e(k)}: {_e(v)}</span>" for k, v in sheet.meta.items())
-    body = ["<header>", f"<h1>{_e(sheet.title)}</h1>",
-            f'<p class="meta"><span>Case file: {_e(sheet.source)}</span>{meta}</p>',
-            "</header>"]
+            f"<style>\n{CSS}\n{page_css(sheet)}\n</style>", "</head>", "<body>"]
+    body = ["<header>", f"<h1>{_e(sheet.project.get('title') or sheet.title)}</h1>",
+            title_block_html(sheet), "</header>"]
     body += ['<section class="summary">', "<h2>Summary</h2>"]
     body += [_table(g) for g in summary_grids(sol, cases)]
     if not sol.equilibrium_ok or not sol.cross_check_ok:

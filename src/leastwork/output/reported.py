@@ -19,7 +19,7 @@ from ..displacements import deflection_extreme, relative_deflection
 from ..stresses import stress_extremes
 from .quantities import quantities
 
-__all__ = ["ROUND_OFF", "CaseNumbers", "case_numbers", "flexibility_rows", "envelope_numbers",
+__all__ = ["ROUND_OFF", "CaseNumbers", "case_numbers", "redundants_shown", "flexibility_rows", "envelope_numbers",
            "reactions", "number"]
 
 #: Fraction of a case's scale below which a reported number is round-off (shown as zero).
@@ -63,19 +63,6 @@ class _RoundOff:
 
     def moment(self, x: float) -> float | None:
         return number(0.0 if abs(x) <= self.m_tol else x / self.Mf)
-
-    def is_round_off(self, x: float, col) -> bool:
-        """Whether the value ``x`` (SI) of column ``col`` (a force or, for an end moment
-        or a rotational reaction, a moment) is round-off."""
-        moment = col.kind in ("start_m", "end_m") or col.name.endswith(".rz")
-        return abs(x) <= (self.m_tol if moment else self.f_tol)
-
-
-def redundant_value(sol, res, i: int) -> float:
-    """Redundant ``i`` of load case ``res`` in SI, round-off as zero (for drawings)."""
-    col = sol.topology.columns[sol.redundant_columns[i]]
-    x = float(res.redundants[i])
-    return 0.0 if _RoundOff(sol, res).is_round_off(x, col) else x
 
 
 def reactions(sol, res) -> dict[str, dict[str, float | None]]:
@@ -174,9 +161,8 @@ def case_numbers(sol, name: str) -> CaseNumbers:
     red_cols = [sol.topology.columns[j] for j in sol.redundant_columns]
     x_unit = [q.column_factor(c) for c in red_cols]
     d_unit = [q.conjugate_factor(c) for c in red_cols]
-    r = _RoundOff(sol, res)
     return CaseNumbers(
-        redundants={c.name: number(0.0 if r.is_round_off(x, c) else x / xu)
+        redundants={c.name: number(x / xu)
                     for c, x, xu in zip(red_cols, res.redundants, x_unit, strict=True)},
         amplitudes=None if res.amplitudes is None else [
             number(x / xu) for x, xu in zip(res.amplitudes, x_unit, strict=True)],
@@ -186,6 +172,26 @@ def case_numbers(sol, name: str) -> CaseNumbers:
         members=_members(sol, res),
         displacements=_displacements(sol, res),
         checks=_checks(sol, res))
+
+
+def redundants_shown(sol, name: str) -> dict[str, float | None]:
+    """The redundants of load case ``name`` as the sheets and the terminal show them: the
+    reported values (:func:`case_numbers`, the JSON's) with round-off as zero — a force
+    within ``ROUND_OFF`` of the case's force scale, a moment within that times the longest
+    member (a redundant of 3.7×10⁻¹⁶ kip in a symmetric case is 0)."""
+    res = sol.cases[name]
+    r = _RoundOff(sol, res)
+    out = {}
+    for j, x in zip(sol.redundant_columns, res.redundants, strict=True):
+        col = sol.topology.columns[j]
+        tol = r.m_tol if col.is_moment else r.f_tol
+        out[col.name] = 0.0 if abs(float(x)) <= tol else case_numbers_value(sol, col, x)
+    return out
+
+
+def case_numbers_value(sol, col, x: float) -> float | None:
+    """A redundant (SI) in the output units, as :func:`case_numbers` gives it."""
+    return number(x / quantities(sol.units).column_factor(col))
 
 
 def flexibility_rows(sol) -> list[list[float | None]]:

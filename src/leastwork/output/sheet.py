@@ -10,18 +10,38 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass, field
 
-__all__ = ["Para", "Formula", "Grid", "Step", "Sheet", "fmt", "split_grid", "SIGNIFICANT"]
+__all__ = ["Para", "Formula", "Grid", "Step", "Sheet", "fmt", "split_grid", "SIGNIFICANT", "shown",
+           "zero_round_off", "COLUMN_ROUND_OFF"]
 
-#: Significant figures of every number shown on a sheet.
-SIGNIFICANT = 6
+#: Significant figures of every number shown on a sheet (engineering rounding).
+SIGNIFICANT = 4
+#: Magnitudes from ``FIXED_LOW`` up to (not including) ``FIXED_HIGH`` are written in fixed
+#: notation; others as a mantissa times a power of ten (``3.071×10⁻⁶``), never ``e-06``.
+FIXED_LOW, FIXED_HIGH = 1e-3, 1e6
+#: Relative size below which a number in a table column is round-off (shown as 0), measured
+#: against the largest magnitude in that column.
+COLUMN_ROUND_OFF = 1e-9
+
+_SUPERSCRIPT = str.maketrans("-0123456789", "⁻⁰¹²³⁴⁵⁶⁷⁸⁹")
+
+
+def _trim(text: str, exact: bool) -> str:
+    """Trailing zeros dropped when the number is exactly that short (an input such as 4 m
+    reads "4"), kept when rounding made them significant (45.00)."""
+    if exact and "." in text:
+        text = text.rstrip("0").rstrip(".")
+    return text
 
 
 def fmt(x: float | str, sig: int = SIGNIFICANT) -> str:
-    """A number with ``sig`` significant figures, no trailing zeros, a true minus sign kept
-    as ASCII '-', and exponents written ``1.5e-07``; strings pass through.
+    """A number rounded to ``sig`` significant figures the way an engineer writes it:
+    fixed notation from 0.001 to below a million, otherwise ``m×10ⁿ`` with Unicode
+    superscripts (never e-notation); trailing zeros kept where rounding made them
+    significant, dropped where the number is exact (``4``, ``0.8``); zero as ``0``, a true
+    minus sign kept as ASCII '-'; strings pass through.
 
-    >>> fmt(0.1 + 0.2), fmt(-1234567.0), fmt(2.5e-9), fmt(0.0), fmt("x")
-    ('0.3', '-1.23457e+06', '2.5e-09', '0', 'x')
+    >>> fmt(0.1 + 0.2), fmt(-1234567.0), fmt(2.5e-9), fmt(0.0), fmt(45.0004), fmt("x")
+    ('0.3', '-1.235×10⁶', '2.5×10⁻⁹', '0', '45.00', 'x')
     """
     if isinstance(x, str):
         return x
@@ -30,7 +50,23 @@ def fmt(x: float | str, sig: int = SIGNIFICANT) -> str:
         return "0"
     if not math.isfinite(x):
         return str(x)
-    return f"{x:.{sig}g}"
+    sig = max(1, int(sig))
+    rounded = float(f"{x:.{sig - 1}e}")
+    exact = abs(rounded - x) <= 1e-12 * abs(x)
+    exp = math.floor(math.log10(abs(rounded)))
+    if FIXED_LOW <= abs(rounded) < FIXED_HIGH:
+        return _trim(f"{rounded:.{max(sig - 1 - exp, 0)}f}", exact)
+    text = _trim(f"{rounded / 10.0 ** exp:.{sig - 1}f}", exact)
+    return f"{text}×10{str(exp).translate(_SUPERSCRIPT)}"
+
+
+def zero_round_off(values: list[float | str], rel: float = COLUMN_ROUND_OFF) -> list:
+    """The numbers of one table column with those below ``rel`` times the column's largest
+    magnitude set to 0.0 (round-off of sums and differences, shown as 0); text untouched."""
+    nums = [abs(float(v)) for v in values if not isinstance(v, str) and math.isfinite(float(v))]
+    top = max(nums, default=0.0)
+    return [v if isinstance(v, str) or not math.isfinite(float(v)) or abs(float(v)) > rel * top
+            else 0.0 for v in values]
 
 
 @dataclass(frozen=True)
@@ -84,6 +120,21 @@ class Sheet:
     steps: tuple[Step, ...]
     cautions: tuple[str, ...]
     meta: dict[str, str] = field(default_factory=dict)  #: tool version, date...
+    #: ``[project]`` of the case: title, job, client, by, checked, revision (those given)
+    project: dict[str, str] = field(default_factory=dict)
+
+    def title_block(self) -> list[tuple[str, str]]:
+        """The title block as (label, text) rows, in the order a sheet shows them: project,
+        job, client, structure, case file (its name), by, checked, revision, then ``meta``
+        (tool version, date). Fields not given in ``[project]`` show as "-" for by, checked
+        and revision (a sheet is filed with those boxes), and are left out otherwise."""
+        p = self.project
+        rows = [(label, p[key]) for key, label in (("title", "Project"), ("job", "Job"),
+                                                   ("client", "Client")) if key in p]
+        rows += [("Structure", self.title), ("Case file", self.source)]
+        rows += [(label, p.get(key, "-")) for key, label in (
+            ("by", "By"), ("checked", "Checked"), ("revision", "Revision"))]
+        return rows + list(self.meta.items())
 
 
 def split_grid(grid: Grid, max_width: int, pad: int = 3, cap: int = 40) -> list[Grid]:
@@ -111,3 +162,18 @@ def split_grid(grid: Grid, max_width: int, pad: int = 3, cap: int = 40) -> list[
                         tuple(tuple(r[c] for c in idx) for r in grid.rows), keys=len(keys),
                         total=tuple(grid.total[c] for c in idx) if grid.total else None))
     return out
+
+
+def shown(grid: Grid) -> Grid:
+    """``grid`` as every renderer shows it: in each column (its total included), numbers
+    below :data:`COLUMN_ROUND_OFF` of the column's largest magnitude are round-off and
+    become 0 (never printed as 6.35×10⁻²², nor in bold in a total row)."""
+    rows = [*grid.rows, *([grid.total] if grid.total else [])]
+    if not rows:
+        return grid
+    cols = [zero_round_off([r[c] if c < len(r) else "" for r in rows])
+            for c in range(len(grid.headers))]
+    out = [tuple(cols[c][k] for c in range(len(r))) for k, r in enumerate(rows)]
+    n = len(grid.rows)
+    return Grid(grid.title, grid.headers, tuple(out[:n]), keys=grid.keys,
+                total=out[n] if grid.total else None)

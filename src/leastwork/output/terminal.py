@@ -20,9 +20,11 @@ from rich.text import Text
 
 from ..plaintext import literal
 from .audit import ASSUMPTIONS, CAUTION, energy_terms
+from .conventions import AXIAL_SIGN, MOMENT_SIGN_SHORT, SECTION_FORCES
 from .quantities import quantities
-from .reported import ROUND_OFF, case_numbers, redundant_value
-from .sheet import Formula, Grid, Para, Sheet, fmt, split_grid
+from .reported import ROUND_OFF, case_numbers, redundants_shown
+from .sheet import Formula, Grid, Para, Sheet, fmt
+from .term_tables import print_cells, print_grid
 
 __all__ = ["print_summary", "print_brief", "print_check", "print_steps", "print_sheet", "CAUTION",
            "ASSUMPTIONS", "energy_terms", "is_large", "print_short_summary", "governing_values", "Governing",
@@ -51,7 +53,17 @@ def heading(name: object, source: object, tail: str = "") -> Text:
     return Text.assemble((literal(name), "bold"), f"  ({literal(source)})", tail)
 
 
-def _g(x: float, sig: int = 5) -> str:
+def rule(console: Console, title: str) -> None:
+    """A section rule with ``title`` on it when it fits the width; otherwise a plain rule
+    and the title below it in bold, wrapped between words (never cut with an ellipsis)."""
+    if len(literal(title)) + 6 <= console.width:
+        console.rule(user_text(title))
+    else:
+        console.rule()
+        console.print(user_text(title, "bold"))
+
+
+def _g(x: float, sig: int = 4) -> str:
     """Summary numbers: ``sig`` significant figures (:func:`leastwork.output.sheet.fmt`)."""
     return fmt(x, sig)
 
@@ -137,8 +149,7 @@ def print_summary(console: Console, sol, case_names=None) -> None:
     from .audit import envelope_grids
 
     for grid in envelope_grids(sol):
-        for part in split_grid(grid, console.width):
-            console.print(_rich_table(part))
+        print_grid(console, grid)
     console.print(Panel(CAUTION, title="Caution", style="yellow"))
 
 
@@ -167,7 +178,7 @@ def _print_load_case(console: Console, sol, name: str) -> None:
     res = sol.cases[name]
     numbers = case_numbers(sol, name)  # as the JSON gives them (round-off shown as zero)
     Ff, fu = quantities(sol.units).factor("force"), sol.units.force
-    console.rule(user_text(f"Load case: {name}"))
+    rule(console, f"Load case: {name}")
     _equilibrium_alarm(console, res, Ff, fu)
     _print_state(console, sol, name)
     for table in (_redundants_table(sol, res), _reactions_table(sol, numbers),
@@ -183,46 +194,17 @@ def _cell_width(cell) -> int:
 
 
 def print_fitted(console: Console, table: Table) -> None:
-    """Print ``table`` whole when it fits the console; otherwise as parts with the first
-    column repeated, each part as wide as the console allows, so that no number is ever
-    cut short. A header may wrap at its spaces; a cell never does (a number alone wider
-    than the console folds onto the next line rather than lose digits)."""
+    """Print ``table`` whole when it fits the console; otherwise with its headers and text
+    wrapped, turned or stacked (:mod:`leastwork.output.term_tables`), so that no number
+    is ever cut short and the table stays one table."""
     cols = table.columns
-    width, natural = [], []
-    for c in cols:
-        header = str(c.header.plain if isinstance(c.header, Text) else c.header)
-        cells = max([_cell_width(x) for x in c._cells] + [1])
-        natural.append(max(cells, len(header)) + 3)  # padding either side and a rule
-        need = max([cells] + [len(w) for w in header.split()])
-        c.overflow = "fold"
-        width.append(need + 3)
-    if sum(natural) + 1 <= console.width:
-        console.print(table)
-        return
-    for c, w in zip(cols, width, strict=True):
-        c.width = w - 3  # headers wrap at their spaces; cells are never narrower
-    if sum(width) + 1 <= console.width or len(cols) <= 2:
-        console.print(table)
-        return
-    groups: list[list[int]] = []
-    for k in range(1, len(cols)):
-        if groups and width[0] + sum(width[j] for j in groups[-1]) + width[k] + 1 \
-                <= console.width:
-            groups[-1].append(k)
-        else:
-            groups.append([k])
+    headers = [c.header.plain if isinstance(c.header, Text) else str(c.header) for c in cols]
+    rows = [[c._cells[r] for c in cols] for r in range(table.row_count)]
     title = table.title.plain if isinstance(table.title, Text) else str(table.title or "")
-    for n, group in enumerate(groups, 1):
-        short = title if n == 1 else title.split(" (")[0]
-        part = Table(title=user_text(f"{short} (part {n} of {len(groups)})"),
-                     header_style=table.header_style)
-        for k in (0, *group):
-            c = cols[k]
-            part.add_column(c.header, justify=c.justify, overflow=c.overflow,
-                            width=c.width)
-        for r in range(table.row_count):
-            part.add_row(*(cols[k]._cells[r] for k in (0, *group)))
-        console.print(part)
+    caption = table.caption.plain if isinstance(table.caption, Text) else str(
+        table.caption or "")
+    print_cells(console, title, headers, rows, keys=1,
+                right=[c.justify == "right" for c in cols], caption=caption)
 
 
 def _redundants_table(sol, res) -> Table | None:
@@ -234,10 +216,10 @@ def _redundants_table(sol, res) -> Table | None:
     t.add_column("redundant")
     t.add_column("value", justify="right")
     t.add_column("unit")
-    for i, j in enumerate(sol.redundant_columns):
+    values = redundants_shown(sol, res.name)  # round-off as 0
+    for j in sol.redundant_columns:
         col = sol.topology.columns[j]
-        x = redundant_value(sol, res, i)  # round-off shown as 0
-        t.add_row(user_text(col.name), _g(q.column(x, col)), user_text(q.column_unit(col)))
+        t.add_row(user_text(col.name), _g(values[col.name]), user_text(q.column_unit(col)))
     return t
 
 
@@ -259,10 +241,22 @@ def _reactions_table(sol, numbers) -> Table:
 
 
 def _member_end_table(sol, numbers) -> Table:
-    """The section forces n, v, m at both ends of every member."""
+    """The section forces n, v, m at both ends of every member; a truss (bars only) gets
+    its bar forces n with T (tension) or C (compression), v and m being zero."""
+    from .audit.results import tension_word
+
     q = quantities(sol.units)
     fu, mu = q.force_unit, q.moment_unit
-    t = Table(title="Member end forces (section forces: n tension +, m sagging +, v = dm/dx)",
+    if not any(sol.structure.members[mid].is_beam for mid in numbers.members):
+        t = Table(title=f"Bar forces ({AXIAL_SIGN}; T tension, C compression; pin-ended "
+                  "bars carry no shear or moment)", header_style="bold")
+        t.add_column("bar")
+        t.add_column(user_text(f"n [{fu}]"), justify="right")
+        t.add_column("T/C")
+        for mid, mj in numbers.members.items():
+            t.add_row(user_text(mid), _g(mj["start"]["n"]), tension_word(mj["start"]["n"]))
+        return t
+    t = Table(title=f"Member end forces (section forces: {SECTION_FORCES})",
               header_style="bold")
     t.add_column("member")
     for h in (f"n start [{fu}]", f"v start [{fu}]", f"m start [{mu}]", f"n end [{fu}]",
@@ -446,7 +440,7 @@ def _governing_table(sol, res) -> Table:
     lmax = max((sol.structure.length(m) for m in sol.structure.members), default=1.0)
     f_tol = ROUND_OFF * res.equilibrium_scale
     t = Table(title="Governing values (largest magnitude)", header_style="bold",
-              caption="n tension +, m sagging +; at: from the member's start node")
+              caption=f"{AXIAL_SIGN}, {MOMENT_SIGN_SHORT}; at: from the member's start node")
     for h, right in (("quantity", False), ("value", True), ("unit", False), ("where", False),
                      (f"at [{lu}]", True)):
         t.add_column(user_text(h), justify="right" if right else "left")
@@ -518,7 +512,7 @@ def print_short_summary(console: Console, sol, case_names=None) -> None:
                       "(all of them in --json).[/yellow]")
     for name in case_names or list(sol.cases):
         res = sol.cases[name]
-        console.rule(user_text(f"Load case: {name}"))
+        rule(console, f"Load case: {name}")
         _equilibrium_alarm(console, res, Ff, fu)
         _print_state(console, sol, name)
         console.print(_governing_table(sol, res))
@@ -549,15 +543,15 @@ def print_brief(console: Console, sol, case_names=None) -> None:
     large = is_large(sol)
     for name in case_names or list(sol.cases):
         res = sol.cases[name]
-        shown = [(j, redundant_value(sol, res, i))
-                 for i, j in enumerate(sol.redundant_columns)]
+        shown = list(zip(sol.redundant_columns, res.redundants, strict=True))
         if large:  # the largest few; every value is in --json
             shown = sorted(shown, key=lambda jx: -abs(jx[1]))[:NAMES_SHOWN]
             console.print(user_text(f"{name}  {len(res.redundants)} redundants; the "
                                     f"{len(shown)} largest:"))
-        for j, x in shown:
+        values = redundants_shown(sol, name)  # round-off as 0
+        for j, _x in shown:
             col = sol.topology.columns[j]
-            console.print(user_text(f"{name}  {col.name} = {_g(q.column(x, col))} "
+            console.print(user_text(f"{name}  {col.name} = {_g(values[col.name])} "
                                     f"{q.column_unit(col)}"))
         failed = ("FAILED", "bold red")
         eq = "OK" if res.equilibrium_ok else failed
@@ -609,20 +603,24 @@ def _print_cross_check(console: Console, res) -> None:
 def print_steps(console: Console, sol, case_names=None) -> None:
     """The audit trail: every step of the force method, numbered (see :mod:`leastwork.output.audit`)."""
     from .audit import audit_sheet
+    from .html import default_meta
 
-    print_sheet(console, audit_sheet(sol, case_names))
+    print_sheet(console, audit_sheet(sol, case_names, meta=default_meta()))
 
 
 _TONE = {"plain": "", "note": "dim", "warning": "yellow", "alarm": "bold red"}
 
 
 def print_sheet(console: Console, sheet: Sheet) -> None:
-    """A calculation sheet on the terminal; wide tables are split to the console width."""
-    console.print(heading(sheet.title, sheet.source))
+    """A calculation sheet on the terminal: its title block, then the steps; a table wider
+    than the console is wrapped, turned or stacked (:mod:`leastwork.output.term_tables`)."""
+    console.print(heading(sheet.project.get("title") or sheet.title, sheet.source))
+    print_cells(console, "", ["title block", ""], [[user_text(k), user_text(v)]
+                                        for k, v in sheet.title_block()], keys=1)
     for text in sheet.assumptions:
         console.print(user_text(text))
     for step in sheet.steps:
-        console.rule(user_text(f"Step {step.number} — {step.title}"))
+        rule(console, f"Step {step.number} — {step.title}")
         for block in step.blocks:
             if isinstance(block, Para):
                 if block.tone == "alarm":
@@ -633,8 +631,7 @@ def print_sheet(console: Console, sheet: Sheet) -> None:
             elif isinstance(block, Formula):
                 console.print(user_text("  " + block.text))
             else:
-                for part in split_grid(block, console.width):
-                    console.print(_rich_table(part))
+                print_grid(console, block)
     for text in sheet.cautions:
         console.print(Panel(user_text(text), title="Caution", style="yellow"))
 

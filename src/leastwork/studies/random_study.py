@@ -66,6 +66,10 @@ def random_plan(text: str, source: str, quantities: list[str], samples: int, *,
         raise CaseError("name at least one quantity, e.g. B.y", source="command line",
                         where="--quantity")
     st = loads_case(text, source)
+    if getattr(st, "is_space", False):
+        from ..space.cli import refuse
+
+        raise refuse("a random tolerance study")
     nodes = node_tolerances(positions, st) if positions else {}
     members = parse_tolerances(lengths, st) if lengths else {}
     if seed is None:

@@ -109,6 +109,10 @@ def _structure(p: SweepPlan, values: tuple, index: int = 0):
         data.setdefault("parameters", {})
         data["parameters"].update(zip(p.names, values, strict=True))
     st = read_structure(CaseReader(data, p.source))
+    if getattr(st, "is_space", False):
+        from ..space.cli import refuse
+
+        raise refuse("leastwork sweep")
     if p.perturbations is not None:
         from .random_study import perturbed
 

@@ -364,6 +364,10 @@ def read_exact(st: Structure, record, *, expand_derived: bool = False) -> ExactM
     data = record.data
     defaults = data.get("defaults", {}) or {}
     for mid, m in st.members.items():
+        if m.taper is not None:
+            raise CaseError("--symbolic has no closed forms for tapered beams (their energy "
+                            "is integrated numerically); solve without --symbolic",
+                            source=st.source, where=f"[beams] {mid}.taper")
         spec = (data.get(m.kind + "s") or {})[mid]
         where = f"[{m.kind}s] {mid}"
         mat = spec.get("material", defaults.get("material"))

@@ -9,13 +9,17 @@ is rigidly connected (:func:`leastwork.model.rotational_nodes`).
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import TYPE_CHECKING
 
 import numpy as np
-import scipy.sparse as sp
 
 from ..model import Structure, rotational_nodes
 from .elements import condense, element, element_map, joint_springs, local_stiffness
-from .loads import CaseLoads, member_loading
+from .loads import CaseLoads, MemberLoading, member_loading
+from .tapered import tapered_loading, tapered_stiffness
+
+if TYPE_CHECKING:
+    import scipy.sparse as sp
 
 __all__ = ["dof_index", "restraint_row", "spring_data", "Assembly", "assemble"]
 
@@ -60,7 +64,7 @@ def spring_data(st: Structure, index, settle):
 class Assembly:
     """Global stiffness K (springs included), fixed-end forces f0, load vector p."""
 
-    K: sp.csr_matrix
+    K: sp.csr_matrix | np.ndarray  #: dense for a small structure (see assemble)
     f0: np.ndarray
     p: np.ndarray
     elements: dict[str, tuple]  #: member -> (element, k local, f0 local, T, dof map)
@@ -68,9 +72,11 @@ class Assembly:
     springs: list
 
 
-def assemble(st: Structure, index: dict[str, int], loads: CaseLoads) -> Assembly:
+def assemble(st: Structure, index: dict[str, int], loads: CaseLoads,
+             dense: bool = False) -> Assembly:
     """Global stiffness (springs included), fixed-end forces and load vector of one case;
-    each member's element is kept for its end forces."""
+    each member's element is kept for its end forces. ``dense``: K as a numpy array (a
+    small structure, solved without scipy), else sparse CSR."""
     n = len(index)
     rows: list[np.ndarray] = []
     cols: list[np.ndarray] = []
@@ -81,8 +87,13 @@ def assemble(st: Structure, index: dict[str, int], loads: CaseLoads) -> Assembly
     elongations: dict[str, float] = {}
     for mid in st.members:
         el = element(st, mid)
-        ml = member_loading(st, el, loads.by_member[mid])
-        k = local_stiffness(el)
+        if el.member.taper is not None:
+            k = tapered_stiffness(st, mid, el.L)
+            ml = MemberLoading(*tapered_loading(st, mid, el.L, el.c, el.s,
+                                                loads.by_member[mid]))
+        else:
+            ml = member_loading(st, el, loads.by_member[mid])
+            k = local_stiffness(el)
         kc, fc = condense(*joint_springs(k, ml.f0, el.springs), el.hinged)
         T = el.transform()
         g = element_map(el, index)
@@ -103,6 +114,13 @@ def assemble(st: Structure, index: dict[str, int], loads: CaseLoads) -> Assembly
         cols.append(np.tile(d, d.size))
         vals.append(r.stiffness * np.outer(v, v).ravel())
         p[d] += r.stiffness * ground * v
+    if dense:
+        K = np.zeros((n, n))
+        if vals:
+            np.add.at(K, (np.concatenate(rows), np.concatenate(cols)), np.concatenate(vals))
+        return Assembly(K, f0g, p, elements, elongations, springs)
+    import scipy.sparse as sp
+
     if vals:
         K = sp.csr_matrix((np.concatenate(vals), (np.concatenate(rows), np.concatenate(cols))),
                           shape=(n, n))

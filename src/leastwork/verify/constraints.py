@@ -9,13 +9,15 @@ a penalty, and their forces follow from the residual ``C' lambda = K u + f0 - p`
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import TYPE_CHECKING
 
 import numpy as np
-import scipy.sparse as sp
-from scipy.sparse.linalg import splu
 
 from ..model import Structure
 from .assembly import restraint_row
+
+if TYPE_CHECKING:
+    import scipy.sparse as sp
 
 __all__ = ["Constraint", "Elimination", "eliminate", "rigid_constraints", "constraint_forces"]
 
@@ -38,7 +40,7 @@ class Constraint:
 class Elimination:
     """u = T @ x + t for the masters x; pivots[k] = slave dof of independent constraint k."""
 
-    T: sp.csr_matrix
+    T: sp.csr_matrix | np.ndarray  #: dense for a small structure
     t: np.ndarray
     masters: np.ndarray
     independent: list[Constraint]
@@ -46,9 +48,9 @@ class Elimination:
     dependent: list[tuple[Constraint, float]]  #: (constraint, residual rhs)
 
 
-def eliminate(n: int, constraints: list[Constraint]) -> Elimination:
+def eliminate(n: int, constraints: list[Constraint], dense: bool = False) -> Elimination:
     """Master-slave elimination of the constraints (Gaussian elimination with the largest
-    remaining coefficient as pivot); exact, no penalty."""
+    remaining coefficient as pivot); exact, no penalty. ``dense``: T as a numpy array."""
     slaves: dict[int, tuple[dict[int, float], float]] = {}
     users: dict[int, set[int]] = {}
     independent: list[Constraint] = []
@@ -97,7 +99,14 @@ def eliminate(n: int, constraints: list[Constraint]) -> Elimination:
                 rows.append(sdof)
                 cols.append(col[d])
                 vals.append(b)
-    T = sp.csr_matrix((vals, (rows, cols)), shape=(n, len(masters)))
+    if dense:
+        T = np.zeros((n, len(masters)))
+        np.add.at(T, (np.asarray(rows, dtype=int), np.asarray(cols, dtype=int)),
+                  np.asarray(vals, dtype=float))
+    else:
+        import scipy.sparse as sp
+
+        T = sp.csr_matrix((vals, (rows, cols)), shape=(n, len(masters)))
     return Elimination(T, t, masters, independent, pivots, dependent)
 
 
@@ -136,6 +145,16 @@ def constraint_forces(elim: Elimination, resid: np.ndarray) -> dict[str, float]:
                 r_.append(pos[dof])
                 c_.append(i)
                 v_.append(a)
-    CsT = sp.csc_matrix((v_, (r_, c_)), shape=(len(pos), len(pos)))
-    lam = splu(CsT).solve(resid[np.array(elim.pivots)])
+    b = resid[np.array(elim.pivots)]
+    if isinstance(elim.T, np.ndarray):  # a small structure: dense, no scipy
+        CsT = np.zeros((len(pos), len(pos)))
+        np.add.at(CsT, (np.asarray(r_, dtype=int), np.asarray(c_, dtype=int)),
+                  np.asarray(v_, dtype=float))
+        lam = np.linalg.solve(CsT, b)
+    else:
+        import scipy.sparse as sp
+        from scipy.sparse.linalg import splu
+
+        CsT = sp.csc_matrix((v_, (r_, c_)), shape=(len(pos), len(pos)))
+        lam = splu(CsT).solve(b)
     return {con.name: float(val) for con, val in zip(elim.independent, lam)}

@@ -11,17 +11,20 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from typing import TYPE_CHECKING
 
 import numpy as np
-import scipy.sparse as sp
-from scipy.sparse.linalg import LinearOperator, onenormest, splu
 
 from ..errors import CaseError, MechanismError
 from ..model import Structure, reaction_components
 from .assembly import assemble, dof_index
 from .constraints import Elimination, constraint_forces, eliminate, rigid_constraints
+from .dense import DENSE_MAX_DOFS, diagonal_elimination, one_norm_condition
 from .elements import member_end_rotations
 from .loads import case_loads
+
+if TYPE_CHECKING:
+    import scipy.sparse as sp
 
 __all__ = ["StiffnessResult", "solve_stiffness", "stiffness_dofs"]
 
@@ -57,7 +60,8 @@ def stiffness_dofs(structure: Structure) -> int:
     """Number of free degrees of freedom (after the rigid constraints are eliminated)."""
     index = dof_index(structure)
     cons = rigid_constraints(structure, index, {}, {})
-    return len(index) - (len(cons) - len(eliminate(len(index), cons).dependent))
+    elim = eliminate(len(index), cons, dense=len(index) <= DENSE_MAX_DOFS)
+    return len(index) - (len(cons) - len(elim.dependent))
 
 
 def _motion_names(index: dict[str, int], vec: np.ndarray, lref: float) -> list[str]:
@@ -76,13 +80,22 @@ def _mechanism(st: Structure, index, elim: Elimination, A: sp.csc_matrix,
     n = A.shape[0]
     motion: list[str] = []
     try:
-        lu = splu((A + 1e-8 * sp.identity(n, format="csc")).tocsc())
+        if isinstance(A, np.ndarray):
+            shifted = A + 1e-8 * np.identity(n)
+
+            def solve(v):
+                return np.linalg.solve(shifted, v)
+        else:
+            import scipy.sparse as sp
+            from scipy.sparse.linalg import splu
+
+            solve = splu((A + 1e-8 * sp.identity(n, format="csc")).tocsc()).solve
         x = np.random.default_rng(0).standard_normal(n)
         for _ in range(3):
-            x = lu.solve(x)
+            x = solve(x)
             x /= np.linalg.norm(x)
         motion = _motion_names(index, elim.T @ (D * x), lref)
-    except RuntimeError:  # the shifted matrix should not be singular; name nothing then
+    except (RuntimeError, np.linalg.LinAlgError):  # should not be singular; name nothing
         motion = []
     return MechanismError(
         f"{st.source}: the structure is unstable (a mechanism): its stiffness matrix is "
@@ -96,6 +109,8 @@ def _scaled_condition(A: sp.csc_matrix, lu, b: np.ndarray, y: np.ndarray) -> flo
     ||A^-1||_1 is estimated from the factors by scipy's ``onenormest`` with one column (the
     Hager estimate: a few solves, deterministic, a lower bound), raised to
     ||y||_1 / ||b||_1 of the solve at hand (also a lower bound of ||A^-1||_1)."""
+    from scipy.sparse.linalg import LinearOperator, onenormest
+
     n = A.shape[0]
     inverse = LinearOperator((n, n), matvec=lu.solve,
                              rmatvec=lambda v: lu.solve(v, trans="T"), dtype=float)
@@ -144,6 +159,11 @@ def _solve_reduced(st: Structure, index, elim: Elimination, K, rhs: np.ndarray,
     all positive for a stable structure; a tiny or negative pivot, or a condition number
     no double-precision solve resolves, is a mechanism. Returns x, the nonzeros of the
     factors and the estimated condition number of the scaled stiffness."""
+    if isinstance(K, np.ndarray):
+        return _solve_reduced_dense(st, index, elim, K, rhs, lref)
+    import scipy.sparse as sp
+    from scipy.sparse.linalg import splu
+
     Kr = (elim.T.T @ K @ elim.T).tocsc()
     nm = Kr.shape[0]
     if nm == 0:
@@ -172,6 +192,38 @@ def _solve_reduced(st: Structure, index, elim: Elimination, K, rhs: np.ndarray,
                          f"estimated condition number {cond:.2g} of the scaled stiffness, "
                          "singular to working precision")
     return D * y, int(lu.L.nnz + lu.U.nnz), cond
+
+
+def _solve_reduced_dense(st: Structure, index, elim: Elimination, K: np.ndarray,
+                         rhs: np.ndarray, lref: float) -> tuple[np.ndarray, int, float]:
+    """:func:`_solve_reduced` with dense arrays (a small structure, :mod:`.dense`): the same
+    scaling and the same two signs of a mechanism, the pivots in the natural order."""
+    Kr = elim.T.T @ K @ elim.T
+    nm = Kr.shape[0]
+    if nm == 0:
+        return np.zeros(0), 0, 1.0
+    diag = Kr.diagonal()
+    ok = diag > 0.0
+    D = 1.0 / np.sqrt(np.where(ok, diag, 1.0))
+    A = D[:, None] * Kr * D[None, :]
+    if not ok.all():
+        raise _mechanism(st, index, elim, A, D, lref, "a free direction has no stiffness")
+    try:
+        pivots, nonzeros = diagonal_elimination(A)
+    except ZeroDivisionError:
+        raise _mechanism(st, index, elim, A, D, lref, "exactly singular") from None
+    smallest = float(pivots.min())
+    if smallest <= _PIVOT_TOL:
+        raise _mechanism(st, index, elim, A, D, lref, f"smallest scaled pivot {smallest:.3g}")
+    b = D * rhs
+    y = np.linalg.solve(A, b)
+    y += np.linalg.solve(A, b - A @ y)  # one step of iterative refinement
+    cond = one_norm_condition(A)
+    if _condition_limit_hit(cond):
+        raise _mechanism(st, index, elim, A, D, lref,
+                         f"condition number {cond:.2g} of the scaled stiffness, singular "
+                         "to working precision")
+    return D * y, nonzeros, cond
 
 
 def _reactions(st: Structure, U: np.ndarray, force_of: dict[str, float],
@@ -228,8 +280,10 @@ def solve_stiffness(structure: Structure, case: str) -> StiffnessResult:
     index = dof_index(st)
     lref = max((st.length(m) for m in st.members), default=1.0)
     loads = case_loads(st, index, case)
-    asm = assemble(st, index, loads)
-    elim = eliminate(len(index), rigid_constraints(st, index, loads.settle, asm.elongations))
+    dense = len(index) <= DENSE_MAX_DOFS  # small: numpy's dense solves, scipy not loaded
+    asm = assemble(st, index, loads, dense=dense)
+    elim = eliminate(len(index), rigid_constraints(st, index, loads.settle, asm.elongations),
+                     dense=dense)
     for con, resid in elim.dependent:
         if abs(resid) > 1e-12 * max(lref, 1.0):
             names = ", ".join(c.name for c, _ in elim.dependent)

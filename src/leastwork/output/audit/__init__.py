@@ -16,6 +16,8 @@ totals shown.
 
 from __future__ import annotations
 
+from pathlib import PurePath
+
 from ..sheet import Sheet
 from .assumptions import ASSUMPTIONS, CAUTION, energy_terms
 from .checks import step_check
@@ -29,7 +31,7 @@ from .released import step_released
 from .results import step_solution
 from .structure import step_structure
 
-__all__ = ["audit_sheet", "envelope_grids", "ASSUMPTIONS", "CAUTION", "energy_terms",
+__all__ = ["audit_sheet", "file_name", "envelope_grids", "ASSUMPTIONS", "CAUTION", "energy_terms",
            "AUDIT_MAX_LOCAL_STATES"]
 
 #: The eight steps, in order.
@@ -42,6 +44,19 @@ def audit_sheet(sol, case_names=None, *, meta: dict[str, str] | None = None) -> 
     load cases ``case_names`` (default: all)."""
     ctx = Context(sol, case_names)
     st = sol.structure
-    return Sheet(title=st.name, source=st.source, assumptions=(ASSUMPTIONS, energy_terms(st)),
+    return Sheet(title=st.name, source=file_name(st.source),
+                 assumptions=(ASSUMPTIONS, energy_terms(st)),
                  steps=tuple(step(ctx) for step in STEPS), cautions=(CAUTION,),
-                 meta=dict(meta or {}))
+                 meta=dict(meta or {}), project=dict(st.project))
+
+
+def file_name(source: str) -> str:
+    """The case file's name without its folders (a sheet is filed away from the disk it was
+    made on); a name in angle brackets (text given in code) is kept as it is.
+
+    >>> file_name("/home/a/jobs/canopy.toml"), file_name("<string>")
+    ('canopy.toml', '<string>')
+    """
+    if source.startswith("<"):
+        return source
+    return PurePath(source).name or source

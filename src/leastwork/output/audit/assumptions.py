@@ -8,7 +8,8 @@ from ...model import Structure
 __all__ = ["ASSUMPTIONS", "CAUTION", "energy_terms"]
 
 ASSUMPTIONS = (
-    "Linear elastic material, small displacements, plane (2D) structure; prismatic members; "
+    "Linear elastic material, small displacements, plane (2D) structure; straight members, "
+    "prismatic unless given as tapered; "
     "energy terms: bending and axial (beams without a cross-section area are axially rigid), "
     "axial for bars, springs; shear only when asked."
 )
@@ -40,6 +41,10 @@ def energy_terms(st: Structure) -> str:
         text += (" One-way members and supports (acts): each load case and combination is "
                  "solved again until every one acts as it may; results are not superposed "
                  "across states.")
+    tapered = [m.id for m in members if m.taper is not None]
+    if tapered:
+        text += (f" Tapered beams (section varying along the axis; energy integrated "
+                 f"numerically, relative error bound 1e-13): {', '.join(tapered)}.")
     rigid = [m.id for m in members if m.is_beam and m.EA is None]
     if rigid:
         text += f" Axially rigid (no area given): {', '.join(rigid)}."

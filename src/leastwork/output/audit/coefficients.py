@@ -6,6 +6,7 @@ from __future__ import annotations
 from ..sheet import Formula, Grid, Para, Step
 from .context import Context, pair_labels
 from .contributions import load_sources, term_products
+from .tapered import tapered_blocks
 
 __all__ = ["step_coefficients"]
 
@@ -31,6 +32,7 @@ def step_coefficients(ctx: Context) -> Step:
     blocks.append(Grid("Flexibility coefficients, contribution of each member and term",
                        tuple(heads), tuple(rows), keys=2,
                        total=("δ", "total", *[ctx.flex[i][j] for i, j in pairs])))
+    blocks += tapered_blocks(ctx)
     blocks.append(_DELTA_I0)
     for case in ctx.cases:
         blocks.append(_load_terms(ctx, case))

@@ -54,6 +54,12 @@ def load_sources(ctx: Context, case: str) -> dict[tuple[str, str], np.ndarray]:
     return out
 
 
+def _end_term(kind: str) -> str:
+    """Which end moment a beam's span-load or gradient term works through: the start term
+    (weight 1 - x/L) or the end term (weight x/L); nothing for an axial term."""
+    return {"start_m": ", start term", "end_m": ", end term"}.get(kind, "")
+
+
 def displacement_contributions(ctx: Context, case: str, s_u: np.ndarray,
                                dim: tuple[int, int]) -> list[tuple[str, str, float]]:
     """(source, term, contribution in output units) of the unit-load displacement whose
@@ -72,7 +78,7 @@ def displacement_contributions(ctx: Context, case: str, s_u: np.ndarray,
     for d in ctx.deformations(case):
         v = s_u[d.column] * d.value / unit
         if v != 0.0:
-            rows.append((d.owner, d.effect, v))
+            rows.append((d.owner, d.effect + _end_term(ctx.cols[d.column].kind), v))
     c = res.loading.settlement
     for j in np.flatnonzero(c):
         v = -s_u[j] * c[j] / unit

@@ -8,7 +8,7 @@ import math
 import numpy as np
 
 from ...model import Structure
-from ..sheet import Grid, Para, Step, fmt
+from ..sheet import Formula, Grid, Para, Step, fmt
 from .context import Context
 from .contributions import displacement_contributions
 
@@ -19,14 +19,18 @@ def step_displacements(ctx: Context) -> Step:
     blocks: list = [Para(
         "Unit-load method: a unit load (or couple) at the point and in the direction "
         "wanted, on the released structure (any released structure will do), does "
-        "virtual work on the real deformations: Δ = Σ ∫ m_u·M/EI dx + Σ ∫ n_u·N/EA dx "
-        "+ imposed deformations - Σ r_u·c.")]
+        "virtual work on the real deformations (imposed deformations e: temperature, "
+        "misfit; c: support settlements):"),
+        Formula("Δ = Σ ∫ m_u·M/EI dx + Σ ∫ n_u·N/EA dx + Σ ∫ (n_u·ε0 + m_u·κ0) dx - Σ r_u·c",
+                r"\Delta = \sum\int \frac{m_u M}{EI}\,dx + \sum\int \frac{n_u N}{EA}\,dx"
+                r" + \sum\int (n_u \varepsilon_0 + m_u \kappa_0)\,dx - \sum r_u c")]
     any_target = False
+    shown_states: dict[str, np.ndarray] = {}  # unit-load states written out once
     for case in ctx.cases:
         numbers = ctx.numbers(case)
         for target, value in numbers.displacements.items():
             any_target = True
-            blocks.append(_displacement(ctx, case, target, value))
+            blocks.extend(_displacement(ctx, case, target, value, shown_states))
         defl = [(mid, mj["deflection_max"]["value"], mj["deflection_max"]["at"])
                 for mid, mj in numbers.members.items() if "deflection_max" in mj]
         if defl:
@@ -40,19 +44,56 @@ def step_displacements(ctx: Context) -> Step:
     return Step(7, "Displacements by the unit-load method", tuple(blocks))
 
 
-def _displacement(ctx: Context, case: str, target: str, value) -> Para | Grid:
-    """The contributions to displacement ``target`` of load case ``case`` summing to
-    ``value`` (as reported); a point inside a member gets its total only."""
+def _displacement(ctx: Context, case: str, target: str, value,
+                  shown_states: dict) -> list[Para | Grid]:
+    """The unit-load state of displacement ``target`` (n_u and m_u(x) member by member;
+    once, unless a load case's released structure differs) and the contributions to it in
+    load case ``case``, summing to ``value`` (as reported); a point inside a member gets
+    its total only."""
     s_u, dim = _virtual_state(ctx.st, ctx.topo, ctx.sol.cases[case], target)
     lab = "rad" if dim == (0, 0) else ctx.u.displacement_unit
     if s_u is None:
-        return Para(f"Load case {case}: {target} = {fmt(value)} {lab} (a point inside a "
-                    "member: the unit load's own span field is included; see the total).")
+        return [Para(f"Load case {case}: {target} = {fmt(value)} {lab} (a point inside a "
+                     "member: the unit load's own span field is included; see the total).")]
     s_u = ctx.denoise(s_u[:, None])[:, 0]
     rows = displacement_contributions(ctx, case, s_u, dim)
-    return Grid(f"Load case {case}: displacement {target}",
-                ("source", "term", f"contribution [{lab}]"), tuple(rows), keys=2,
-                total=(target, "total", value))
+    before = shown_states.get(target)
+    same = before is not None and before.shape == s_u.shape and np.array_equal(before, s_u)
+    shown_states[target] = s_u
+    state = [] if same else [_unit_load_state(ctx, target, s_u, dim)]
+    return [*state,
+            Grid(f"Load case {case}: displacement {target}",
+                 ("source", "term", f"contribution [{lab}]"), tuple(rows), keys=2,
+                 total=(target, "total", value))]
+
+
+def _unit_load_state(ctx: Context, target: str, s_u: np.ndarray, dim) -> Grid:
+    """The released structure's forces under the unit load (or couple) of ``target``:
+    n_u and m_u(x) of each member that carries any (x from the start node), so that each
+    contribution below can be redone by hand: ∫ m_u·M/EI dx, n_u·N·L/EA."""
+    from ...elements import kind_of
+    from .polynomials import poly_text, scaled_poly
+
+    st, u, ci = ctx.st, ctx.u, ctx.topo.column_index
+    couple = dim == (0, 0)
+    n_dim, m_dim = ((0, -1), (0, 0)) if couple else ((0, 0), (0, 1))
+    rows = []
+    for m in st.members.values():
+        kind = kind_of(m)
+        values = [s_u[ci[bf.name]] for bf in kind.basic_forces(m)]
+        if not any(values):
+            continue
+        fields = kind.force_fields(m, st.length(m.id), values, 0.0)
+        n = fields.get("n", [0.0])
+        mom = fields.get("m")
+        n_text = poly_text(scaled_poly(n, u.L, u.power(*n_dim)))
+        m_text = "-" if mom is None else poly_text(scaled_poly(mom, u.L, u.power(*m_dim)))
+        rows.append((m.id, n_text, m_text))
+    load = "a unit couple" if couple else "a unit load"
+    return Grid(f"Unit-load state for {target}: {load} on the released structure (x from "
+                f"the start node, in {u.length_unit})",
+                ("member", f"n_u(x) [{u.label(*n_dim)}]", f"m_u(x) [{u.label(*m_dim)}]"),
+                tuple(rows))
 
 
 def _virtual_state(st: Structure, topo, res, target: str):

@@ -4,6 +4,7 @@ numbers of each load case."""
 from __future__ import annotations
 
 from ...thresholds import CONDITION_WARN
+from ..mathml import tex_number
 from ..sheet import Formula, Para, Step, fmt
 from .context import Context
 
@@ -21,7 +22,7 @@ def step_equations(ctx: Context) -> Step:
     blocks.append(Para(
         f"The flexibility matrix is symmetric (Maxwell-Betti); its condition number after "
         f"scaling the diagonal to one is {fmt(ctx.sol.condition, 3)} (above "
-        f"{CONDITION_WARN:.0e} the tool warns and looks for better redundants)."))
+        f"{fmt(CONDITION_WARN)} the tool warns and looks for better redundants)."))
     for i in range(nr):
         sym = " + ".join(f"δ{i + 1}{j + 1}·X{j + 1}" for j in range(nr)) + f" + δ{i + 1}0"
         blocks.append(Formula(f"∂U/∂X{i + 1} = {sym} = Δ{i + 1}",
@@ -42,5 +43,10 @@ def step_equations(ctx: Context) -> Step:
         blocks.append(Para(f"Load case {case}:"))
         for i in range(nr):
             lhs = " + ".join(f"({fmt(ctx.flex[i][j])})·X{j + 1}" for j in range(nr))
-            blocks.append(Formula(f"{lhs} + ({fmt(n.load_terms[i])}) = {fmt(n.imposed[i])}"))
+            tex = " + ".join(rf"({tex_number(fmt(ctx.flex[i][j]))})\,X_{{{j + 1}}}"
+                             for j in range(nr))
+            blocks.append(Formula(
+                f"{lhs} + ({fmt(n.load_terms[i])}) = {fmt(n.imposed[i])}",
+                rf"{tex} + ({tex_number(fmt(n.load_terms[i]))}) = "
+                + tex_number(fmt(n.imposed[i]))))
     return Step(5, "Compatibility equations ∂U/∂Xi = Δi", tuple(blocks))

@@ -6,7 +6,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from ...elements import column_of, has_bending, kind_of
+from ...elements import column_of, has_bending, integrate, kind_of
 from ...fields import gauss_integral
 from ...solution import member_result
 from ..sheet import Grid, Step
@@ -151,14 +151,21 @@ def _moments_under_loads(ctx: Context, case: str) -> Grid:
     for m in (m for m in st.members.values() if has_bending(m) and m.curve is None):
         mr0 = member_result(st, topo, m.id, ctx.s0[case], res.loading.particulars.get(m.id))
         unit = [_unit_fields(ctx, m, i)["m"] for i in range(nr)]
-        EI = kind_of(m).section(m, m, st.shear)["m"]
+        along = getattr(kind_of(m), "section_at_length", None)  # a tapered beam
+        EI = (along(m, st.length(m.id), st.shear) if along
+              else kind_of(m).section(m, m, st.shear))["m"]
         for a, b, coef in mr0.m.pieces():
             vals = []
             for i, mi in enumerate(unit):
-                f = gauss_integral(np.array([a, b]), lambda x, c=coef, mi=mi: (
-                    np.polynomial.polynomial.polyval(x, c)
-                    * np.polynomial.polynomial.polyval(x, mi)))
-                vals.append(ctx.load_term_case(f / EI, i))
+                if callable(EI):  # a tapered beam: adaptive, as the solver integrated it
+                    f = integrate(lambda x, c=coef, mi=mi, EI=EI: float(
+                        np.polynomial.polynomial.polyval(x, c)
+                        * np.polynomial.polynomial.polyval(x, mi)) / EI(x), float(a), float(b))
+                else:
+                    f = gauss_integral(np.array([a, b]), lambda x, c=coef, mi=mi: (
+                        np.polynomial.polynomial.polyval(x, c)
+                        * np.polynomial.polynomial.polyval(x, mi))) / EI
+                vals.append(ctx.load_term_case(f, i))
             tot += vals
             rows.append((m.id, u.convert(a, 0, 1), u.convert(b, 0, 1),
                          poly_text(scaled_poly(coef, u.L, u.factor("moment"))), *vals))

@@ -5,12 +5,13 @@ combinations. Every number is the one the JSON result reports
 
 from __future__ import annotations
 
+from ..conventions import AXIAL_SIGN, REACTION_SIGN, SECTION_FORCES
 from ..quantities import quantities
 from ..sheet import Formula, Grid, Para, Step
 from .context import Context
 from .envelope import envelope_grids
 
-__all__ = ["step_solution"]
+__all__ = ["step_solution", "tension_word"]
 
 
 def step_solution(ctx: Context) -> Step:
@@ -34,7 +35,9 @@ def step_solution(ctx: Context) -> Step:
                 "support move apart freely.", "note"))
         else:
             blocks.append(Formula("final force = released structure under the loads + "
-                                  "Σ Xi · (unit state i)"))
+                                  "Σ Xi · (unit state i)",
+                                  r"S = S_0 + \sum_i X_i\,s_i \quad (S_0\text{: released "
+                                  r"structure under the loads; }s_i\text{: unit state }i)"))
             blocks.append(_superposition(ctx, case))
         blocks.append(_reactions(ctx, case))
         blocks.append(_end_forces(ctx, case))
@@ -54,7 +57,9 @@ def _unknowns(ctx: Context, case: str):
 
 
 def _redundants(ctx: Context, case: str) -> Grid:
-    values = ctx.numbers(case).redundants
+    from ..reported import redundants_shown
+
+    values = redundants_shown(ctx.sol, case)
     if ctx.local:
         X = _unknowns(ctx, case)
         return Grid(f"Load case {case}: amplitudes of the states and the redundants they "
@@ -84,22 +89,39 @@ def _superposition(ctx: Context, case: str) -> Grid:
 
 def _reactions(ctx: Context, case: str) -> Grid:
     u = ctx.u
-    rows = [(node, *[comps.get(d, "-") for d in ("x", "y", "rz", "n")])
-            for node, comps in ctx.numbers(case).reactions.items()]
+    reactions = ctx.numbers(case).reactions
     fu = u.force_unit
-    return Grid(f"Load case {case}: reactions (forces the supports apply to the structure)",
-                ("support", f"x [{fu}]", f"y [{fu}]", f"rz [{u.moment_unit}]",
-                 f"normal n [{fu}]"), tuple(rows))
+    heads = {"x": f"x [{fu}]", "y": f"y [{fu}]", "rz": f"rz [{u.moment_unit}]",
+             "n": f"normal n [{fu}]"}
+    dirs = [d for d in heads if any(d in comps for comps in reactions.values())]
+    rows = [(node, *[comps.get(d, "-") for d in dirs]) for node, comps in reactions.items()]
+    return Grid(f"Load case {case}: reactions ({REACTION_SIGN}; components no support "
+                "has are left out)", ("support", *[heads[d] for d in dirs]), tuple(rows))
 
 
 def _end_forces(ctx: Context, case: str) -> Grid:
     fu, ml = ctx.u.force_unit, ctx.u.moment_unit
+    members = ctx.numbers(case).members
+    if not any(ctx.st.members[mid].is_beam for mid in members):  # a truss: n only
+        title = (f"Load case {case}: bar forces ({AXIAL_SIGN}; T tension, C compression; "
+                 "pin-ended bars carry no shear or moment, so v and m are left out)")
+        if all(mj["start"]["n"] == mj["end"]["n"] for mj in members.values()):
+            return Grid(title, ("bar", f"n [{fu}]", "T/C"), tuple(
+                (mid, mj["start"]["n"], tension_word(mj["start"]["n"]))
+                for mid, mj in members.items()))
+        return Grid(title, ("bar", f"n start [{fu}]", f"n end [{fu}]", "T/C (start)"), tuple(
+            (mid, mj["start"]["n"], mj["end"]["n"], tension_word(mj["start"]["n"]))
+            for mid, mj in members.items()))
     rows = [(mid, *[mj[e][q] for e in ("start", "end") for q in "nvm"])
-            for mid, mj in ctx.numbers(case).members.items()]
-    return Grid(f"Load case {case}: member end forces (n tension +, m with the local -y face "
-                "in tension +, v = dm/dx)",
+            for mid, mj in members.items()]
+    return Grid(f"Load case {case}: member end forces ({SECTION_FORCES})",
                 ("member", f"n start [{fu}]", f"v start [{fu}]", f"m start [{ml}]",
                  f"n end [{fu}]", f"v end [{fu}]", f"m end [{ml}]"), tuple(rows))
+
+
+def tension_word(n: float | None) -> str:
+    """"T" for tension, "C" for compression, "-" for none (round-off shown as 0 is none)."""
+    return "-" if not n else "T" if n > 0 else "C"
 
 
 def _moment_extremes(ctx: Context, case: str) -> Grid | None:

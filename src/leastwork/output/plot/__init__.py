@@ -20,7 +20,11 @@ Modules, one job each:
 * ``structure`` - members, supports, springs, names, scale bar, redundants X;
 * ``loads`` - one drawer per load kind (:data:`loads.LOAD_DRAWERS`);
 * ``forces`` - the n, v and m panels; ``deflected`` - the deflected shape panel;
-* ``figure`` - the panels in bands per load case at one scale; ``files`` - PNG and SVG.
+* ``figure`` - the panels in bands per load case at one scale; ``files`` - PNG and SVG,
+  one file or one per load case;
+* ``numbers`` - how values are printed; ``textsize`` - label extents from the renderer;
+  ``arrows`` - arrows with one end on a node; ``influence`` - influence lines;
+  ``fitup`` - the locked-in forces of a fit-up study.
 """
 
 from __future__ import annotations
@@ -32,9 +36,10 @@ from .data import (
     diagram_lines,
     parse_diagrams,
 )
-from .files import IMAGE_FORMATS, figure_svg, plot_case
+from .files import IMAGE_FORMATS, case_file_names, case_images, figure_svg, plot_case
 from .geometry import nice_factor, structure_size
 
 __all__ = ["DIAGRAMS", "IMAGE_FORMATS", "DEFLECTION_SHARE", "plot_case", "figure_svg",
+           "case_images", "case_file_names",
            "parse_diagrams", "diagram_lines", "deflection_scale", "nice_factor",
            "structure_size"]

@@ -11,8 +11,9 @@ from numpy.polynomial import polynomial as P
 
 from ...errors import CaseError
 from ...model import Structure
-from ..sheet import fmt
+from ..conventions import moment_convention
 from .geometry import MemberAxis, case_units, nice_factor, structure_size
+from .numbers import number
 
 #: Diagram names in their usual order.
 DIAGRAMS = ("structure", "n", "v", "m", "deflected")
@@ -22,14 +23,19 @@ DEFLECTION_SHARE = 0.10
 #: Per section force: (what it is, its dimension, the sign convention of its panel).
 QUANTITY = {
     "n": ("axial force n", "force",
-          "tension +; + drawn on the member's local +y side; shading: blue +, red\u00a0-; "
-          "bars: blue in tension, red in compression"),
-    "v": ("shear force v", "force",
-          "v = dm/dx; + drawn on the member's local +y side; shading: blue +, red\u00a0-"),
-    "m": ("bending moment m", "moment",
-          "drawn on the tension side; + when the local -y face is in tension; "
-          "shading: blue +, red\u00a0-"),
+          "T tension, C compression (hatched; bars ticked); tension on local +y side"),
+    "v": ("shear force v", "force", "v = dm/dx, signed; + on local +y side, \u2212 hatched"),
+    "m": ("bending moment m", "moment", "on the tension side, values without sign"),
 }
+
+
+def legend() -> str:
+    """The figure's key, once: the moment convention (the wording every output shares)
+    and the symbols."""
+    return (f"{moment_convention().capitalize()}. Loads: solid blue arrows; imposed "
+            "effects: dashed plum; redundants X: orange and boxed, in their + sense, "
+            "reaction arrows with one end on their node; open circles: hinges and pins; "
+            "T/C: tension/compression.")
 
 
 def parse_diagrams(diagrams: str | Iterable[str]) -> tuple[str, ...]:
@@ -160,7 +166,7 @@ def _place(st: Structure, mid: str, x: float) -> str:
     if x >= L * (1 - 1e-9):
         return f"node {st.members[mid].end}"
     lf, lu = case_units(st)["length"]
-    return f"{mid} at {fmt(x / lf, 3)} {lu}"
+    return f"{mid} at {number(x / lf)} {lu}"
 
 
 def _shapes(sol, res, samples: int) -> dict[str, tuple[np.ndarray, np.ndarray, np.ndarray]]:

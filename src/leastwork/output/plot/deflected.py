@@ -5,9 +5,9 @@ from __future__ import annotations
 
 import numpy as np
 
-from ..sheet import fmt
 from .data import deflection
 from .geometry import MemberAxis, case_units
+from .numbers import number
 from .panel import Panel
 from .structure import draw_members, draw_supports
 from .style import SHAPE
@@ -30,12 +30,13 @@ def deflected_panel(pn: Panel, sol, case: str) -> tuple[str, str]:
         base = MemberAxis(st, mid).at(x)
         moved = base + factor * np.c_[ux, uy]
         pn.line(moved, color=SHAPE, lw=1.6, z=4)
+        pn.keep_off(moved)
         mag = np.hypot(ux, uy)
         k = int(np.argmax(mag))
         if mag[k] > best[0]:
             best = (float(mag[k]), moved[k], np.array([ux[k], uy[k]]))
     _, p, u = best
     pn.circle(p, 0.18 * pn.h, face=SHAPE, edge=SHAPE, z=6)
-    pn.label(p, f"{fmt(umax, 3)} {lu}", direction=u, color=SHAPE, force=True)
-    return (f"{title}, displacements drawn × {fmt(factor)}",
-            f"largest displacement {fmt(umax, 3)} {lu} ({where}); undeformed shape in grey")
+    pn.label(p, f"{number(umax)} {lu}", direction=u, color=SHAPE, must=True)
+    return (f"{title}, displacements drawn × {number(factor, 1)}",
+            f"largest displacement {number(umax)} {lu} ({where}); undeformed shape in grey")

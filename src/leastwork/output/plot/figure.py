@@ -9,23 +9,31 @@ from collections.abc import Sequence
 import numpy as np
 
 from ...model import Structure
+from .data import legend
 from .deflected import deflected_panel
 from .forces import force_panel
 from .geometry import case_units, structure_size
 from .panel import Panel
 from .structure import structure_panel
-from .style import DPI, drawn_text
+from .style import DPI, HEADING, PRINT_WIDTH, TITLE, drawn_text
+
+#: Space between two columns of panels (inches).
+GUTTER = 0.25
+#: Margin around the figure (inches).
+MARGIN = 0.15
 
 
 def _columns(st: Structure, nd: int) -> tuple[int, float, float]:
     """(columns of panels, panel width in inches, metres of the drawing per inch) from the
-    proportions of the structure."""
+    proportions of the structure; the figure is :data:`PRINT_WIDTH` wide."""
     xs = [n.x for n in st.nodes.values()]
     ys = [n.y for n in st.nodes.values()]
     pad = 0.3 * structure_size(st)
     dw, dh = max(xs) - min(xs) + 2 * pad, max(ys) - min(ys) + 2 * pad
-    ncols, w = (1, 8.0) if dw / dh >= 2.0 or nd == 1 else (2, 4.0)
-    w = min(w, 6.0 * dw / dh)  # tall structures: no panel taller than 6 in
+    full = PRINT_WIDTH - 2 * MARGIN
+    ncols = 1 if dw / dh >= 1.0 or nd == 1 else 2
+    w = full if ncols == 1 else (full - GUTTER) / 2
+    w = min(w, 5.0 * dw / dh)  # tall structures: no panel taller than 5 in
     return ncols, w, dw / w
 
 
@@ -50,7 +58,7 @@ def _draw_panels(sol, cases, shown, ncols: int, w: float, per_inch: float):
     gs = fig.add_gridspec(nrows, ncols)
     size = structure_size(sol.structure)
     panels, titles, rows = [], [], []
-    wrap = int(w * 72 / (7.0 * 0.56))
+    wrap = int(w * 72 / (TITLE * 0.55))
     for ci, case in enumerate(cases):
         for k, name in enumerate(shown):
             rows.append(ci * rows_per + k // ncols)
@@ -58,9 +66,10 @@ def _draw_panels(sol, cases, shown, ncols: int, w: float, per_inch: float):
             pn = Panel(ax, size, per_inch)
             title, note = _draw_panel(pn, sol, case, name)
             panels.append(pn)
-            text = "\n".join([drawn_text(title), *textwrap.wrap(drawn_text(note), wrap)])
+            text = "\n".join(textwrap.wrap(drawn_text(f"{title} \u2014 {note}" if note
+                                                  else title), wrap))
             titles.append(text.count("\n") + 1)
-            ax.set_title(text, fontsize=7.0, loc="left", linespacing=1.25)
+            ax.set_title(text, fontsize=TITLE, loc="left", linespacing=1.25)
     return fig, gs, panels, titles, rows
 
 
@@ -85,13 +94,16 @@ def figure(sol, cases: Sequence[str], diagrams: Sequence[str]):
     nrows = rows_per * len(cases)
     size = structure_size(st)
     pad = 0.03 * size
-    for _ in range(2):  # labels are sized from the scale, and the scale from the labels
+    for _ in range(4):  # labels are sized from the scale, and the scale from the labels
         fig, gs, panels, titles, rows = _draw_panels(sol, cases, shown, ncols, w, per_inch)
         boxes = np.array([pn.extent() for pn in panels])
         x0, x1 = boxes[:, 0, 0].min() - pad, boxes[:, 1, 0].max() + pad
-        if (x1 - x0) / w <= 1.1 * per_inch:
+        if (x1 - x0) / w <= per_inch * (1 + 1e-9):
             break
-        per_inch = (x1 - x0) / w
+        per_inch = 1.05 * (x1 - x0) / w
+    # the drawing exactly at the scale the labels were sized for: text boxes are true
+    middle = 0.5 * (x0 + x1)
+    x0, x1 = middle - 0.5 * w * per_inch, middle + 0.5 * w * per_inch
     # one horizontal scale for all panels; each row of panels as tall as it needs
     y_rows = _row_limits(boxes, rows, nrows, pad)
     for r, pn in zip(rows, panels, strict=True):
@@ -109,25 +121,28 @@ def _arrange(fig, gs, panels, st: Structure, ncols: int, w: float, heights: np.n
     import textwrap
 
     nrows = len(heights)
-    title_h = title_lines * 7.0 * 1.25 / 72 + 0.12
+    title_h = title_lines * TITLE * 1.25 / 72 + 0.12
     uf = case_units(st)
     moved = ("" if uf["displacement"][1] == uf["length"][1]
              else f", displacements in {uf['displacement'][1]}")
-    sub = (f"lengths in {uf['length'][1]}{moved}, forces in {uf['force'][1]}, moments in "
-           f"{uf['moment'][1]}; sign conventions as in the panel notes")
+    sub = (f"Lengths and dimensions in {uf['length'][1]}{moved}, forces in {uf['force'][1]}, "
+           f"moments in {uf['moment'][1]}. {legend()}")
     if thinned:
-        sub += "; v and m are zero (every member is a pin-ended bar)"
-    head = 0.78
-    margin = 0.15
-    fig_w = ncols * w + (ncols - 1) * 0.25 + 2 * margin
+        sub += " v and m are zero (every member is a pin-ended bar)."
+    margin = MARGIN
+    fig_w = ncols * w + (ncols - 1) * GUTTER + 2 * margin
+    sub = "\n".join(textwrap.wrap(drawn_text(sub), int((fig_w - 2 * margin) * 72
+                                                        / (TITLE * 0.56))))
+    head = (HEADING + TITLE * (sub.count("\n") + 1)) * 1.4 / 72 + 0.25
     fig_h = float(np.sum(heights)) + nrows * title_h + head + margin
     fig.set_size_inches(fig_w, fig_h)
     gs.set_height_ratios(list(heights))
     gs.update(left=margin / fig_w, right=1 - margin / fig_w, bottom=margin / fig_h,
               top=1 - (head + title_h) / fig_h, hspace=title_h / float(np.mean(heights)),
-              wspace=0.25 / w)
+              wspace=GUTTER / w)
     for pn in panels:  # the axes follow the new grid
         pn.ax.set_position(pn.ax.get_subplotspec().get_position(fig))
-    sub = "\n".join(textwrap.wrap(drawn_text(sub), int(fig_w * 72 / (9.0 * 0.6))))
-    fig.suptitle(drawn_text(st.name) + "\n" + sub, fontsize=9, x=margin / fig_w, ha="left",
-                 y=1 - 0.1 / fig_h, va="top", linespacing=1.4)
+    fig.text(margin / fig_w, 1 - 0.1 / fig_h, drawn_text(st.name), fontsize=HEADING,
+             ha="left", va="top", weight="bold")
+    fig.text(margin / fig_w, 1 - (0.1 + HEADING * 1.5 / 72) / fig_h, sub, fontsize=TITLE,
+             ha="left", va="top", linespacing=1.4)

@@ -92,3 +92,46 @@ def plot_case(sol, path, *, case: str | None = None,
     cases = case_names(sol, case)
     fig = figure(sol, cases, parse_diagrams(diagrams))
     _save(fig, str(path), fmt_name, _salt(cases))
+
+
+def case_file_names(path, cases: list[str]) -> dict[str, pathlib.Path]:
+    """One file name per load case beside ``path``: ``STEM-CASE.SUFFIX``, the case name
+    reduced to letters, digits, '.', '_' and '-' (a number added if two come out alike).
+
+    >>> [p.name for p in case_file_names("out/bay.png", ["wind", "snow + wind"]).values()]
+    ['bay-wind.png', 'bay-snow-wind.png']
+    """
+    path = pathlib.Path(path)
+    out: dict[str, pathlib.Path] = {}
+    seen: set[str] = set()
+    for case in cases:
+        slug = re.sub(r"[^A-Za-z0-9._-]+", "-", case).strip("-.") or "case"
+        name, k = slug, 2
+        while name.lower() in seen:
+            name, k = f"{slug}-{k}", k + 1
+        seen.add(name.lower())
+        out[case] = path.with_name(f"{path.stem}-{name}{path.suffix}")
+    return out
+
+
+def case_images(sol, path, diagrams: str | Iterable[str] = DIAGRAMS) -> dict:
+    """One image per load case (PNG or SVG by the suffix of ``path``): {file name: bytes},
+    named by :func:`case_file_names`."""
+    path = pathlib.Path(path)
+    fmt_name = IMAGE_FORMATS.get(path.suffix.lower())
+    if fmt_name is None:
+        raise CaseError(f'cannot tell the image format of "{path}" from its suffix; name it '
+                        ".png or .svg", where="output")
+    shown = parse_diagrams(diagrams)
+    files = {}
+    for case, target in case_file_names(path, list(sol.cases)).items():
+        files[target] = figure_bytes(figure(sol, [case], shown), fmt_name, case)
+    return files
+
+
+def figure_bytes(fig, fmt_name: str, salt: str) -> bytes:
+    """A finished figure as PNG or SVG bytes (``fmt_name`` "png" or "svg")."""
+    buf = io.BytesIO() if fmt_name == "png" else io.StringIO()
+    _save(fig, buf, fmt_name, _salt([salt]))
+    data = buf.getvalue()
+    return data if isinstance(data, bytes) else data.encode("utf-8")

@@ -1,18 +1,33 @@
-"""The n, v and m panels: each diagram drawn square to its member, shaded by sign, with
-its largest values, end values, span extremes and values at breaks labelled; a bar's
-axial force as the bar coloured by its sign with the value beside it."""
+"""The n, v and m panels: each diagram drawn square to its member with its largest values,
+end values, span extremes and values at breaks labelled, off the lines; a bar's axial force
+as the bar drawn by its sense with the value and T or C beside it.
+
+How the values read: m on the tension side, without sign (the side tells the sense, the
+wording from :mod:`leastwork.output.conventions`); n as a magnitude with T (tension) or C
+(compression), the area hatched where it is compression; v with its sign, hatched where
+negative. Values below half a unit of the last printed figure of the panel's largest value
+(:func:`numbers.resolution`) are drawn as zero and not labelled."""
 
 from __future__ import annotations
 
 import numpy as np
 
 from ...model import Structure
-from ..sheet import fmt
-from .data import QUANTITY, diagram_amplitude, diagram_lines, field_zero
-from .geometry import MemberAxis, case_units, member_axes
+from .data import QUANTITY, diagram_amplitude, diagram_lines
+from .geometry import MemberAxis, case_units, crossings, member_axes
+from .numbers import magnitude, number, resolution, tension_mark
 from .panel import Panel
-from .structure import draw_members, draw_supports
-from .style import FAINT, FONT, INK, NEG_FILL, NEG_LINE, POS_FILL, POS_LINE
+from .structure import draw_members, draw_supports, keep_labels_off_members
+from .style import AREA, AREA_EDGE, COMPRESSION, FAINT, FONT, HATCH, INK, TENSION
+
+
+def value_text(quantity: str, value: float) -> str:
+    """A diagram value as labelled: m unsigned, n with T or C, v signed."""
+    if quantity == "m":
+        return magnitude(value)
+    if quantity == "n":
+        return tension_mark(value)
+    return number(value)
 
 
 def _sign_runs(x: np.ndarray, v: np.ndarray):
@@ -32,42 +47,69 @@ def _sign_runs(x: np.ndarray, v: np.ndarray):
     return runs
 
 
-def _bar_force(pn: Panel, st: Structure, mid: str, value: float) -> None:
-    """A bar's constant axial force: the bar drawn in the colour of its sign (blue tension,
-    red compression) with the value at mid-length."""
+def _bar_line(pn: Panel, st: Structure, mid: str, value: float) -> None:
+    """A bar by its constant axial force: thick, solid dark grey in tension, burnt orange
+    with cross ticks in compression, thin grey when zero."""
     o, ex, ey = member_axes(st, mid)
     L = st.length(mid)
-    color = POS_LINE if value > 0 else (NEG_LINE if value < 0 else FAINT)
-    pn.line([o + ex * 0.04 * L, o + ex * 0.96 * L], color=color, lw=3.2, z=3)
+    a, b = o + ex * 0.04 * L, o + ex * 0.96 * L
+    if value == 0:
+        pn.line([a, b], color=FAINT, lw=1.2, z=3)
+    elif value > 0:
+        pn.line([a, b], color=TENSION, lw=3.0, z=3)
+    else:
+        pn.line([a, b], color=COMPRESSION, lw=3.0, z=3)
+        for s_ in np.linspace(0.12, 0.88, max(3, int(L / pn.h / 1.5))):
+            c = o + ex * s_ * L
+            pn.line([c - ey * 0.22 * pn.h, c + ey * 0.22 * pn.h], color=COMPRESSION,
+                    lw=1.0, z=3)
+    pn.keep_off([a, b])
+
+
+def _bar_value(pn: Panel, st: Structure, mid: str, value: float) -> None:
+    """A bar's value with T or C beside it, slid along the bar off crossings and other
+    labels."""
+    o, ex, ey = member_axes(st, mid)
+    L = st.length(mid)
     side = ey if ey[1] >= -1e-9 else -ey
-    kw = dict(direction=side, gap=0.3 * pn.h, box=True, color=color if value else INK)
-    for at in (0.5, 0.32, 0.68):  # crossing bars: slide the value along the bar
-        if pn.label(o + ex * at * L, fmt(value, 3), **kw):
-            return
-    pn.label(o + ex * 0.5 * L, fmt(value, 3), must=True, **kw)
+    kw = dict(gap=0.3 * pn.h, box=True, color=INK if value >= 0 else COMPRESSION)
+    text = tension_mark(value)
+    cross = crossings(st)[mid]
+    spots = sorted((0.5, 0.35, 0.65, 0.22, 0.78),
+                   key=lambda f: -min([abs(f - c) for c in cross] + [0.2]))
+    for at in spots:  # crossing bars: slide the value along, off the crossing
+        for sd in (side, -side):
+            if pn.label(o + ex * at * L, text, direction=sd, **kw):
+                return
+    pn.label(o + ex * 0.5 * L, text, direction=side, must=True, **kw)
 
 
 def _member_diagram(pn: Panel, axis: MemberAxis, towards: float, x: np.ndarray,
-                    v: np.ndarray, scale: float) -> None:
-    """One member's diagram, drawn off its axis along ``towards`` times local +y: a shaded
-    area per run of one sign, its outline, and the closing lines at the member's ends."""
+                    v: np.ndarray, scale: float, hatch_negative: bool) -> None:
+    """One member's diagram, drawn off its axis (an arc for a curved member) along
+    ``towards`` times local +y: an area per run of one sign (hatched where negative when
+    ``hatch_negative``), its outline kept clear of labels, and the closing lines at the
+    member's ends."""
     for rx, rv in _sign_runs(x, v):
         if not np.any(rv):
             continue
         base = axis.at(rx)
         tip = base + towards * axis.normal(rx) * (rv * scale)[:, None]
-        sign = 1 if np.sum(rv) > 0 else -1
-        pn.poly(np.vstack([tip, base[::-1]]),
-                face=POS_FILL if sign > 0 else NEG_FILL, z=2)
+        negative = hatch_negative and np.sum(rv) < 0
+        pn.poly(np.vstack([tip, base[::-1]]), face=AREA,
+                edge=AREA_EDGE if negative else "none", lw=0.0, z=2,
+                hatch=HATCH if negative else None)
         pn.line(tip, color=INK, lw=0.8, z=3)
+        pn.keep_off(tip)
     for end in (0, -1):  # closing lines at the member ends
         b = axis.at(x[end])[0]
-        pn.line([b, b + towards * axis.normal(x[end])[0] * v[end] * scale], color=INK,
-                lw=0.8, z=3)
+        t = b + towards * axis.normal(x[end])[0] * v[end] * scale
+        pn.line([b, t], color=INK, lw=0.8, z=3)
+        pn.keep_off([b, t])
 
 
 def _value_places(sol, res, mid: str, quantity: str, x: np.ndarray, v: np.ndarray,
-                  scale: float, extremes: tuple[bool, bool]) -> list[tuple]:
+                  scale: float, extremes: tuple[bool, bool], tiny: float) -> list[tuple]:
     """Values of one member worth a label, as (priority, point, direction, value): 0 the
     diagram's largest and least (``extremes``: whether this member has them), 1 the end
     values, 2 the span extremes of m or the largest |n|, |v|, 3 the values at breaks."""
@@ -83,21 +125,26 @@ def _value_places(sol, res, mid: str, quantity: str, x: np.ndarray, v: np.ndarra
             p = axis.at(at)[0] + side * value * scale
             cands.append((prio, p, side * (1 if value >= 0 else -1), value))
 
-    if extremes[0]:
-        k = int(np.argmax(v))
-        add(0, x[k], v[k])
-    if extremes[1]:
-        k = int(np.argmin(v))
-        add(0, x[k], v[k])
     L = x[-1]
-    add(1, x[0] + 0.02 * L, v[0])
-    add(1, x[-1] - 0.02 * L, v[-1])
+    exact = []  # the exact span extremes of m (the samples may miss the peak)
     if quantity == "m":
         mr = res.members[mid]
         for value, at in (mr.m_max, mr.m_min):
             if 1e-6 * L < at < L * (1 - 1e-6):
                 vv = value / uf["moment"][0]
-                add(2, at, 0.0 if abs(vv) <= field_zero(sol, res, "m") else vv)
+                exact.append([at, 0.0 if abs(vv) <= tiny else vv, 2])
+    for wanted, k in ((extremes[0], int(np.argmax(v))), (extremes[1], int(np.argmin(v)))):
+        if not wanted:
+            continue
+        near = [e for e in exact if abs(e[0] - x[k]) < 0.05 * L]
+        if near:
+            near[0][2] = 0  # the exact one, at the top priority
+        else:
+            add(0, x[k], v[k])
+    add(1, x[0] + 0.02 * L, v[0])
+    add(1, x[-1] - 0.02 * L, v[-1])
+    for at, vv, prio in exact:
+        add(prio, at, vv)
     brk = getattr(res.members[mid], quantity).breaks[1:-1]
     if st.members[mid].curve is not None:  # pieces of the arc: only the loads' positions
         brk = [ld.at for ld in st.loads if getattr(ld, "member", None) == mid
@@ -123,6 +170,11 @@ def force_panel(pn: Panel, sol, case: str, quantity: str) -> tuple[str, str]:
     lines = diagram_lines(sol, case, quantity)
     draw_members(pn, st, faint=True)
     draw_supports(pn, st, faint=True)
+    keep_labels_off_members(pn, st)
+    vmax = max(float(np.max(np.abs(d["value"]))) for d in lines.values())
+    tiny = resolution(vmax)  # below this a value prints as zero: drawn as zero, no label
+    for d in lines.values():
+        d["value"] = np.where(np.abs(d["value"]) < tiny, 0.0, d["value"])
     vmax = max(float(np.max(np.abs(d["value"]))) for d in lines.values())
     title = f"{case}: {what} [{unit}]"
     state = sol.states.get(case)
@@ -140,16 +192,21 @@ def force_panel(pn: Panel, sol, case: str, quantity: str) -> tuple[str, str]:
     cands = []  # (priority, anchor, direction, value)
     gmax = max(lines, key=lambda m: float(np.max(lines[m]["value"])))
     gmin = min(lines, key=lambda m: float(np.min(lines[m]["value"])))
+    bars = [mid for mid in lines if quantity == "n" and not st.members[mid].is_beam]
+    for mid in bars:
+        _bar_line(pn, st, mid, float(lines[mid]["value"][0]))
+    for mid in bars:  # their values once every bar is drawn
+        _bar_value(pn, st, mid, float(lines[mid]["value"][0]))
     for mid, d in lines.items():
         x, v = d["x"] * lf, d["value"]
-        if quantity == "n" and not st.members[mid].is_beam:
-            _bar_force(pn, st, mid, float(v[0]))
+        if mid in bars:
             continue
         _member_diagram(pn, MemberAxis(st, mid), -1.0 if quantity == "m" else 1.0, x, v,
-                        scale)
+                        scale, hatch_negative=quantity != "m")
         cands += _value_places(sol, res, mid, quantity, x, v, scale,
-                               (mid == gmax, mid == gmin))
+                               (mid == gmax, mid == gmin), tiny)
     cands.sort(key=lambda c: c[0])
-    for _, p, dr, value in cands:
-        pn.label(p, fmt(value, 3), direction=dr, gap=0.25 * pn.h)
+    for prio, p, dr, value in cands:
+        pn.label(p, value_text(quantity, value), direction=dr, gap=0.25 * pn.h,
+                 must=prio == 0, once=True)
     return title, conv

@@ -155,3 +155,69 @@ def blocked(st: Structure, node: str, d: np.ndarray) -> bool:
     if any(member_towards(st, node, d)):
         return True
     return node in st.supports and float(support_side(st, st.supports[node]) @ d) > 0.7
+
+
+def crossings(st: Structure) -> dict[str, list[float]]:
+    """Per member, the fractions of its length (0..1) where another member crosses it away
+    from a shared node (two braces of one panel, say)."""
+    out: dict[str, list[float]] = {m: [] for m in st.members}
+    ids = list(st.members)
+    for i, a in enumerate(ids):
+        ma = st.members[a]
+        p, r = xy(st, ma.start), xy(st, ma.end) - xy(st, ma.start)
+        for b in ids[i + 1:]:
+            mb = st.members[b]
+            if {ma.start, ma.end} & {mb.start, mb.end}:
+                continue
+            q, s = xy(st, mb.start), xy(st, mb.end) - xy(st, mb.start)
+            den = r[0] * s[1] - r[1] * s[0]
+            if abs(den) < 1e-12 * np.hypot(*r) * np.hypot(*s):
+                continue
+            qp = q - p
+            t = (qp[0] * s[1] - qp[1] * s[0]) / den
+            u = (qp[0] * r[1] - qp[1] * r[0]) / den
+            if 1e-6 < t < 1 - 1e-6 and 1e-6 < u < 1 - 1e-6:
+                out[a].append(float(t))
+                out[b].append(float(u))
+    return out
+
+
+def clear_spot(fractions: list[float], taken: list[float] = (),
+               prefer: tuple[float, ...] = (0.5, 0.3, 0.7, 0.2, 0.8, 0.4, 0.6)) -> float:
+    """A fraction of a member's length for a mark or label: the first of ``prefer`` that
+    lies farthest enough (0.12) from every crossing and every spot ``taken``, else the one
+    farthest from them."""
+    avoid = [*fractions, *taken]
+    if not avoid:
+        return prefer[0]
+    for f in prefer:
+        if min(abs(f - a) for a in avoid) >= 0.12:
+            return f
+    return max(prefer, key=lambda f: min(abs(f - a) for a in avoid))
+
+
+def node_members_side(st: Structure, node: str, d: np.ndarray) -> bool:
+    """Whether a member leaves ``node`` within 25 degrees of direction ``d``."""
+    p = xy(st, node)
+    for m in st.members.values():
+        if node in (m.start, m.end):
+            u = xy(st, m.end if node == m.start else m.start) - p
+            if float(u @ d) > 0.9 * np.hypot(*u):
+                return True
+    return False
+
+
+def arrow_side(st: Structure, node: str, d: np.ndarray, used: list, support_ok: bool) -> int:
+    """Which way an arrow of direction ``d`` sits at ``node`` with one end on it: -1 (the
+    arrow comes in, its tip on the node) or +1 (it leaves, its tail on the node). The
+    shaft keeps off the members, off arrows already drawn there (``used``: unit vectors
+    from the node along their shafts) and, unless ``support_ok``, off the support."""
+    def penalty(side: int) -> float:
+        v = side * d
+        pen = 10.0 if node_members_side(st, node, v) else 0.0
+        pen += 5.0 * sum(1 for u in used if float(u @ v) > 0.9)
+        if node in st.supports and not support_ok:
+            pen += 1.0 if float(support_side(st, st.supports[node]) @ v) > 0.7 else 0.0
+        return pen
+
+    return -1 if penalty(-1) <= penalty(1) else 1

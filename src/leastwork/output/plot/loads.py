@@ -25,8 +25,9 @@ from ...model import (
     Structure,
     TemperatureLoad,
 )
-from ..sheet import fmt
-from .geometry import MemberAxis, blocked, case_units, member_axes, perp, support_side, xy
+from .arrows import node_arrow
+from .geometry import MemberAxis, case_units, clear_spot, crossings, member_axes, xy
+from .numbers import number
 from .panel import Panel
 from .style import IMPOSED, LOAD
 
@@ -64,9 +65,9 @@ def _point(sk: LoadSketch, ld: PointLoad) -> None:
 
 
 def _draw_point_loads(sk: LoadSketch) -> None:
-    """The concentrated forces and couples, one arrow and one turning arrow per point: a
-    force pushes on its point, or pulls on a node where a member or support is in the
-    way, or runs beside it when both sides are taken."""
+    """The concentrated forces and couples, one arrow and one turning arrow per point: at
+    a node the arrow has one end on the node (pushing on it, or pulling where members,
+    the support or earlier arrows are in the way); on a member it pushes on its point."""
     pn, st = sk.pn, sk.st
     ff, fu = sk.uf["force"]
     mf, mu = sk.uf["moment"]
@@ -76,29 +77,27 @@ def _draw_point_loads(sk: LoadSketch) -> None:
         mag = float(np.hypot(*f))
         if mag > 0:
             d = f / mag
-            text = f"{fmt(mag / ff, 3)} {fu}"
+            text = f"{number(mag / ff)} {fu}"
             node = key[1] if key[0] == "node" else None
-            if node is None or not blocked(st, node, -d):
-                tail, tip = p - d * la, p - d * 0.1 * pn.h  # pushing on the point
-            elif not blocked(st, node, d):
-                tail, tip = p + d * 0.1 * pn.h, p + d * la  # pulling on it
+            if node is not None:
+                far, shaft = node_arrow(pn, st, node, d, la, color=LOAD, what="load",
+                                        support_ok=False, lw=1.2)
             else:
-                side = perp(d) * 0.45 * pn.h
-                tail, tip = p - d * la + side, p - d * 0.1 * pn.h + side
-            pn.arrow(tail, tip, color=LOAD, lw=1.2)
-            pn.occupy([tail, tip])
-            far = tail if np.hypot(*(tail - p)) > np.hypot(*(tip - p)) else tip
-            pn.label(far, text, direction=far - p, color=LOAD, must=True)
+                tail, tip = p - d * la, p
+                pn.arrow(tail, tip, color=LOAD, lw=1.2, what="load")
+                pn.keep_off([tail, tip])
+                far, shaft = tail, -d
+            pn.label(far, text, direction=shaft, color=LOAD, must=True, gap=0.2 * pn.h)
         if mz:
             q = pn.arc_arrow(p, 0.9 * pn.h, mz > 0, color=LOAD)
-            pn.label(q, f"{fmt(abs(mz) / mf, 3)} {mu}", color=LOAD, must=True)
+            pn.label(q, f"{number(abs(mz) / mf)} {mu}", color=LOAD, must=True)
 
 
 # ---------------------------------------------------------------------------- span loads
 
 
 def _range_text(name: str, pair, f: float, unit: str) -> str:
-    a0, a1 = (fmt(v / f, 3) for v in pair)
+    a0, a1 = (number(v / f) for v in pair)
     return f"{name} = {a0}" + ("" if pair[0] == pair[1] else f" to {a1}") + f" {unit}"
 
 
@@ -125,9 +124,7 @@ def _distributed(sk: LoadSketch, ld: DistributedLoad) -> None:
     if ld.frame == "local":  # along the tangent and local +y of the arc
         nrm = axis.normal(s)
         t_vec = np.column_stack([nrm[:, 1], -nrm[:, 0]])
-        q1 = ld.wx[0] + (ld.wx[1] - ld.wx[0]) * frac
-        q2 = ld.wy[0] + (ld.wy[1] - ld.wy[0]) * frac
-        vec = q1[:, None] * t_vec + q2[:, None] * nrm
+        vec = wx[:, None] * t_vec + wy[:, None] * nrm
         wx, wy = vec[:, 0], vec[:, 1]
     mean = np.array([np.mean(wx), np.mean(wy)])
     out = -mean / np.hypot(*mean) if np.hypot(*mean) > 0 else ey
@@ -158,17 +155,18 @@ def _distributed(sk: LoadSketch, ld: DistributedLoad) -> None:
 def _temperature(sk: LoadSketch, ld: TemperatureLoad) -> None:
     """Dash-dotted lines along the warmer face, or both faces for a uniform change."""
     pn, st = sk.pn, sk.st
-    o, ex, ey = member_axes(st, ld.member)
+    axis = MemberAxis(st, ld.member)
     L = st.length(ld.member)
-    sides = [ey, -ey] if ld.gradient == 0 else ([-ey] if ld.gradient > 0 else [ey])
-    for sd in sides:  # the warmer face, or both faces for a uniform change
-        off = sd * 0.35 * pn.h
-        pn.line([o + off + ex * 0.08 * L, o + off + ex * 0.92 * L], color=IMPOSED,
+    s = np.linspace(0.08 * L, 0.92 * L, 2 if axis.curve is None else 49)
+    sides = [1.0, -1.0] if ld.gradient == 0 else ([-1.0] if ld.gradient > 0 else [1.0])
+    for sd in sides:  # the warmer face, or both faces for a uniform change (along the arc)
+        pn.line(axis.at(s) + sd * 0.35 * pn.h * axis.normal(s), color=IMPOSED,
                 lw=1.0, ls=(0, (4, 1.5, 1, 1.5)), z=4)
-    text = f"temperature: uniform {fmt(ld.uniform, 3)} K"
+    c, ey = axis.at(0.5 * L)[0], axis.normal(0.5 * L)[0]
+    text = f"temperature: uniform {number(ld.uniform)} K"
     if ld.gradient:
-        text += f", gradient {fmt(ld.gradient, 3)} K (warmer face marked)"
-    pn.label(o + ex * 0.5 * L + ey * 0.4 * pn.h, text, direction=ey, color=IMPOSED,
+        text += f", gradient {number(ld.gradient)} K (warmer face marked)"
+    pn.label(c + ey * 0.4 * pn.h, text, direction=ey, color=IMPOSED,
              must=True)
 
 
@@ -176,40 +174,45 @@ def _misfit(sk: LoadSketch, ld: Misfit) -> None:
     """Two strokes across the member with the length error."""
     pn, st = sk.pn, sk.st
     lf, lu = sk.uf["displacement"]
-    o, ex, ey = member_axes(st, ld.member)
-    c = o + ex * 0.3 * st.length(ld.member)  # clear of a cut at mid-length
+    axis = MemberAxis(st, ld.member)
+    at = clear_spot(crossings(st)[ld.member], pn.marks.get(ld.member, []),
+                    prefer=(0.7, 0.3, 0.75, 0.25, 0.6, 0.4))  # off crossings and cuts
+    pn.marks.setdefault(ld.member, []).append(at)
+    c = axis.at(at * st.length(ld.member))[0]
+    ey = axis.normal(at * st.length(ld.member))[0]
+    ex = np.array([ey[1], -ey[0]])
     for s in (-0.18, 0.18):
         pn.line([c + ex * s * pn.h - ey * 0.5 * pn.h, c + ex * s * pn.h + ey * 0.5 * pn.h],
                 color=IMPOSED, lw=1.4, z=6)
     how = "too short" if ld.elongation < 0 else "too long"
-    pn.label(c - ey * 0.5 * pn.h, f"misfit {fmt(ld.elongation / lf, 3)} {lu} ({how})",
+    pn.label(c - ey * 0.5 * pn.h, f"misfit {number(ld.elongation / lf)} {lu} ({how})",
              direction=-ey, color=IMPOSED, must=True)
 
 
 def _settlement(sk: LoadSketch, ld: Settlement) -> None:
-    """An arrow (or a turning arrow) beside the support for each imposed component."""
+    """For each imposed component a dashed arrow in the sense of the movement with one end
+    on the support's node (a turning arrow around it for a rotation)."""
     pn, st = sk.pn, sk.st
     lf, lu = sk.uf["displacement"]
     p = xy(st, ld.node)
-    side = -perp(support_side(st, st.supports[ld.node]))
-    base = p + side * 2.2 * pn.h
     for d, v in ld.values:
         if not v:
             continue
         if d == "rz":
-            q = pn.arc_arrow(base, 0.7 * pn.h, v > 0, color=IMPOSED)
-            pn.label(q, f"settlement drz = {fmt(v, 3)} rad", color=IMPOSED, must=True)
+            q = pn.arc_arrow(p, 1.1 * pn.h, v > 0, color=IMPOSED)
+            pn.arrows.append((p, p, "settlement"))
+            pn.label(q, f"settlement rz = {number(v)} rad", color=IMPOSED, must=True)
             continue
         if d == "n":
             vec = np.array(next(r.vector[:2] for r in st.supports[ld.node].restraints
-                                if r.direction == "n"))
+                                if r.direction == "n"), dtype=float)
         else:
             vec = np.array([1.0, 0.0]) if d == "x" else np.array([0.0, 1.0])
         vec = vec * (1 if v > 0 else -1)
-        pn.line([base - vec * 1.6 * pn.h, base], color=IMPOSED, lw=0.9, ls="--")
-        pn.arrow(base, base + vec * 1.2 * pn.h, color=IMPOSED)
-        pn.label(base + vec * 1.2 * pn.h, f"settlement d{d} = {fmt(v / lf, 3)} {lu}",
-                 direction=side, color=IMPOSED)
+        far, shaft = node_arrow(pn, st, ld.node, vec, 2.2 * pn.h, color=IMPOSED,
+                                what="settlement", support_ok=True, lw=1.1, ls="--")
+        pn.label(far, f"settlement {d} = {number(v / lf)} {lu}", direction=shaft,
+                 color=IMPOSED, must=True, gap=0.2 * pn.h)
 
 
 # ---------------------------------------------------------------------------- the registry

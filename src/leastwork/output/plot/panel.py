@@ -11,6 +11,33 @@ import numpy as np
 
 from .geometry import perp
 from .style import FONT, INK, LOAD, drawn_text
+from .textsize import text_extent
+
+
+def _align(u) -> tuple[str, str]:
+    """Horizontal and vertical alignment of a label that sits on side ``u`` of its point."""
+    ha = "left" if u[0] > 0.38 else ("right" if u[0] < -0.38 else "center")
+    va = "bottom" if u[1] > 0.38 else ("top" if u[1] < -0.38 else "center")
+    return ha, va
+
+
+def segments_cross_box(seg: np.ndarray, rect) -> np.ndarray:
+    """For segments (k, 4) [x0, y0, x1, y1]: whether each crosses the rectangle
+    (x0, y0, x1, y1) - Liang-Barsky clipping, all segments at once."""
+    x0, y0, x1, y1 = rect
+    px, py = seg[:, 0], seg[:, 1]
+    dx, dy = seg[:, 2] - px, seg[:, 3] - py
+    lo = np.zeros(len(seg))
+    hi = np.ones(len(seg))
+    ok = np.ones(len(seg), dtype=bool)
+    for p_, q_ in ((-dx, px - x0), (dx, x1 - px), (-dy, py - y0), (dy, y1 - py)):
+        par = np.abs(p_) < 1e-300
+        ok &= ~(par & (q_ < 0))
+        with np.errstate(divide="ignore", invalid="ignore"):
+            r = np.where(par, 0.0, q_ / np.where(par, 1.0, p_))
+        lo = np.where(~par & (p_ < 0), np.maximum(lo, r), lo)
+        hi = np.where(~par & (p_ > 0), np.minimum(hi, r), hi)
+    return ok & (lo <= hi)
 
 
 @dataclass
@@ -23,7 +50,14 @@ class Panel:
     pts: list = field(default_factory=list)
     boxes: list = field(default_factory=list)  #: (x0, y0, x1, y1, text)
     lines: dict = field(default_factory=dict)  #: (color, lw, ls, z) -> polylines
-    polys: dict = field(default_factory=dict)  #: (face, edge, lw, z) -> polygons
+    polys: dict = field(default_factory=dict)  #: (face, edge, lw, z, hatch) -> polygons
+    segments: list = field(default_factory=list)  #: (k, 4) segments labels keep off
+    arrows: list = field(default_factory=list)  #: (tail, tip, what) of every arrow drawn
+    at_node: dict = field(default_factory=dict)  #: node -> shaft directions drawn there
+    marks: dict = field(default_factory=dict)  #: member -> fractions of its length marked
+    _seg_cache: object = None
+    deferred: list | None = None  #: labels queued until every line is drawn
+    key: list = field(default_factory=list)  #: lines of text under the drawing
 
     @property
     def h(self) -> float:
@@ -41,9 +75,9 @@ class Panel:
         self.lines.setdefault((color, lw, ls, z), []).append(pts)
         self.include(pts)
 
-    def poly(self, pts, face, edge="none", lw=0.6, z=1) -> None:
+    def poly(self, pts, face, edge="none", lw=0.6, z=1, hatch=None) -> None:
         pts = np.asarray(pts, dtype=float)
-        self.polys.setdefault((face, edge, lw, z), []).append(pts)
+        self.polys.setdefault((face, edge, lw, z, hatch), []).append(pts)
         self.include(pts)
 
     def circle(self, c, r, face="white", edge=INK, lw=0.9, z=4) -> None:
@@ -51,9 +85,12 @@ class Panel:
         self.poly(np.asarray(c, dtype=float) + r * np.c_[np.cos(t), np.sin(t)], face=face,
                   edge=edge, lw=lw, z=z)
 
-    def arrow(self, tail, tip, color=LOAD, lw=0.9, head=None, z=5) -> None:
-        """A straight arrow with a filled head of our own drawing."""
+    def arrow(self, tail, tip, color=LOAD, lw=0.9, head=None, z=5, what: str = "",
+              ls="-") -> None:
+        """A straight arrow with a filled head of our own drawing (``what``: recorded with
+        its ends in :attr:`arrows`)."""
         tail, tip = np.asarray(tail, float), np.asarray(tip, float)
+        self.arrows.append((tail, tip, what))
         d = tip - tail
         n = np.hypot(*d)
         if n <= 0:
@@ -61,9 +98,10 @@ class Panel:
         d /= n
         hl = min(head or 0.45 * self.h, 0.6 * n)
         base = tip - d * hl
-        self.line([tail, base], color=color, lw=lw, z=z)
+        self.line([tail, base], color=color, lw=lw, z=z, ls=ls)
         w = perp(d) * hl * 0.38
         self.poly([tip, base + w, base - w], face=color, z=z)
+        self.keep_off([tip, base + w, base - w, tip])  # labels keep off the head too
 
     def arc_arrow(self, c, r, ccw: bool, color=LOAD, lw=0.9, z=5) -> np.ndarray:
         """A 270 degree arc around ``c`` with a head in the turning sense; returns the
@@ -73,6 +111,7 @@ class Panel:
             t = t[::-1]
         pts = np.asarray(c) + r * np.c_[np.cos(t), np.sin(t)]
         self.line(pts[:-3], color=color, lw=lw, z=z)
+        self.keep_off(pts[:-3])
         self.arrow(pts[-4], pts[-1], color=color, lw=lw, head=0.5 * self.h, z=z)
         return np.asarray(c) + r * 1.25 * np.array([0.0, 1.0])
 
@@ -82,52 +121,124 @@ class Panel:
         lo, hi = pts.min(axis=0), pts.max(axis=0)
         self.boxes.append((lo[0], lo[1], hi[0], hi[1], ""))
 
+    def keep_off(self, pts) -> None:
+        """Keep labels off the polyline ``pts`` (a member, a diagram's outline): no label
+        box may be crossed by one of its segments."""
+        pts = np.asarray(pts, dtype=float).reshape(-1, 2)
+        if len(pts) >= 2:
+            self.segments.append(np.hstack([pts[:-1], pts[1:]]))
+            self._seg_cache = None
+
+    def _crossed(self, rect) -> bool:
+        """Whether a segment kept off crosses the rectangle (x0, y0, x1, y1)."""
+        if not self.segments:
+            return False
+        if self._seg_cache is None:
+            self._seg_cache = np.vstack(self.segments)
+        return bool(np.any(segments_cross_box(self._seg_cache, rect)))
+
+    def text_box(self, text: str, size: float, weight: str = "normal",
+                 box: bool = False) -> tuple[float, float]:
+        """(width, height) of a label in data units (m), as the renderer lays it out."""
+        w_in, h_in = text_extent(drawn_text(text), size, weight)
+        pad = 2 * 0.25 * size / 72 if box else 0.04
+        return (w_in + pad) * self.per_inch, (h_in + pad) * self.per_inch
+
     def label(self, p, text: str, direction=(0.0, 1.0), color=INK, size=FONT,
               gap: float | None = None, weight="normal", box: bool = False,
-              force: bool = False, must: bool = False) -> bool:
-        """Put ``text`` next to point ``p`` on the side ``direction``; skip it when it would
-        overlap a label already placed (a duplicate nearby is simply dropped) unless
-        ``force``; try a few offsets first, more of them when it ``must`` be shown (then
-        the first place is taken when none is free). Returns whether it was placed."""
+              force: bool = False, must: bool = False, leader: bool = True,
+              once: bool = False) -> bool:
+        """Put ``text`` next to point ``p`` on the side ``direction``, off every label and
+        box placed so far and off the lines kept off (:meth:`keep_off`); a few places are
+        tried, more of them when it ``must`` be shown (then a label moved away from its
+        point is tied to it by a thin leader line, and as a last resort the label may
+        cross a line, never another label). Without a free place the label is dropped
+        (returns False), unless ``force``. ``once``: the same text already placed close by
+        (two members' equal values at one joint) is not repeated (returns True).
+
+        While :attr:`deferred` is a list, the label is only queued there (returns True)
+        and placed by :meth:`place_deferred`, once every line and arrow is drawn."""
+        args = dict(direction=direction, color=color, size=size, gap=gap, weight=weight,
+                    box=box, force=force, must=must, leader=leader, once=once)
+        if self.deferred is not None:
+            self.deferred.append((p, text, args))
+            return True
+        return self._place(p, text, **args)
+
+    def defer(self) -> None:
+        """Queue labels from now on (:meth:`label`) until :meth:`place_deferred`."""
+        self.deferred = []
+
+    def place_deferred(self) -> None:
+        """Place the queued labels, in the order they came."""
+        queue, self.deferred = self.deferred or [], None
+        for p, text, args in queue:
+            self._place(p, text, **args)
+
+    def _place(self, p, text, direction, color, size, gap, weight, box, force, must,
+               leader, once) -> bool:
         d = np.asarray(direction, dtype=float)
         d = d / np.hypot(*d) if np.hypot(*d) > 0 else np.array([0.0, 1.0])
         gap = 0.35 * self.h if gap is None else gap
-        w = (0.58 * len(text) + 0.4) * size / 72 * self.per_inch
-        hgt = 1.25 * size / 72 * self.per_inch
-        ha = "left" if d[0] > 0.38 else ("right" if d[0] < -0.38 else "center")
-        va = "bottom" if d[1] > 0.38 else ("top" if d[1] < -0.38 else "center")
+        w, hgt = self.text_box(text, size, weight, box)
         p = np.asarray(p, dtype=float)
-        t = perp(d)
-        tries = [gap, gap + 1.1 * hgt, gap + 2.2 * hgt] + ([gap + k * 1.1 * hgt
-                                                            for k in range(3, 8)] if must else [])
-        cands = [p + d * g for g in tries] + [p + d * gap + t * s * w * 0.6 for s in (1, -1)]
-        if must:  # then a widening ring of places around the point
-            cands += [p + d * gap + t * s * w * f for f in (1.2, 1.8) for s in (1, -1)]
-            for r in (2.0, 3.5, 5.0, 7.0):
-                for ang in np.linspace(0.0, 2 * math.pi, 12, endpoint=False):
-                    cands.append(p + r * hgt * np.array([math.cos(ang), math.sin(ang)])
-                                 + d * gap)
-        for n_try, q in enumerate(cands + ([cands[0]] if must else [])):
-            force_now = force or (must and n_try == len(cands))
-            x0 = q[0] - (0 if ha == "left" else (w if ha == "right" else w / 2))
-            y0 = q[1] - (0 if va == "bottom" else (hgt if va == "top" else hgt / 2))
-            rect = (x0, y0, x0 + w, y0 + hgt)
-            clash = [b for b in self.boxes if not (rect[2] <= b[0] or b[2] <= rect[0]
-                                                   or rect[3] <= b[1] or b[3] <= rect[1])]
-            if clash and not force_now:
-                if any(b[4] == text for b in clash) and not must:
-                    return False
-                continue
-            kw = {}
-            if box:
-                kw["bbox"] = dict(boxstyle="round,pad=0.18", facecolor="white",
-                                  edgecolor=color, lw=0.5)
-            self.ax.text(q[0], q[1], drawn_text(text), ha=ha, va=va, fontsize=size, color=color,
-                         weight=weight, zorder=8, **kw)
-            self.boxes.append((*rect, text))
-            self.include([rect[0], rect[1]], [rect[2], rect[3]])
+        if once and any(b[4] == text and abs(0.5 * (b[0] + b[2]) - p[0]) < 1.5 * w
+                        and abs(0.5 * (b[1] + b[3]) - p[1]) < 4 * hgt for b in self.boxes):
             return True
-        return False
+        t = perp(d)
+        cands = [(p + d * g, d) for g in (gap, gap + 0.6 * hgt, gap + 1.2 * hgt)]
+        cands += [(p + d * gap + t * s * w * f, d) for f in (0.35, 0.7) for s in (1, -1)]
+
+        def ring(radii):
+            for r in radii:
+                for ang in np.linspace(0.0, 2 * math.pi, 16, endpoint=False):
+                    u = np.array([math.cos(ang), math.sin(ang)])
+                    cands.append((p + u * (gap + r * hgt), u))
+
+        if must:  # close around the point first, then further out along d, then rings
+            ring((0.0, 0.8))
+            cands += [(p + d * (gap + k * 1.1 * hgt), d) for k in range(2, 6)]
+            ring((2.0, 3.0, 4.5, 6.5, 9.0, 12.0))
+        chosen = None
+        for lines_too in (True, False) if must else (True,):
+            for q, u in cands:
+                ha, va = _align(u)
+                rect = self._rect(q, w, hgt, ha, va)
+                if self._hits_label(rect) or (lines_too and self._crossed(rect)):
+                    continue
+                chosen = (q, rect, ha, va)
+                break
+            if chosen is not None:
+                break
+        if chosen is None:
+            if not force:
+                return False
+            ha, va = _align(d)
+            chosen = (cands[0][0], self._rect(cands[0][0], w, hgt, ha, va), ha, va)
+        q, rect, ha, va = chosen
+        kw = {}
+        if box:
+            kw["bbox"] = dict(boxstyle="round,pad=0.25", facecolor="white",
+                              edgecolor=color, lw=0.5)
+        self.ax.text(q[0], q[1], drawn_text(text), ha=ha, va=va, fontsize=size, color=color,
+                     weight=weight, zorder=8, **kw)
+        far = np.hypot(*(q - p)) > gap + 1.3 * hgt
+        if far and leader:  # tie a label moved away back to its point
+            near = np.clip(p, rect[:2], rect[2:4])
+            self.line([p, near], color=color, lw=0.5, z=7)
+            self.keep_off([p, near])
+        self.boxes.append((*rect, text))
+        self.include([rect[0], rect[1]], [rect[2], rect[3]])
+        return True
+
+    def _rect(self, q, w: float, hgt: float, ha: str, va: str) -> tuple:
+        x0 = q[0] - (0 if ha == "left" else (w if ha == "right" else w / 2))
+        y0 = q[1] - (0 if va == "bottom" else (hgt if va == "top" else hgt / 2))
+        return (x0, y0, x0 + w, y0 + hgt)
+
+    def _hits_label(self, rect) -> bool:
+        return any(not (rect[2] <= b[0] or b[2] <= rect[0] or rect[3] <= b[1]
+                        or b[3] <= rect[1]) for b in self.boxes)
 
     def extent(self) -> np.ndarray:
         """(2, 2): lower-left and upper-right corners of everything drawn."""
@@ -143,10 +254,13 @@ class Panel:
             axis.set_major_locator(NullLocator())  # making them is slow
             axis.set_minor_locator(NullLocator())
 
-        for (face, edge, lw, z), polys in self.polys.items():
-            self.ax.add_collection(PolyCollection(polys, facecolors=face, edgecolors=edge,
-                                                  linewidths=lw, zorder=z, joinstyle="round"),
-                                   autolim=False)
+        for (face, edge, lw, z, hatch), polys in self.polys.items():
+            coll = PolyCollection(polys, facecolors=face, edgecolors=edge, linewidths=lw,
+                                  zorder=z, joinstyle="round")
+            if hatch:
+                coll.set_hatch(hatch)
+                coll.set_edgecolor(edge)
+            self.ax.add_collection(coll, autolim=False)
         for (color, lw, ls, z), lines in self.lines.items():
             self.ax.add_collection(LineCollection(lines, colors=color, linewidths=lw,
                                                   linestyles=ls, zorder=z, capstyle="round",

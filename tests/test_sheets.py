@@ -1,0 +1,269 @@
+"""Calculation sheets and the terminal as an engineer files and reads them: engineering
+rounding with round-off shown as 0, the title block from [project], typeset formulas
+(well-formed MathML), the unit-load state of step 7, the trade's words for supports and
+bars, the narrow terminal, and the printed page count."""
+
+from __future__ import annotations
+
+import io
+import os
+import re
+import shutil
+import subprocess
+import sys
+import xml.etree.ElementTree as ET
+from pathlib import Path
+
+import pytest
+from rich.console import Console
+
+import leastwork
+from leastwork.output.audit import audit_sheet
+from leastwork.output.conventions import SECTION_FORCES
+from leastwork.output.documents import sheet_latex, sheet_markdown
+from leastwork.output.html import report_html
+from leastwork.output.mathml import latex_mathml
+from leastwork.output.sheet import Grid, fmt, shown
+from leastwork.output.terminal import print_steps, print_summary
+
+CASES = sorted((Path(__file__).parent.parent / "cases").glob("*.toml"))
+
+# A cantilever-like beam A (fixed) - B - C (roller) under a uniform load; redundant C.y,
+# so the released structure is the cantilever A-C (invented demo numbers).
+PROPPED = """
+[project]
+title = "Store room shelf beam"
+job = "T-0042"
+by = "A. Tester"
+checked = "B. Checker"
+revision = "C"
+
+[structure]
+name = "Propped shelf beam"
+units = { force = "kN", length = "m" }
+
+[nodes]
+A = [0, 0]
+B = [3, 0]
+C = [5, 0]
+
+[beams]
+AB = { nodes = ["A", "B"], EI = "5000 kN*m^2" }
+BC = { nodes = ["B", "C"], EI = "5000 kN*m^2" }
+
+[supports]
+A = "fixed"
+C = "roller"
+
+[[loads]]
+member = "AB"
+wy = "-2 kN/m"
+
+[[loads]]
+member = "BC"
+wy = "-2 kN/m"
+
+[analysis]
+redundants = ["C.y"]
+displacements = ["B.y"]
+"""
+
+
+@pytest.fixture(scope="module")
+def propped():
+    return leastwork.solve(leastwork.loads_case(PROPPED, source="/somewhere/deep/shelf.toml"))
+
+
+# ------------------------------------------------------------------ numbers
+
+
+@pytest.mark.parametrize("value, text", [
+    (0.1 + 0.2, "0.3"),          # exact short numbers keep no trailing zeros
+    (45.0004, "45.00"),          # rounding made the zeros significant: kept
+    (-30.2574, "-30.26"),
+    (3.07065e-06, "3.071×10⁻⁶"),  # a power of ten, never e-notation
+    (-1234567.0, "-1.235×10⁶"),
+    (0.0, "0"),
+])
+def test_engineering_rounding(value, text):
+    # common practice: four significant figures, powers of ten written out
+    assert fmt(value) == text
+
+
+@pytest.mark.parametrize("x", [1e-30, 3.3e-16, 7e-7, 0.0123, 1.0, 987.6, 4.5e5, 6.1e9, 2e300])
+def test_no_e_notation_at_any_magnitude(x):
+    for v in (x, -x):
+        assert not re.search(r"\de[-+]?\d", fmt(v)), fmt(v)
+        assert len(fmt(v).replace("-", "")) <= 12
+
+
+def test_round_off_in_a_column_is_zero_and_not_bold():
+    g = Grid("t", ("member", "δ11"), (("AB", 3.07e-6), ("BC", 1.2e-4)),
+             total=("total", 6.35275e-22))
+    assert shown(g).total[1] == 0.0  # 1e-17 of the column's largest: round-off
+    assert shown(g).rows == g.rows   # real values untouched
+    md = sheet_markdown(audit_sheet(leastwork.solve(leastwork.loads_case(PROPPED))))
+    assert "**0**" not in md
+    assert not re.search(r"\de[-+]\d", md)
+
+
+# ------------------------------------------------------------------ title block
+
+
+def test_title_block_in_every_format(propped):
+    sheet = audit_sheet(propped, meta={"Date": "2026-01-01"})
+    assert sheet.source == "shelf.toml"  # the name, not the path it was read from
+    texts = {"html": report_html(propped, meta={"Date": "2026-01-01"}),
+             "md": sheet_markdown(sheet), "latex": sheet_latex(sheet)}
+    buf = Console(file=io.StringIO(), width=80, color_system=None)
+    print_steps(buf, propped)
+    texts["steps"] = buf.file.getvalue()
+    for fmt_name, text in texts.items():
+        for field in ("Store room shelf beam", "T-0042", "A. Tester", "B. Checker",
+                      "shelf.toml", "Propped shelf beam"):
+            assert field in text, (fmt_name, field)
+        assert "/somewhere/deep" not in text, fmt_name
+    assert "counter(pages)" in texts["html"]       # sheet n of N in print
+    assert r"\pageref{LastPage}" in texts["latex"]
+
+
+def test_project_table_bad_key_is_one_line(tmp_path):
+    path = tmp_path / "bad.toml"
+    path.write_text(PROPPED.replace('revision = "C"', 'revison = "C"'))
+    out = subprocess.run([sys.executable, "-m", "leastwork", "solve", str(path)],
+                         capture_output=True, text=True)
+    assert out.returncode == 2
+    assert "[project]" in out.stderr and "revision" in out.stderr
+    assert "Traceback" not in out.stderr and len(out.stderr.strip().splitlines()) == 1
+
+
+# ------------------------------------------------------------------ formulas
+
+
+def test_mathml_well_formed_for_every_formula(propped):
+    html = report_html(propped)
+    maths = re.findall(r"<math\b.*?</math>", html, flags=re.S)
+    sheet = audit_sheet(propped)
+    typeset = [b for s in sheet.steps for b in s.blocks if getattr(b, "latex", None)]
+    assert typeset and len(maths) == len(typeset)
+    for m in maths:
+        root = ET.fromstring(m)  # raises on a malformed element
+        assert root.tag == "math"
+    assert "<script" not in html  # offline: nothing to fetch or run
+
+
+def test_mathml_fraction_and_subscript():
+    root = ET.fromstring(latex_mathml(r"\delta_{11} = \frac{L}{EA}"))
+    assert root.find(".//mfrac") is not None and root.find(".//msub") is not None
+
+
+# ------------------------------------------------------------------ steps
+
+
+def test_step7_shows_the_unit_load_moment(propped):
+    sheet = audit_sheet(propped)
+    step7 = next(s for s in sheet.steps if s.number == 7)
+    state = next(b for b in step7.blocks
+                 if isinstance(b, Grid) and b.title.startswith("Unit-load state for B.y"))
+    rows = {r[0]: r for r in state.rows}
+    # released structure: the cantilever A-C; an upward unit load at B (x = 3 m) gives
+    # m_u(x) = 3 - x on AB (sagging +) and nothing on BC (statics of a cantilever,
+    # common practice)
+    assert rows["AB"][2] == "3 - x"
+    assert "BC" not in rows
+    contributions = next(b for b in step7.blocks
+                         if isinstance(b, Grid) and b.title.endswith("displacement B.y"))
+    labels = [(r[0], r[1]) for r in contributions.rows]
+    assert len(labels) == len(set(labels))  # every row says which term it is
+    span = [t for _, t in labels if t.startswith("span loads (bending)")]
+    assert span and all(t.endswith(("start term", "end term")) for t in span)
+
+
+def test_inputs_echo_supports_and_sections():
+    text = (Path(__file__).parent.parent / "cases" / "tied-beam.toml").read_text()
+    sol = leastwork.solve(leastwork.loads_case(text))
+    sheet = sheet_markdown(audit_sheet(sol))
+    assert "pinned" in sheet and "support yes" not in sheet
+    for word in ("steel", "ub254", "E \\[", "A \\[", "I \\["):  # Markdown escapes [
+        assert word in sheet, word
+
+
+def test_truss_tables_have_no_empty_v_and_m_columns():
+    sol = leastwork.load_case(CASES[0].parent / "footbridge-truss.toml")
+    sheet = audit_sheet(leastwork.solve(sol))
+    step6 = next(s for s in sheet.steps if s.number == 6)
+    forces = [b for b in step6.blocks if isinstance(b, Grid) and "bar forces" in b.title]
+    assert forces
+    for g in forces:
+        assert not any(h.startswith(("v ", "m ")) for h in g.headers)
+        assert "left out" in g.title  # says why
+        assert {r[-1] for r in g.rows} <= {"T", "C", "-"}
+
+
+def test_sign_convention_worded_once(propped):
+    sheet = sheet_markdown(audit_sheet(propped))
+    buf = Console(file=io.StringIO(), width=200, color_system=None)
+    print_summary(buf, propped)
+    assert SECTION_FORCES.replace("-", "\\-").replace("+", "\\+") in sheet.replace(
+        "\\(", "(") or SECTION_FORCES in sheet
+    assert SECTION_FORCES in buf.file.getvalue().replace("\n", " ")
+
+
+# ------------------------------------------------------------------ terminal
+
+
+def _uncut(out: str, width: int) -> None:
+    """Nothing cut: no ellipsis, no line wider than the console, and every table line
+    closed by its right border (a table cropped at the edge would lose it)."""
+    assert "…" not in out
+    assert max(len(line) for line in out.splitlines()) <= width
+    for line in out.splitlines():
+        if line[:1] in "│┃┏┡└├┗┣":
+            assert line.rstrip()[-1] in "│┃┓┩┘┤┛┫", line
+
+
+@pytest.mark.parametrize("path", CASES, ids=lambda p: p.stem)
+def test_steps_never_cut_at_60_columns(path):
+    sol = leastwork.solve(leastwork.load_case(path))
+    for width in (60, 80):
+        buf = Console(file=io.StringIO(), width=width, color_system=None, highlight=False)
+        print_steps(buf, sol)
+        out = buf.file.getvalue()
+        _uncut(out, width)
+        assert "(part 1 of" not in out
+        assert not re.search(r"\d\.?\d*e[-+]\d", out)  # no e-notation anywhere
+        buf = Console(file=io.StringIO(), width=width, color_system=None, highlight=False)
+        print_summary(buf, sol)
+        _uncut(buf.file.getvalue(), width)
+
+
+def test_subcommand_help_says_what_it_does():
+    def helptext(*args):
+        return subprocess.run([sys.executable, "-m", "leastwork", *args, "--help"],
+                              capture_output=True, text=True).stdout
+
+    check = helptext("check")
+    assert "without solving" in check and "Solve statically" not in check
+    assert "qualified engineer" in check  # the caution stays on every help
+    assert helptext("solve") != helptext("report")
+    out = subprocess.run([sys.executable, "-m", "leastwork", "demo", "--no-color"],
+                         capture_output=True, text=True, env={**os.environ, "COLUMNS": "60"})
+    assert out.returncode == 0 and "\x1b[" not in out.stdout and "…" not in out.stdout
+
+
+# ------------------------------------------------------------------ print
+
+
+@pytest.mark.skipif(shutil.which("chromium") is None, reason="no headless Chromium here")
+def test_printed_sheet_pages_and_width(tmp_path, propped):
+    html = tmp_path / "shelf.html"
+    html.write_text(report_html(propped))
+    pdf = tmp_path / "shelf.pdf"
+    subprocess.run(["chromium", "--headless", "--no-sandbox", "--disable-gpu",
+                    "--no-pdf-header-footer", f"--print-to-pdf={pdf}", html.as_uri()],
+                   capture_output=True, timeout=120, check=False)
+    if not pdf.exists():
+        pytest.skip("Chromium could not print here")
+    pages = len(re.findall(rb"/Type\s*/Page[^s]", pdf.read_bytes()))
+    # a one-case, one-redundant beam: summary, inputs, diagrams and eight steps
+    assert 1 <= pages <= 8, pages
