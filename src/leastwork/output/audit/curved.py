@@ -15,7 +15,7 @@ from ...elements.curved import unit_values
 from ..sheet import Grid, fmt
 from .context import Context
 
-__all__ = ["curved_unit_moments", "curved_integrals", "curved_under_loads"]
+__all__ = ["curved_unit_moments", "curved_integrals", "curved_under_loads", "arc_moment_text"]
 
 
 def _coefficients(ctx: Context, m, i: int) -> tuple[float, float, float]:
@@ -27,9 +27,16 @@ def _coefficients(ctx: Context, m, i: int) -> tuple[float, float, float]:
 
 def _moment_text(ctx: Context, m, i: int) -> str:
     """m_i along the arc in the output units (moment per unit redundant)."""
+    return arc_moment_text(ctx, m, _coefficients(ctx, m, i),
+                           ctx.u.ratio("moment", ctx.xq[i])[0])
+
+
+def arc_moment_text(ctx: Context, m, basic: tuple[float, float, float], f_m: float) -> str:
+    """The moment along curved member ``m`` carrying basic forces ``basic`` = (N, Ms, Me)
+    (SI) in its arc coordinate (θ for a circle, u for a parabola, see
+    :func:`arc_coordinate`), divided by ``f_m`` (SI value of one unit shown)."""
     u = ctx.u
-    f_m = u.ratio("moment", ctx.xq[i])[0]
-    bN, bMs, bMe = _coefficients(ctx, m, i)
+    bN, bMs, bMe = basic
     arc = arc_of(m.curve)
     c, f = arc.chord, arc.rise
     if arc.shape == "circle":
@@ -45,14 +52,16 @@ def _moment_text(ctx: Context, m, i: int) -> str:
         k1 = (bMe - bMs) / c + bN * 4 * f / c
         k2 = -bN * 4 * f / (c * c)
         terms = [(bMs / f_m, ""), (k1 * L / f_m, "·u"), (k2 * L * L / f_m, "·u²")]
+    big = max(abs(t[0]) for t in terms)  # round-off of the cancelling constant left out
     text = " ".join(f"{'−' if v < 0 else '+'} {fmt(abs(v), 5)}{w}" for v, w in terms
-                    if abs(v) > 1e-12 * max(abs(t[0]) for t in terms))
+                    if abs(v) > 1e-9 * big)
     text = text.removeprefix("+ ").replace("− ", "−", 1) if text.startswith("−") else \
         text.removeprefix("+ ")
     return text or "0"
 
 
-def _coordinate(ctx: Context, m) -> str:
+def arc_coordinate(ctx: Context, m) -> str:
+    """The arc coordinate of curved member ``m`` in words (θ or u, and ds)."""
     arc = arc_of(m.curve)
     L = ctx.u.L
     if arc.shape == "circle":
@@ -70,7 +79,7 @@ def curved_unit_moments(ctx: Context) -> Grid:
     u, nr = ctx.u, ctx.nred
     rows = []
     for m in (m for m in ctx.st.members.values() if m.curve is not None):
-        rows.append((m.id, _coordinate(ctx, m), u.convert(m.EI, 1, 2),
+        rows.append((m.id, arc_coordinate(ctx, m), u.convert(m.EI, 1, 2),
                      *[_moment_text(ctx, m, i) for i in range(nr)]))
     heads = ["curved member", "arc coordinate", f"EI [{u.label(1, 2)}]"]
     heads += [f"m{i + 1} [{u.ratio('moment', ctx.xq[i])[1]}]" for i in range(nr)]

@@ -83,6 +83,9 @@ def _unit_load_state(ctx: Context, target: str, s_u: np.ndarray, dim) -> Grid:
         values = [s_u[ci[bf.name]] for bf in kind.basic_forces(m)]
         if not any(values):
             continue
+        if m.curve is not None:  # along the arc, in its own coordinate
+            rows.append(_arc_unit_state(ctx, m, kind, values, u.power(*m_dim)))
+            continue
         fields = kind.force_fields(m, st.length(m.id), values, 0.0)
         n = fields.get("n", [0.0])
         mom = fields.get("m")
@@ -90,10 +93,24 @@ def _unit_load_state(ctx: Context, target: str, s_u: np.ndarray, dim) -> Grid:
         m_text = "-" if mom is None else poly_text(scaled_poly(mom, u.L, u.power(*m_dim)))
         rows.append((m.id, n_text, m_text))
     load = "a unit couple" if couple else "a unit load"
+    arcs = ("; curved members: n = N cos φ − Q sin φ along the arc, m_u in the arc's "
+            "coordinate θ or u of the unit moments above"
+            if any(m.curve is not None for m in st.members.values()) else "")
     return Grid(f"Unit-load state for {target}: {load} on the released structure (x from "
-                f"the start node, in {u.length_unit})",
+                f"the start node, in {u.length_unit}{arcs})",
                 ("member", f"n_u(x) [{u.label(*n_dim)}]", f"m_u(x) [{u.label(*m_dim)}]"),
                 tuple(rows))
+
+
+def _arc_unit_state(ctx: Context, m, kind, values, f_m: float) -> tuple[str, str, str]:
+    """A curved member's row of the unit-load state: its basic forces (n along the arc
+    follows from them, n = N cos φ − Q sin φ) and m_u in the arc's own coordinate."""
+    from .curved import arc_moment_text
+
+    roles = dict(zip((bf.role for bf in kind.basic_forces(m)), values, strict=True))
+    basic = (roles.get("axial", 0.0), roles.get("start_m", 0.0), roles.get("end_m", 0.0))
+    return (m.id, f"chord force N = {fmt(basic[0] * ctx.u.power(0, 1) / f_m)}",
+            arc_moment_text(ctx, m, basic, f_m))
 
 
 def _virtual_state(st: Structure, topo, res, target: str):
