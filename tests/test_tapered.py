@@ -229,7 +229,7 @@ def test_command_line_json_steps_and_symbolic(capsys, tmp_path):
     assert out["cases"]["roof"]["reactions"]["A"]["y"] > 0
     assert main(["solve", path, "--case", "roof", "--steps"]) == 0
     text = " ".join(capsys.readouterr().out.split())  # terminal lines rejoined
-    assert "relative error bound 1e-13" in text and "agrees" in text
+    assert "relative error bound 1×10⁻¹³" in text and "agrees" in text
     assert "Integrand of the bending coefficients" in text
     prop = tmp_path / "prop.toml"
     prop.write_text(_propped('["deep", "shallow"]', ', taper = "depth"'), encoding="utf-8")

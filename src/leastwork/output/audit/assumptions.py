@@ -3,7 +3,9 @@ caution every output ends with."""
 
 from __future__ import annotations
 
+from ...elements.base import QUAD_RTOL
 from ...model import Structure
+from ..sheet import fmt
 
 __all__ = ["ASSUMPTIONS", "CAUTION", "energy_terms"]
 
@@ -44,7 +46,7 @@ def energy_terms(st: Structure) -> str:
     tapered = [m.id for m in members if m.taper is not None]
     if tapered:
         text += (f" Tapered beams (section varying along the axis; energy integrated "
-                 f"numerically, relative error bound 1e-13): {', '.join(tapered)}.")
+                 f"numerically, relative error bound {fmt(QUAD_RTOL, 1)}): {', '.join(tapered)}.")
     rigid = [m.id for m in members if m.is_beam and m.EA is None]
     if rigid:
         text += f" Axially rigid (no area given): {', '.join(rigid)}."

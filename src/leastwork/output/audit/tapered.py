@@ -9,7 +9,7 @@ from ...elements import kind_of
 from ...elements.base import QUAD_RTOL
 from ...elements.tapered import profile
 from ...polynomials import poly_eval
-from ..sheet import Formula, Grid, Para
+from ..sheet import Formula, Grid, Para, fmt
 from .context import Context
 
 __all__ = ["tapered_blocks", "SAMPLES"]
@@ -72,9 +72,9 @@ def tapered_blocks(ctx: Context) -> list:
             f"Tapered beam {m.id} (taper \"{m.taper.law}\"): {_LAW[m.taper.law]}. Its "
             "flexibility and load terms have no closed form here: they are integrated by "
             "adaptive Gauss–Kronrod quadrature (7/15 points, intervals halved until the two "
-            f"rules agree), relative error bound {QUAD_RTOL:.0e}, far below the digits "
+            f"rules agree), relative error bound {fmt(QUAD_RTOL, 1)}, far below the digits "
             "printed. Independent check (composite Gauss–Legendre, 32 × 16 points) of its "
-            f"bending terms δii: largest relative difference {worst:.1e}"
+            f"bending terms δii: largest relative difference {fmt(worst, 2)}"
             + (" — agrees." if worst < 1e-9 else " — DISAGREES: do not use these results "
                "before the cause is found."), "plain" if worst < 1e-9 else "alarm"))
         if not live:

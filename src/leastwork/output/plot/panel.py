@@ -181,6 +181,7 @@ class Panel:
         d = d / np.hypot(*d) if np.hypot(*d) > 0 else np.array([0.0, 1.0])
         gap = 0.35 * self.h if gap is None else gap
         w, hgt = self.text_box(text, size, weight, box)
+        pad = 0.25 * size / 72 * self.per_inch if box else 0.0  # the frame's padding
         p = np.asarray(p, dtype=float)
         if once and any(b[4] == text and abs(0.5 * (b[0] + b[2]) - p[0]) < 1.5 * w
                         and abs(0.5 * (b[1] + b[3]) - p[1]) < 4 * hgt for b in self.boxes):
@@ -203,7 +204,7 @@ class Panel:
         for lines_too in (True, False) if must else (True,):
             for q, u in cands:
                 ha, va = _align(u)
-                rect = self._rect(q, w, hgt, ha, va)
+                rect = self._rect(q, w, hgt, ha, va, pad)
                 if self._hits_label(rect) or (lines_too and self._crossed(rect)):
                     continue
                 chosen = (q, rect, ha, va)
@@ -214,7 +215,7 @@ class Panel:
             if not force:
                 return False
             ha, va = _align(d)
-            chosen = (cands[0][0], self._rect(cands[0][0], w, hgt, ha, va), ha, va)
+            chosen = (cands[0][0], self._rect(cands[0][0], w, hgt, ha, va, pad), ha, va)
         q, rect, ha, va = chosen
         kw = {}
         if box:
@@ -231,9 +232,11 @@ class Panel:
         self.include([rect[0], rect[1]], [rect[2], rect[3]])
         return True
 
-    def _rect(self, q, w: float, hgt: float, ha: str, va: str) -> tuple:
-        x0 = q[0] - (0 if ha == "left" else (w if ha == "right" else w / 2))
-        y0 = q[1] - (0 if va == "bottom" else (hgt if va == "top" else hgt / 2))
+    def _rect(self, q, w: float, hgt: float, ha: str, va: str, pad: float = 0.0) -> tuple:
+        """The rectangle a label anchored at ``q`` covers; ``pad``: the frame of a boxed
+        label reaches that far (m) beyond its text on every side."""
+        x0 = q[0] - (pad if ha == "left" else (w - pad if ha == "right" else w / 2))
+        y0 = q[1] - (pad if va == "bottom" else (hgt - pad if va == "top" else hgt / 2))
         return (x0, y0, x0 + w, y0 + hgt)
 
     def _hits_label(self, rect) -> bool:
