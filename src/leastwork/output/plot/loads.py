@@ -44,6 +44,18 @@ class LoadSketch:
     points: dict[tuple, list] = field(default_factory=dict)
     #: span loads drawn so far per member (each next one further out)
     stack: dict[str, int] = field(default_factory=dict)
+    #: span loads and temperatures alike on several curved members (the arcs of one arch):
+    #: key -> [arcs carrying it, the arc whose label is drawn (the one nearest the middle
+    #: of the structure, so that the label goes up rather than out to the side)]
+    arcs: dict[tuple, list] = field(default_factory=dict)
+
+    def arc_label(self, ld, text: str) -> str | None:
+        """The label of a load on a curved member: shared by the arcs carrying the same
+        load (drawn once, saying on how many arcs); None on the other arcs."""
+        n, chosen = self.arcs[_arc_key(self.st, ld)]
+        if n == 1:
+            return text
+        return f"{text} on {n} arcs" if ld is chosen else None
 
     def add_point_load(self, key: tuple, p: np.ndarray, ld) -> None:
         acc = self.points.setdefault(key, [p, 0.0, 0.0, 0.0])
@@ -145,7 +157,11 @@ def _distributed(sk: LoadSketch, ld: DistributedLoad) -> None:
     if ld.frame == "projection":
         parts[-1] += " per projection"
     mid = len(tails) // 2
-    pn.label(tails[mid], ", ".join(parts), direction=out, color=LOAD, must=True)
+    text = ", ".join(parts)
+    if axis.curve is not None:  # the arcs of one arch carrying the same load: one label
+        text = sk.arc_label(ld, text)
+    if text is not None:
+        pn.label(tails[mid], text, direction=out, color=LOAD, must=True)
     pn.occupy(np.vstack([tails, on_axis + shift]))
 
 
@@ -166,8 +182,10 @@ def _temperature(sk: LoadSketch, ld: TemperatureLoad) -> None:
     text = f"temperature: uniform {number(ld.uniform)} K"
     if ld.gradient:
         text += f", gradient {number(ld.gradient)} K (warmer face marked)"
-    pn.label(c + ey * 0.4 * pn.h, text, direction=ey, color=IMPOSED,
-             must=True)
+    if axis.curve is not None:  # the arcs of one arch warmed alike: one label
+        text = sk.arc_label(ld, text)
+    if text is not None:
+        pn.label(c + ey * 0.4 * pn.h, text, direction=ey, color=IMPOSED, must=True)
 
 
 def _misfit(sk: LoadSketch, ld: Misfit) -> None:
@@ -235,10 +253,31 @@ LOAD_DRAWERS: dict[type, tuple[str, Callable]] = {
 }
 
 
+def _arc_key(st: Structure, ld) -> tuple:
+    """What makes two span loads or temperatures on different arcs alike (the loaded part
+    as fractions of each arc's length)."""
+    if isinstance(ld, TemperatureLoad):
+        return ("temperature", ld.uniform, ld.gradient)
+    L = st.length(ld.member)
+    end = 1.0 if math.isnan(ld.end) else round(ld.end / L, 9)
+    return ("span", ld.wx, ld.wy, ld.frame, round(ld.start / L, 9), end)
+
+
 def draw_loads(pn: Panel, st: Structure, case: str) -> None:
     """Every load of load case ``case``, pass by pass (:data:`PASSES`)."""
     sk = LoadSketch(pn, st, case_units(st), 2.6 * pn.h)
     loads = [ld for ld in st.loads if ld.case == case]
+    xs = [n.x for n in st.nodes.values()]
+    middle = 0.5 * (min(xs) + max(xs))
+    for ld in loads:
+        if (isinstance(ld, (DistributedLoad, TemperatureLoad))
+                and st.members[ld.member].curve is not None):
+            entry = sk.arcs.setdefault(_arc_key(st, ld), [0, ld])
+            entry[0] += 1
+            off = abs(st.point(ld.member, 0.5 * st.length(ld.member))[0] - middle)
+            if off < abs(st.point(entry[1].member, 0.5 * st.length(entry[1].member))[0]
+                         - middle) - 1e-9:
+                entry[1] = ld
     for name, after in PASSES:
         for ld in loads:
             stage, draw = LOAD_DRAWERS[type(ld)]
