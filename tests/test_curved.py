@@ -211,6 +211,34 @@ def test_bad_curve_from_the_command_line(tmp_path):
     assert "Traceback" not in out.stderr and "curve.shape" in out.stderr
 
 
+_SPACE = """
+[nodes]
+A = [0, 0, 0]
+B = [4, 0, 0]
+C = [4, 3, 0]
+[beams]
+AB = { nodes = ["A", "B"], EIy = "5000 kN*m^2", EIz = "5000 kN*m^2", GJ = "3000 kN*m^2", curve = { shape = "circle", rise = "1 m" } }
+BC = { nodes = ["B", "C"], EIy = "5000 kN*m^2", EIz = "5000 kN*m^2", GJ = "3000 kN*m^2" }
+[supports]
+A = "fixed"
+[[loads]]
+node = "C"
+fz = "-10 kN"
+"""
+
+
+def test_curved_member_in_a_space_case_is_one_located_line(tmp_path):
+    # contract: curved members are plane only; a space case naming one is refused in one
+    # line naming the file, table and key, exit 2
+    path = tmp_path / "space.toml"
+    path.write_text(_SPACE)
+    out = subprocess.run([sys.executable, "-m", "leastwork", "solve", str(path)],
+                         capture_output=True, text=True)
+    assert out.returncode == 2, out.stderr
+    assert "Traceback" not in out.stderr and len(out.stderr.strip().splitlines()) == 1
+    assert "[beams] AB.curve" in out.stderr and "plane structures only" in out.stderr
+
+
 def test_ring_under_uniform_external_pressure_is_in_pure_compression():
     # common practice (thin ring, uniform external pressure p): hoop force n = -pR, no
     # bending. Counter-clockwise arcs: local +y points inwards, so the pressure is wn = +p.

@@ -129,6 +129,9 @@ def _member_specs(reader: CaseReader, nodes) -> list[tuple[str, str, dict, list[
             if not isinstance(spec, dict):
                 raise reader.err(where, f'expected {{ nodes = ["A", "B"], ... }}, got '
                                  f"{kind_of(spec)}")
+            if "curve" in spec:
+                raise reader.err(where + ".curve", "curved members are for plane structures "
+                                 "only; in space, give the arc as straight members")
             reader.keys_known(where, spec, keys)
             ends = spec.get("nodes")
             if not (isinstance(ends, list) and len(ends) == 2
