@@ -14,7 +14,7 @@ import re
 import numpy as np
 
 from ...model import Structure
-from .geometry import member_axes, structure_size, xy
+from .geometry import MemberAxis, member_axes, polyline, structure_size, xy
 from .numbers import number
 from .panel import Panel
 from .structure import draw_members, draw_supports, keep_labels_off_members
@@ -138,8 +138,7 @@ def influence_figure(st: Structure, d: dict):
     draw_supports(pn, st)
     keep_labels_off_members(pn, st)
     for m in along:  # the path of the load, heavy
-        pn.line([xy(st, st.members[m].start), xy(st, st.members[m].end)], color=INK, lw=3.4,
-                z=3)
+        pn.line(polyline(st, m), color=INK, lw=3.4, z=3)
     _mark_quantity(pn, st, d["quantity"])
     for nid in st.nodes:
         pn.label(xy(st, nid), nid, direction=(-0.5, 1), size=FONT + 0.5, weight="bold",
@@ -236,12 +235,12 @@ def _mark_quantity(pn: Panel, st: Structure, name: str) -> None:
     sec = _SECTION.match(name)
     if sec and sec.group(1) in st.members:
         mid = sec.group(1)
-        o, ex, ey = member_axes(st, mid)
         try:
             at = float(sec.group(2)) * st.units.factor("length")
         except ValueError:
             return
-        c = o + ex * at
+        axis = MemberAxis(st, mid)  # the section on the arc of a curved member
+        c, ey = axis.at(at)[0], axis.normal(at)[0]
         pn.line([c - ey * 0.9 * h, c + ey * 0.9 * h], color=REDUNDANT, lw=2.0, z=7)
         pn.label(c + ey * 0.9 * h, f"section: {sec.group(3)}", direction=ey if ey[1] >= 0
                  else -ey, color=REDUNDANT, box=True, must=True)
@@ -262,8 +261,7 @@ def _mark_quantity(pn: Panel, st: Structure, name: str) -> None:
         return
     mid = name.split(".")[0]
     if mid in st.members:
-        m = st.members[mid]
-        pn.line([xy(st, m.start), xy(st, m.end)], color=REDUNDANT, lw=2.2, z=4)
-        o, ex, ey = member_axes(st, mid)
-        pn.label(o + ex * 0.5 * st.length(mid), name, direction=ey if ey[1] >= 0 else -ey,
+        pn.line(polyline(st, mid), color=REDUNDANT, lw=2.2, z=4)
+        _, _, ey = member_axes(st, mid)
+        pn.label(MemberAxis(st, mid).at(0.5 * st.length(mid))[0], name, direction=ey if ey[1] >= 0 else -ey,
                  color=REDUNDANT, box=True, must=True)
