@@ -109,7 +109,7 @@ def curved_integrals(ctx: Context, pairs) -> Grid:
         vals, bound = gauss_kronrod(integrand, piece_breaks(arc.length))
         for (i, j), v in zip(pairs, vals, strict=True):
             rows.append((m.id, f"∫ m{i + 1}·m{j + 1} {ds} / EI",
-                         ctx.delta_case(float(v), i, j), f"{bound:.1e}"))
+                         ctx.delta_case(float(v), i, j), fmt(bound, 2)))
     return Grid("Bending integrals along the curved members (adaptive Gauss–Kronrod "
                 "along the true axis; error bound relative to the largest integral)",
                 ("curved member", "integral", "value", "error bound"), tuple(rows))
