@@ -15,7 +15,6 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 import numpy as np
-import scipy.linalg as sla
 
 from ..compatibility import FlexibilitySolver, flexibility_matrix
 from ..errors import CaseError, MechanismError
@@ -119,6 +118,14 @@ class SpaceSolution:
         return self.stiffness_check is None or self.stiffness_check.ok
 
 
+
+def _sla():
+    """scipy's linear algebra, imported on first use (a plane case reads this package's
+    reader only and must not pay for it)."""
+    import scipy.linalg
+
+    return scipy.linalg
+
 def _member_columns(topo: SpaceTopology, mid: str) -> list[int]:
     return [i for i, c in enumerate(topo.columns) if c.owner == mid and c.role != "reaction"]
 
@@ -134,12 +141,12 @@ def solve_space(st: SpaceStructure, redundants=None, where: str | None = None,
     ncol = len(topo.columns)
     keep = [j for j in range(ncol) if j not in red]
     A0 = topo.A[:, keep]
-    lu = sla.lu_factor(A0) if A0.size else None
+    lu = _sla().lu_factor(A0) if A0.size else None
     B = np.zeros((ncol, len(red)))
     for k, r in enumerate(red):
         B[r, k] = 1.0
         if lu is not None:
-            B[keep, k] = -sla.lu_solve(lu, topo.A[:, r])
+            B[keep, k] = -_sla().lu_solve(lu, topo.A[:, r])
     # flexibility, term by term
     parts: dict[str, np.ndarray] = {}
     member_terms: dict[str, dict[str, np.ndarray]] = {}
@@ -224,7 +231,7 @@ def _case(st, topo, name, lu, keep, red, B, F, parts, solver) -> SpaceCase:
     e = sum(e_parts.values()) if e_parts else np.zeros(ncol)
     s0 = np.zeros(ncol)
     if lu is not None:
-        s0[keep] = -sla.lu_solve(lu, p)
+        s0[keep] = -_sla().lu_solve(lu, p)
     imposed = c[red]
     load_terms = B.T @ (F @ s0 + e - c) + imposed
     term_parts = {t: B.T @ (Ft @ s0) for t, Ft in parts.items()}
@@ -307,7 +314,7 @@ def _displacement(st, topo, lu, keep, target: str, strain: np.ndarray) -> float:
     unit[topo.dof_index[target]] = 1.0
     su = np.zeros(len(topo.columns))
     if lu is not None:
-        su[keep] = -sla.lu_solve(lu, unit)
+        su[keep] = -_sla().lu_solve(lu, unit)
     return float(su @ strain)
 
 
