@@ -349,9 +349,9 @@ def _influence(args, st, console) -> int:
 
     from ..solve import solve
     from ..studies.influence import influence_line, influence_to_dict, parse_members, parse_quantity
-    from ..topology import build_topology
+    from ..topology import sparse_topology
 
-    topo = build_topology(st)
+    topo = sparse_topology(st)  # names and columns only: no rank decisions needed
     q = parse_quantity(st, topo, args.quantity)  # refuse bad input before solving
     parse_members(st, args.along)
     units = display_units(args.units, st.units) or st.units

@@ -15,8 +15,19 @@ the thresholds, the output units and round-off, and the calculation sheet with i
 terminal, Markdown and LaTeX renderers. See docs/space.md.
 """
 
-from .model import SpaceMember, SpaceNode, SpaceStructure, local_axes
-from .solve import SpaceSolution, solve_space
+from importlib import import_module
 
 __all__ = ["SpaceStructure", "SpaceNode", "SpaceMember", "SpaceSolution", "solve_space",
            "local_axes"]
+
+#: Each public name and its module, imported on first use: the plane reader asks
+#: ``space.reader`` whether a case is a space case, and a plane solve must not load the
+#: space solver (and scipy's dense linear algebra with it).
+_HOME = {"SpaceStructure": "model", "SpaceNode": "model", "SpaceMember": "model",
+         "local_axes": "model", "SpaceSolution": "solve", "solve_space": "solve"}
+
+
+def __getattr__(name: str):
+    if name in _HOME:
+        return getattr(import_module(f".{_HOME[name]}", __name__), name)
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")

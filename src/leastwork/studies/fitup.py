@@ -181,13 +181,13 @@ class Reported:
 
     ``groups`` is "members" (axial force, key the member id), "moments" (beam end moments,
     ``ID.start.m``/``ID.end.m``) or "reactions" (``NODE.x|y|rz|n``); ``dims`` "force" or
-    "moment"; ``rows`` (nq, ncol).
+    "moment"; ``rows`` (nq, ncol), scipy sparse CSR.
     """
 
     names: tuple[str, ...]
     groups: tuple[str, ...]
     dims: tuple[str, ...]
-    rows: np.ndarray
+    rows: object
 
 
 def axial_column(st: Structure, topo, mid: str) -> int:
@@ -197,32 +197,34 @@ def axial_column(st: Structure, topo, mid: str) -> int:
 
 def reported_quantities(st: Structure, topo) -> Reported:
     """Every member's axial force, every beam end moment (hinged ends have none) and every
-    reaction component."""
-    ncol = len(topo.columns)
-    names, groups, dims, rows = [], [], [], []
+    reaction component. ``rows`` is a sparse matrix (scipy CSR): one or a few entries per
+    quantity, so that it stays proportional to the structure (a dense one is quantities
+    times columns: 0.8 GB at 10^4 members)."""
+    from scipy import sparse
 
-    def add(name: str, group: str, dim: str, row: np.ndarray) -> None:
+    ncol = len(topo.columns)
+    names, groups, dims, cols, vals, ptr = [], [], [], [], [], [0]
+
+    def add(name: str, group: str, dim: str, entries) -> None:
         names.append(name)
         groups.append(group)
         dims.append(dim)
-        rows.append(row)
-
-    def unit(j: int) -> np.ndarray:
-        # a fresh row, not a view of an identity matrix (a view would keep the whole
-        # ncol x ncol matrix alive for every quantity: gigabytes on a thousand members)
-        row = np.zeros(ncol)
-        row[j] = 1.0
-        return row
+        for j, w in entries:
+            cols.append(j)
+            vals.append(w)
+        ptr.append(len(cols))
 
     for mid in st.members:
-        add(mid, "members", "force", unit(axial_column(st, topo, mid)))
+        add(mid, "members", "force", [(axial_column(st, topo, mid), 1.0)])
     for j, c in enumerate(topo.columns):
         if c.kind in ("start_m", "end_m"):
-            add(c.name, "moments", "moment", unit(j))
+            add(c.name, "moments", "moment", [(j, 1.0)])
     for name, (row, dim) in reaction_rows(st, topo).items():
-        add(name, "reactions", dim, row)
-    return Reported(tuple(names), tuple(groups), tuple(dims),
-                    np.array(rows).reshape(len(rows), ncol))
+        nz = np.flatnonzero(row)
+        add(name, "reactions", dim, zip(nz.tolist(), row[nz].tolist(), strict=True))
+    rows = sparse.csr_matrix((np.array(vals, dtype=float), np.array(cols, dtype=np.intp),
+                              np.array(ptr, dtype=np.intp)), shape=(len(names), ncol))
+    return Reported(tuple(names), tuple(groups), tuple(dims), rows)
 
 
 def misfit_influence(sol, members) -> np.ndarray:
@@ -411,7 +413,7 @@ def fitup_study(sol, tolerances: Mapping[str, float], samples: int = 10000,
     members = list(tolerances)
     t = np.array([tolerances[m] for m in members], dtype=float)
     lmax = max((st.length(m) for m in st.members), default=1.0)
-    Gq = _clean(rep.rows @ misfit_influence(sol, members), rep.dims, lmax)
+    Gq = _clean(np.asarray(rep.rows @ misfit_influence(sol, members)), rep.dims, lmax)
     return FitupStudy(dict(tolerances), rep, Gq, worst_case(Gq, t),
                       monte_carlo(Gq, t, samples, distribution, seed),
                       exact_std(Gq, t, distribution), samples, distribution, seed)

@@ -42,11 +42,17 @@ STEPS = (step_structure, step_redundants, step_released, step_coefficients, step
 def audit_sheet(sol, case_names=None, *, meta: dict[str, str] | None = None) -> Sheet:
     """Build the audit trail of ``sol`` (a :class:`~leastwork.solution.Solution`) for the
     load cases ``case_names`` (default: all)."""
-    ctx = Context(sol, case_names)
     st = sol.structure
+    if sol.basis == "local" and len(sol.redundant_columns) > AUDIT_MAX_LOCAL_STATES:
+        from .summary import summary_steps  # too many states to write out: says so
+
+        steps = summary_steps(sol, case_names)
+    else:
+        ctx = Context(sol, case_names)
+        steps = tuple(step(ctx) for step in STEPS)
     return Sheet(title=st.name, source=file_name(st.source),
                  assumptions=(ASSUMPTIONS, energy_terms(st)),
-                 steps=tuple(step(ctx) for step in STEPS), cautions=(CAUTION,),
+                 steps=steps, cautions=(CAUTION,),
                  meta=dict(meta or {}), project=dict(st.project))
 
 

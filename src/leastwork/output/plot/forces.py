@@ -18,7 +18,17 @@ from .geometry import MemberAxis, case_units, crossings, member_axes
 from .numbers import magnitude, number, resolution, tension_mark
 from .panel import Panel
 from .structure import draw_members, draw_supports, keep_labels_off_members
-from .style import AREA, AREA_EDGE, COMPRESSION, FAINT, FONT, HATCH, INK, TENSION
+from .style import (
+    AREA,
+    AREA_EDGE,
+    COMPRESSION,
+    FAINT,
+    FONT,
+    HATCH,
+    INK,
+    NAMED_MEMBERS_MAX,
+    TENSION,
+)
 
 
 def value_text(quantity: str, value: float) -> str:
@@ -195,7 +205,14 @@ def force_panel(pn: Panel, sol, case: str, quantity: str) -> tuple[str, str]:
     bars = [mid for mid in lines if quantity == "n" and not st.members[mid].is_beam]
     for mid in bars:
         _bar_line(pn, st, mid, float(lines[mid]["value"][0]))
-    for mid in bars:  # their values once every bar is drawn
+    if len(bars) > NAMED_MEMBERS_MAX:  # the two extremes only, and the title says so
+        title += (f"; {len(bars)} bars: values of the largest tension and compression only "
+                  "(solve --json gives every one)")
+        value = {mid: float(lines[mid]["value"][0]) for mid in bars}
+        bars_named = list(dict.fromkeys((max(value, key=value.get), min(value, key=value.get))))
+    else:
+        bars_named = bars
+    for mid in bars_named:  # their values once every bar is drawn
         _bar_value(pn, st, mid, float(lines[mid]["value"][0]))
     for mid, d in lines.items():
         x, v = d["x"] * lf, d["value"]

@@ -159,26 +159,51 @@ def blocked(st: Structure, node: str, d: np.ndarray) -> bool:
 
 def crossings(st: Structure) -> dict[str, list[float]]:
     """Per member, the fractions of its length (0..1) where another member crosses it away
-    from a shared node (two braces of one panel, say)."""
-    out: dict[str, list[float]] = {m: [] for m in st.members}
+    from a shared node (two braces of one panel, say). Found once per structure (the last
+    one is kept: every member's label asks for it)."""
+    if _CROSSINGS[0] is not st:
+        _CROSSINGS[:] = [st, _find_crossings(st)]
+    return _CROSSINGS[1]
+
+
+_CROSSINGS: list = [None, None]
+
+
+def _find_crossings(st: Structure) -> dict[str, list[float]]:
+    """:func:`crossings` by arrays: members sorted by their least x, each block of them
+    tested only against the members whose x-range can reach it (a long structure meets few
+    of its members)."""
     ids = list(st.members)
-    for i, a in enumerate(ids):
-        ma = st.members[a]
-        p, r = xy(st, ma.start), xy(st, ma.end) - xy(st, ma.start)
-        for b in ids[i + 1:]:
-            mb = st.members[b]
-            if {ma.start, ma.end} & {mb.start, mb.end}:
-                continue
-            q, s = xy(st, mb.start), xy(st, mb.end) - xy(st, mb.start)
-            den = r[0] * s[1] - r[1] * s[0]
-            if abs(den) < 1e-12 * np.hypot(*r) * np.hypot(*s):
-                continue
-            qp = q - p
-            t = (qp[0] * s[1] - qp[1] * s[0]) / den
-            u = (qp[0] * r[1] - qp[1] * r[0]) / den
-            if 1e-6 < t < 1 - 1e-6 and 1e-6 < u < 1 - 1e-6:
-                out[a].append(float(t))
-                out[b].append(float(u))
+    out: dict[str, list[float]] = {m: [] for m in ids}
+    if len(ids) < 2:
+        return out
+    names = {n: k for k, n in enumerate(st.nodes)}
+    ends = np.array([[names[st.members[m].start], names[st.members[m].end]] for m in ids])
+    xyn = np.array([[n.x, n.y] for n in st.nodes.values()], dtype=float)
+    P, Q = xyn[ends[:, 0]], xyn[ends[:, 1]]
+    lo, hi = np.minimum(P[:, 0], Q[:, 0]), np.maximum(P[:, 0], Q[:, 0])
+    order = np.argsort(lo, kind="stable")
+    los = lo[order]
+    R = Q - P
+    norm = np.hypot(R[:, 0], R[:, 1])
+    block = 256
+    for a0 in range(0, len(ids), block):
+        ia = order[a0:a0 + block]
+        stop = int(np.searchsorted(los, hi[ia].max(), side="right"))
+        ib = order[a0:stop]  # the same block and the members after it that may reach it
+        r, s = R[ia][:, None, :], R[ib][None, :, :]
+        den = r[..., 0] * s[..., 1] - r[..., 1] * s[..., 0]
+        qp = P[ib][None, :, :] - P[ia][:, None, :]
+        ok = np.abs(den) >= 1e-12 * norm[ia][:, None] * norm[ib][None, :]
+        shared = ((ends[ia][:, None, :, None] == ends[ib][None, :, None, :]).any(axis=(2, 3)))
+        later = np.arange(a0, a0 + len(ia))[:, None] < np.arange(a0, stop)[None, :]
+        with np.errstate(divide="ignore", invalid="ignore"):
+            t = (qp[..., 0] * s[..., 1] - qp[..., 1] * s[..., 0]) / den
+            u = (qp[..., 0] * r[..., 1] - qp[..., 1] * r[..., 0]) / den
+        hit = ok & ~shared & later & (t > 1e-6) & (t < 1 - 1e-6) & (u > 1e-6) & (u < 1 - 1e-6)
+        for i, j in zip(*np.nonzero(hit), strict=True):
+            out[ids[ia[i]]].append(float(t[i, j]))
+            out[ids[ib[j]]].append(float(u[i, j]))
     return out
 
 

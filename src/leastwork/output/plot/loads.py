@@ -29,7 +29,7 @@ from .arrows import node_arrow
 from .geometry import MemberAxis, case_units, clear_spot, crossings, member_axes, xy
 from .numbers import number
 from .panel import Panel
-from .style import IMPOSED, LOAD
+from .style import IMPOSED, LOAD, NAMED_MEMBERS_MAX
 
 
 @dataclass
@@ -84,6 +84,8 @@ def _draw_point_loads(sk: LoadSketch) -> None:
     ff, fu = sk.uf["force"]
     mf, mu = sk.uf["moment"]
     la = sk.la
+    crowded = len(st.members) > NAMED_MEMBERS_MAX
+    shown: set[str] = set()  # on a crowded drawing, each value is written once
     for key, (p, fx, fy, mz) in sk.points.items():
         f = np.array([fx, fy])
         mag = float(np.hypot(*f))
@@ -99,10 +101,18 @@ def _draw_point_loads(sk: LoadSketch) -> None:
                 pn.arrow(tail, tip, color=LOAD, lw=1.2, what="load")
                 pn.keep_off([tail, tip])
                 far, shaft = tail, -d
-            pn.label(far, text, direction=shaft, color=LOAD, must=True, gap=0.2 * pn.h)
+            if not (crowded and text in shown):
+                pn.label(far, text, direction=shaft, color=LOAD, must=True, gap=0.2 * pn.h)
+            shown.add(text)
         if mz:
             q = pn.arc_arrow(p, 0.9 * pn.h, mz > 0, color=LOAD)
-            pn.label(q, f"{number(abs(mz) / mf)} {mu}", color=LOAD, must=True)
+            text = f"{number(abs(mz) / mf)} {mu}"
+            if not (crowded and text in shown):
+                pn.label(q, text, color=LOAD, must=True)
+            shown.add(text)
+    if crowded and len(shown) < len(sk.points):
+        pn.key.append(f"over {NAMED_MEMBERS_MAX} members: equal concentrated loads have "
+                      "their value written at one of them only")
 
 
 # ---------------------------------------------------------------------------- span loads

@@ -56,6 +56,8 @@ class Panel:
     at_node: dict = field(default_factory=dict)  #: node -> shaft directions drawn there
     marks: dict = field(default_factory=dict)  #: member -> fractions of its length marked
     _seg_cache: object = None
+    _box_arr: object = None  #: :attr:`boxes` as a (k, 4) array, grown as boxes are added
+    _box_n: int = 0
     deferred: list | None = None  #: labels queued until every line is drawn
     key: list = field(default_factory=list)  #: lines of text under the drawing
 
@@ -240,8 +242,22 @@ class Panel:
         return (x0, y0, x0 + w, y0 + hgt)
 
     def _hits_label(self, rect) -> bool:
-        return any(not (rect[2] <= b[0] or b[2] <= rect[0] or rect[3] <= b[1]
-                        or b[3] <= rect[1]) for b in self.boxes)
+        """Whether ``rect`` overlaps a label or box placed so far (all at once, by arrays:
+        a large structure has thousands)."""
+        n = len(self.boxes)
+        if n == 0:
+            return False
+        if self._box_arr is None or self._box_n > n:
+            self._box_arr, self._box_n = np.empty((max(64, 2 * n), 4)), 0
+        if n > self._box_n:  # the boxes added since, into the array (grown by doubling)
+            if n > len(self._box_arr):
+                self._box_arr = np.vstack([self._box_arr[:self._box_n],
+                                           np.empty((2 * n - self._box_n, 4))])
+            self._box_arr[self._box_n:n] = [b[:4] for b in self.boxes[self._box_n:n]]
+            self._box_n = n
+        b = self._box_arr[:n]
+        return bool(np.any((rect[2] > b[:, 0]) & (b[:, 2] > rect[0]) & (rect[3] > b[:, 1])
+                           & (b[:, 3] > rect[1])))
 
     def extent(self) -> np.ndarray:
         """(2, 2): lower-left and upper-right corners of everything drawn."""

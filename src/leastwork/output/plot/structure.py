@@ -28,7 +28,7 @@ from .geometry import (
 from .loads import draw_loads
 from .numbers import number
 from .panel import Panel
-from .style import DIMENSION, FAINT, FONT, GROUND, INK, REDUNDANT
+from .style import DIMENSION, FAINT, FONT, GROUND, INK, NAMED_MEMBERS_MAX, REDUNDANT
 
 
 def draw_members(pn: Panel, st: Structure, faint: bool = False) -> None:
@@ -417,13 +417,23 @@ def structure_panel(pn: Panel, sol, case: str) -> tuple[str, str]:
     draw_supports(pn, st)
     keep_labels_off_members(pn, st)
     pn.defer()  # every arrow and mark first, then the node names, then the other labels
-    _draw_redundants(pn, sol, res)
+    crowded = len(st.members) > NAMED_MEMBERS_MAX
+    if not crowded:
+        _draw_redundants(pn, sol, res)
+    elif sol.redundant_columns:
+        pn.key.append(f"{len(sol.redundant_columns)} redundants not drawn (over "
+                      f"{NAMED_MEMBERS_MAX} members); solve --json lists every one")
     draw_loads(pn, st, case)
     queued, pn.deferred = pn.deferred, None
-    _node_names(pn, st)
+    if not crowded:
+        _node_names(pn, st)
     pn.deferred = queued
     pn.place_deferred()
-    _member_names(pn, st)
+    if crowded:
+        pn.key.append(f"{len(st.members)} members: names of nodes and members left out "
+                      f"(over {NAMED_MEMBERS_MAX}); solve --json names every one")
+    else:
+        _member_names(pn, st)
     _dimensions(pn, st)  # beyond everything drawn, so they cross nothing
     _key(pn)
     note = "to scale"

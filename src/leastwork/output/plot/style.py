@@ -32,6 +32,9 @@ TITLE = 9.0  #: panel titles
 HEADING = 10.5  #: the figure's heading
 PRINT_WIDTH = 6.7  #: inches (170 mm)
 DPI = 150
+#: Above this many members a drawing leaves out the names of nodes and members and every
+#: bar's value but the extremes (unreadable at print size, and slow to place); it says so.
+NAMED_MEMBERS_MAX = 400
 
 #: Code points that XML 1.0 does not allow and :func:`literal` leaves as they are.
 _NOT_XML = re.compile("[\ufffe\uffff\ud800-\udfff]")
