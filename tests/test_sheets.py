@@ -267,3 +267,78 @@ def test_printed_sheet_pages_and_width(tmp_path, propped):
     pages = len(re.findall(rb"/Type\s*/Page[^s]", pdf.read_bytes()))
     # a one-case, one-redundant beam: summary, inputs, diagrams and eight steps
     assert 1 <= pages <= 8, pages
+
+
+# The page as a browser lays it out for print: the print rules applied on screen, the
+# window as wide as an A4 page inside its 12 mm margins (186 mm = 703 CSS px), and a
+# script that writes what it measured into the page for --dump-dom to return.
+PRINT_WIDTH_PX = 703
+_PROBE = """<script>
+(function () {
+  const W = document.documentElement.clientWidth;
+  const wide = [];
+  for (const el of document.body.querySelectorAll('*')) {
+    const r = el.getBoundingClientRect();
+    if (r.width > 0 && r.right > W + 0.5) {
+      wide.push(el.tagName.toLowerCase() + ' ' + Math.round(r.right));
+    }
+  }
+  const maths = Array.from(document.querySelectorAll('math'));
+  const fracs = Array.from(document.querySelectorAll('mfrac'));
+  const box = e => e.getBoundingClientRect();
+  const out = document.createElement('pre');
+  out.id = 'probe';
+  out.textContent = JSON.stringify({
+    width: W, wide: wide, maths: maths.length,
+    shown: maths.filter(m => box(m).width > 0 && box(m).height > 0).length,
+    fracs: fracs.length,
+    stacked: fracs.filter(f => f.children.length === 2 &&
+                          box(f.children[0]).bottom <= box(f.children[1]).top + 1).length,
+    drawings: Array.from(document.querySelectorAll('svg'))
+                   .filter(s => box(s).width > 300 && box(s).height > 150).length});
+  document.body.appendChild(out);
+})();
+</script>"""
+
+
+def _browser_layout(page: Path, tmp_path: Path) -> dict:
+    """What headless Chromium measures on ``page`` laid out for print (see _PROBE)."""
+    import html as html_lib
+    import json
+
+    text = page.read_text(encoding="utf-8").replace("@media print {", "@media all {")
+    probe = tmp_path / f"probe-{page.name}"
+    probe.write_text(text.replace("</body>", _PROBE + "</body>"), encoding="utf-8")
+    r = subprocess.run(["chromium", "--headless", "--no-sandbox", "--disable-gpu",
+                        "--hide-scrollbars", f"--window-size={PRINT_WIDTH_PX},1000",
+                        "--virtual-time-budget=5000", "--dump-dom", probe.as_uri()],
+                       capture_output=True, text=True, timeout=120, check=False)
+    m = re.search(r'<pre id="probe">(.*?)</pre>', r.stdout, re.S)
+    if m is None:
+        pytest.skip("Chromium could not lay the page out here")
+    return json.loads(html_lib.unescape(m.group(1)))
+
+
+_PLANE_CASES = list(CASES)
+_SPACE_CASES = sorted((Path(__file__).parent.parent / "cases" / "space").glob("*.toml"))
+_QUICK = {"portal-frame", "four-legged-mast"}
+
+
+@pytest.mark.skipif(shutil.which("chromium") is None, reason="no headless Chromium here")
+@pytest.mark.parametrize("path", [
+    pytest.param(p, id=p.stem, marks=() if p.stem in _QUICK else pytest.mark.slow)
+    for p in _PLANE_CASES + _SPACE_CASES])
+def test_html_sheet_in_a_browser(path, tmp_path):
+    # every formula typeset (a fraction's numerator laid out above its denominator), every
+    # load case's drawing on the page, and nothing wider than the printed page
+    page = tmp_path / f"{path.stem}.html"
+    r = subprocess.run([sys.executable, "-m", "leastwork", "report", str(path), "-o", str(page)],
+                       capture_output=True, text=True, timeout=300)
+    assert r.returncode == 0, r.stderr
+    got = _browser_layout(page, tmp_path)
+    assert got["width"] == PRINT_WIDTH_PX
+    assert got["wide"] == [], got["wide"][:10]
+    assert got["drawings"] >= 1
+    if path in _PLANE_CASES:
+        assert got["maths"] > 0 and got["shown"] == got["maths"]
+        assert got["fracs"] > 0 and got["stacked"] == got["fracs"]
