@@ -124,7 +124,7 @@ def test_title_block_in_every_format(propped):
             assert field in text, (fmt_name, field)
         assert "/somewhere/deep" not in text, fmt_name
     assert "counter(pages)" in texts["html"]       # sheet n of N in print
-    assert r"\pageref{LastPage}" in texts["latex"]
+    assert r"\pageref{sheet-last-page}" in texts["latex"]
 
 
 def test_project_table_bad_key_is_one_line(tmp_path):
@@ -342,3 +342,24 @@ def test_html_sheet_in_a_browser(path, tmp_path):
     if path in _PLANE_CASES:
         assert got["maths"] > 0 and got["shown"] == got["maths"]
         assert got["fracs"] > 0 and got["stacked"] == got["fracs"]
+
+
+@pytest.mark.skipif(shutil.which("pdflatex") is None, reason="no pdflatex here")
+def test_latex_sheet_compiles_without_error_or_overflow(tmp_path):
+    # the whole trail of a three-redundant portal (stacked headings, a table scaled to the
+    # text width) through pdflatex twice: no error, no line wider than the text, "of N"
+    case = Path(__file__).parent.parent / "cases" / "portal-frame.toml"
+    tex = tmp_path / "portal.tex"
+    r = subprocess.run([sys.executable, "-m", "leastwork", "solve", str(case), "--format",
+                        "latex", "-o", str(tex)], capture_output=True, text=True, timeout=300)
+    assert r.returncode == 0, r.stderr
+    for _ in range(2):
+        run = subprocess.run(["pdflatex", "-interaction=nonstopmode", "-halt-on-error",
+                              tex.name], cwd=tmp_path, capture_output=True, text=True,
+                             timeout=300, check=False)
+    log = (tmp_path / "portal.log").read_text(errors="replace")
+    assert run.returncode == 0, "\n".join(ln for ln in log.splitlines() if ln.startswith("!"))
+    assert "Overfull \\hbox" not in log
+    assert "Missing character" not in log
+    assert "undefined" not in log  # the page count's label was found
+    assert (tmp_path / "portal.pdf").stat().st_size > 10_000
