@@ -78,16 +78,37 @@ def propped():
 
 
 @pytest.mark.parametrize("value, text", [
-    (0.1 + 0.2, "0.3"),          # exact short numbers keep no trailing zeros
-    (45.0004, "45.00"),          # rounding made the zeros significant: kept
-    (-30.2574, "-30.26"),
-    (3.07065e-06, "3.071×10⁻⁶"),  # a power of ten, never e-notation
-    (-1234567.0, "-1.235×10⁶"),
+    (0.1 + 0.2, "0.300"),        # three significant figures, trailing zeros kept
+    (-0.9, "-0.900"),
+    (45.0004, "45.0"),
+    (107.6, "108"),
+    (-30.2574, "-30.3"),
+    (3.07065e-06, "3.07×10⁻⁶"),  # a power of ten, never e-notation
+    (-1234567.0, "-1.23×10⁶"),
     (0.0, "0"),
 ])
 def test_engineering_rounding(value, text):
-    # common practice: four significant figures, powers of ten written out
+    # common practice: three significant figures, trailing zeros kept, powers of ten
+    # written out
     assert fmt(value) == text
+
+
+def test_more_figures_on_request_and_full_precision_in_json(propped, tmp_path):
+    from leastwork.cli import main
+
+    assert fmt(-30.2574, 5) == "-30.257"
+    case = tmp_path / "shelf.toml"
+    case.write_text(PROPPED)
+    # the propped cantilever's prop reaction is 3wL/8 = 3.75 kN (handbook closed form,
+    # from memory): three figures print 3.75, five print 3.7500
+    for n, text in ((None, "3.75 kN"), ("5", "3.7500 kN")):
+        args = ["solve", str(case), "--no-color", "--quiet"] + (["--figures", n] if n else [])
+        out = subprocess.run([sys.executable, "-m", "leastwork", *args], capture_output=True,
+                             text=True, env={**os.environ, "COLUMNS": "80"})
+        assert out.returncode == 0 and text in out.stdout, out.stdout
+    assert main(["solve", str(case), "--figures", "2"]) == 2
+    data = propped.to_dict()
+    assert data["cases"]["default"]["redundants"]["C.y"] == pytest.approx(3.75, rel=1e-12)
 
 
 @pytest.mark.parametrize("x", [1e-30, 3.3e-16, 7e-7, 0.0123, 1.0, 987.6, 4.5e5, 6.1e9, 2e300])
@@ -363,3 +384,18 @@ def test_latex_sheet_compiles_without_error_or_overflow(tmp_path):
     assert "Missing character" not in log
     assert "undefined" not in log  # the page count's label was found
     assert (tmp_path / "portal.pdf").stat().st_size > 10_000
+
+
+def test_the_excerpt_in_the_docs_is_what_the_tool_prints():
+    # docs/audit-trail.md shows a few lines of a real sheet; they must still be the tool's
+    root = Path(__file__).parent.parent
+    doc = (root / "docs" / "audit-trail.md").read_text(encoding="utf-8")
+    m = re.search(r"<!-- excerpt of: leastwork (solve \S+ --format md) -->\n```markdown\n"
+                  r"(.*?)\n```", doc, re.S)
+    assert m is not None
+    args = m.group(1).split()
+    out = subprocess.run([sys.executable, "-m", "leastwork", *args], cwd=root,
+                         capture_output=True, text=True, timeout=300)
+    assert out.returncode == 0, out.stderr
+    assert m.group(2) in out.stdout
+    assert len(m.group(2).splitlines()) >= 10
