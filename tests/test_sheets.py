@@ -399,3 +399,19 @@ def test_the_excerpt_in_the_docs_is_what_the_tool_prints():
     assert out.returncode == 0, out.stderr
     assert m.group(2) in out.stdout
     assert len(m.group(2).splitlines()) >= 10
+
+
+def test_every_drawing_on_the_sheet_prints_at_full_size():
+    # a drawing taller than the printed page's 235 mm would be shrunk with its 9 pt text
+    # (common practice: text of 9 pt or more is legible in print), so the tall figure of
+    # this nearly square walkway is gathered into figures that each fit a page
+    from leastwork.output.html import PAGE_FIGURE_HEIGHT
+    from leastwork.output.plot.style import PRINT_WIDTH
+
+    sol = leastwork.solve(leastwork.load_case(CASES[0].parent / "tied-beam.toml"))
+    page = report_html(sol)
+    sizes = [(float(w) / 72, float(h) / 72) for w, h in
+             re.findall(r'<svg[^>]*\bwidth="([0-9.]+)pt" height="([0-9.]+)pt"', page)]
+    assert len(sizes) >= 2  # the five panels did not fit one page
+    assert all(h <= PAGE_FIGURE_HEIGHT and w <= PRINT_WIDTH + 1e-6 for w, h in sizes), sizes
+    assert page.count("<figcaption>") == 1
