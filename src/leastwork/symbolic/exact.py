@@ -320,12 +320,10 @@ class _Evaluator:
         return q
 
 
-def read_exact(st: Structure, record, *, expand_derived: bool = False) -> ExactModel:
-    """The exact model of a case read with :func:`leastwork.io.record.read_case_record`.
-
-    Raises CaseError where a value cannot be represented exactly, and RuntimeError if an
-    exact value disagrees with the numeric reader (a bug).
-    """
+def _refuse_what_has_no_closed_form(st: Structure) -> None:
+    """A CaseError for what the exact path does not take: live-load patterns, one-way
+    members and supports, semi-rigid joints, loads written in member axes or per projection,
+    self-weight and tapered beams."""
     if st.patterns:
         raise CaseError("symbolic mode does not take [patterns] yet: solve numerically",
                         source=st.source)
@@ -346,6 +344,20 @@ def read_exact(st: Structure, record, *, expand_derived: bool = False) -> ExactM
             raise CaseError(f"symbolic mode does not take this load yet ({ld.written}): "
                             "member-local components, loads per unit projected length and "
                             "self-weight are solved numerically only", source=st.source)
+    for mid, m in st.members.items():
+        if m.taper is not None:
+            raise CaseError("--symbolic has no closed forms for tapered beams (their energy "
+                            "is integrated numerically); solve without --symbolic",
+                            source=st.source, where=f"[beams] {mid}.taper")
+
+
+def read_exact(st: Structure, record, *, expand_derived: bool = False) -> ExactModel:
+    """The exact model of a case read with :func:`leastwork.io.record.read_case_record`.
+
+    Raises CaseError where a value cannot be represented exactly, and RuntimeError if an
+    exact value disagrees with the numeric reader (a bug).
+    """
+    _refuse_what_has_no_closed_form(st)
     ev = _Evaluator(st, record, expand_derived)
     model = ExactModel(dict(ev.symbols), dict(ev.values), dict(ev.dimensions))
     values = ev.values
@@ -364,10 +376,6 @@ def read_exact(st: Structure, record, *, expand_derived: bool = False) -> ExactM
     data = record.data
     defaults = data.get("defaults", {}) or {}
     for mid, m in st.members.items():
-        if m.taper is not None:
-            raise CaseError("--symbolic has no closed forms for tapered beams (their energy "
-                            "is integrated numerically); solve without --symbolic",
-                            source=st.source, where=f"[beams] {mid}.taper")
         spec = (data.get(m.kind + "s") or {})[mid]
         where = f"[{m.kind}s] {mid}"
         mat = spec.get("material", defaults.get("material"))

@@ -147,29 +147,7 @@ def tapered_loading(st: Structure, mid: str, L: float, c: float, s: float,
             e = L if math.isnan(ld.end) else ld.end
             if e <= a:
                 continue
-            # the load on [max(x, a), e] by its own Gauss rule, per section point
-            gl, gw = np.polynomial.legendre.leggauss(4)
-
-            def q(t, ld=ld, a=a, e=e):
-                f = (t - a) / (e - a)
-                gx = ld.wx[0] + (ld.wx[1] - ld.wx[0]) * f
-                gy = ld.wy[0] + (ld.wy[1] - ld.wy[0]) * f
-                return gx * c + gy * s, -gx * s + gy * c
-
-            for k, xk in enumerate(x):
-                lo = max(xk, a)
-                if lo >= e:
-                    continue
-                t = 0.5 * (e - lo) * gl + 0.5 * (e + lo)
-                wt = 0.5 * (e - lo) * gw
-                qx, qy = q(t)
-                n0[k] += np.sum(wt * qx)
-                v0[k] += np.sum(wt * qy)
-                m0[k] += np.sum(wt * qy * (t - xk))
-            t = 0.5 * (e - a) * gl + 0.5 * (e + a)
-            wt = 0.5 * (e - a) * gw
-            qx, qy = q(t)
-            Q += (np.sum(wt * qx), np.sum(wt * qy), np.sum(wt * qy * t))
+            Q += _distributed(ld, a, e, c, s, x, n0, v0, m0)
         elif isinstance(ld, TemperatureLoad):
             alpha = m.alpha or 0.0
             eps += alpha * ld.uniform
@@ -201,3 +179,32 @@ def tapered_loading(st: Structure, mid: str, L: float, c: float, s: float,
     fe = -Kr @ d0  # forces on the member at its end
     fs = np.array([-(fe[0] + Q[0]), -(fe[1] + Q[1]), -(fe[2] + L * fe[1] + Q[2])])
     return np.concatenate([fs, fe]), elongation
+
+
+def _distributed(ld: DistributedLoad, a: float, e: float, c: float, s: float,
+                 x: np.ndarray, n0: np.ndarray, v0: np.ndarray, m0: np.ndarray) -> np.ndarray:
+    """Add to the section forces n0, v0, m0 at ``x`` of the clamped-start cantilever those of
+    a linearly varying load on [a, e] (each by its own 4-point Gauss rule over the loaded
+    part beyond the section); returns its resultant (Qx, Qy, moment about the start)."""
+    gl, gw = np.polynomial.legendre.leggauss(4)
+
+    def q(t):
+        f = (t - a) / (e - a)
+        gx = ld.wx[0] + (ld.wx[1] - ld.wx[0]) * f
+        gy = ld.wy[0] + (ld.wy[1] - ld.wy[0]) * f
+        return gx * c + gy * s, -gx * s + gy * c
+
+    for k, xk in enumerate(x):
+        lo = max(xk, a)
+        if lo >= e:
+            continue
+        t = 0.5 * (e - lo) * gl + 0.5 * (e + lo)
+        wt = 0.5 * (e - lo) * gw
+        qx, qy = q(t)
+        n0[k] += np.sum(wt * qx)
+        v0[k] += np.sum(wt * qy)
+        m0[k] += np.sum(wt * qy * (t - xk))
+    t = 0.5 * (e - a) * gl + 0.5 * (e + a)
+    wt = 0.5 * (e - a) * gw
+    qx, qy = q(t)
+    return np.array([np.sum(wt * qx), np.sum(wt * qy), np.sum(wt * qy * t)])
