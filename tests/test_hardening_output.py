@@ -374,7 +374,7 @@ def test_markdown_block_marks_cannot_start_blocks():
     assert doc.text["pre"] == [literal("x = 1\n``` `\ny") + "\n"]
     # the title block's table first (two header cells, its rows), then the grid
     assert [c.strip() for c in doc.text["th"]][-2:] == ["a|b", "c"]
-    assert [c.strip() for c in doc.text["td"]][-2:] == ["<i>", "1"]
+    assert [c.strip() for c in doc.text["td"]][-2:] == ["<i>", "1.00"]
 
 
 def test_md_text_examples():

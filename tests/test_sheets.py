@@ -78,16 +78,37 @@ def propped():
 
 
 @pytest.mark.parametrize("value, text", [
-    (0.1 + 0.2, "0.3"),          # exact short numbers keep no trailing zeros
-    (45.0004, "45.00"),          # rounding made the zeros significant: kept
-    (-30.2574, "-30.26"),
-    (3.07065e-06, "3.071×10⁻⁶"),  # a power of ten, never e-notation
-    (-1234567.0, "-1.235×10⁶"),
+    (0.1 + 0.2, "0.300"),        # three significant figures, trailing zeros kept
+    (-0.9, "-0.900"),
+    (45.0004, "45.0"),
+    (107.6, "108"),
+    (-30.2574, "-30.3"),
+    (3.07065e-06, "3.07×10⁻⁶"),  # a power of ten, never e-notation
+    (-1234567.0, "-1.23×10⁶"),
     (0.0, "0"),
 ])
 def test_engineering_rounding(value, text):
-    # common practice: four significant figures, powers of ten written out
+    # common practice: three significant figures, trailing zeros kept, powers of ten
+    # written out
     assert fmt(value) == text
+
+
+def test_more_figures_on_request_and_full_precision_in_json(propped, tmp_path):
+    from leastwork.cli import main
+
+    assert fmt(-30.2574, 5) == "-30.257"
+    case = tmp_path / "shelf.toml"
+    case.write_text(PROPPED)
+    # the propped cantilever's prop reaction is 3wL/8 = 3.75 kN (handbook closed form,
+    # from memory): three figures print 3.75, five print 3.7500
+    for n, text in ((None, "3.75 kN"), ("5", "3.7500 kN")):
+        args = ["solve", str(case), "--no-color", "--quiet"] + (["--figures", n] if n else [])
+        out = subprocess.run([sys.executable, "-m", "leastwork", *args], capture_output=True,
+                             text=True, env={**os.environ, "COLUMNS": "80"})
+        assert out.returncode == 0 and text in out.stdout, out.stdout
+    assert main(["solve", str(case), "--figures", "2"]) == 2
+    data = propped.to_dict()
+    assert data["cases"]["default"]["redundants"]["C.y"] == pytest.approx(3.75, rel=1e-12)
 
 
 @pytest.mark.parametrize("x", [1e-30, 3.3e-16, 7e-7, 0.0123, 1.0, 987.6, 4.5e5, 6.1e9, 2e300])
@@ -124,7 +145,7 @@ def test_title_block_in_every_format(propped):
             assert field in text, (fmt_name, field)
         assert "/somewhere/deep" not in text, fmt_name
     assert "counter(pages)" in texts["html"]       # sheet n of N in print
-    assert r"\pageref{LastPage}" in texts["latex"]
+    assert r"\pageref{sheet-last-page}" in texts["latex"]
 
 
 def test_project_table_bad_key_is_one_line(tmp_path):
@@ -267,3 +288,130 @@ def test_printed_sheet_pages_and_width(tmp_path, propped):
     pages = len(re.findall(rb"/Type\s*/Page[^s]", pdf.read_bytes()))
     # a one-case, one-redundant beam: summary, inputs, diagrams and eight steps
     assert 1 <= pages <= 8, pages
+
+
+# The page as a browser lays it out for print: the print rules applied on screen, the
+# window as wide as an A4 page inside its 12 mm margins (186 mm = 703 CSS px), and a
+# script that writes what it measured into the page for --dump-dom to return.
+PRINT_WIDTH_PX = 703
+_PROBE = """<script>
+(function () {
+  const W = document.documentElement.clientWidth;
+  const wide = [];
+  for (const el of document.body.querySelectorAll('*')) {
+    const r = el.getBoundingClientRect();
+    if (r.width > 0 && r.right > W + 0.5) {
+      wide.push(el.tagName.toLowerCase() + ' ' + Math.round(r.right));
+    }
+  }
+  const maths = Array.from(document.querySelectorAll('math'));
+  const fracs = Array.from(document.querySelectorAll('mfrac'));
+  const box = e => e.getBoundingClientRect();
+  const out = document.createElement('pre');
+  out.id = 'probe';
+  out.textContent = JSON.stringify({
+    width: W, wide: wide, maths: maths.length,
+    shown: maths.filter(m => box(m).width > 0 && box(m).height > 0).length,
+    fracs: fracs.length,
+    stacked: fracs.filter(f => f.children.length === 2 &&
+                          box(f.children[0]).bottom <= box(f.children[1]).top + 1).length,
+    drawings: Array.from(document.querySelectorAll('svg'))
+                   .filter(s => box(s).width > 300 && box(s).height > 150).length});
+  document.body.appendChild(out);
+})();
+</script>"""
+
+
+def _browser_layout(page: Path, tmp_path: Path) -> dict:
+    """What headless Chromium measures on ``page`` laid out for print (see _PROBE)."""
+    import html as html_lib
+    import json
+
+    text = page.read_text(encoding="utf-8").replace("@media print {", "@media all {")
+    probe = tmp_path / f"probe-{page.name}"
+    probe.write_text(text.replace("</body>", _PROBE + "</body>"), encoding="utf-8")
+    r = subprocess.run(["chromium", "--headless", "--no-sandbox", "--disable-gpu",
+                        "--hide-scrollbars", f"--window-size={PRINT_WIDTH_PX},1000",
+                        "--virtual-time-budget=5000", "--dump-dom", probe.as_uri()],
+                       capture_output=True, text=True, timeout=120, check=False)
+    m = re.search(r'<pre id="probe">(.*?)</pre>', r.stdout, re.S)
+    if m is None:
+        pytest.skip("Chromium could not lay the page out here")
+    return json.loads(html_lib.unescape(m.group(1)))
+
+
+_PLANE_CASES = list(CASES)
+_SPACE_CASES = sorted((Path(__file__).parent.parent / "cases" / "space").glob("*.toml"))
+_QUICK = {"portal-frame", "four-legged-mast"}
+
+
+@pytest.mark.skipif(shutil.which("chromium") is None, reason="no headless Chromium here")
+@pytest.mark.parametrize("path", [
+    pytest.param(p, id=p.stem, marks=() if p.stem in _QUICK else pytest.mark.slow)
+    for p in _PLANE_CASES + _SPACE_CASES])
+def test_html_sheet_in_a_browser(path, tmp_path):
+    # every formula typeset (a fraction's numerator laid out above its denominator), every
+    # load case's drawing on the page, and nothing wider than the printed page
+    page = tmp_path / f"{path.stem}.html"
+    r = subprocess.run([sys.executable, "-m", "leastwork", "report", str(path), "-o", str(page)],
+                       capture_output=True, text=True, timeout=300)
+    assert r.returncode == 0, r.stderr
+    got = _browser_layout(page, tmp_path)
+    assert got["width"] == PRINT_WIDTH_PX
+    assert got["wide"] == [], got["wide"][:10]
+    assert got["drawings"] >= 1
+    if path in _PLANE_CASES:
+        assert got["maths"] > 0 and got["shown"] == got["maths"]
+        assert got["fracs"] > 0 and got["stacked"] == got["fracs"]
+
+
+@pytest.mark.skipif(shutil.which("pdflatex") is None, reason="no pdflatex here")
+def test_latex_sheet_compiles_without_error_or_overflow(tmp_path):
+    # the whole trail of a three-redundant portal (stacked headings, a table scaled to the
+    # text width) through pdflatex twice: no error, no line wider than the text, "of N"
+    case = Path(__file__).parent.parent / "cases" / "portal-frame.toml"
+    tex = tmp_path / "portal.tex"
+    r = subprocess.run([sys.executable, "-m", "leastwork", "solve", str(case), "--format",
+                        "latex", "-o", str(tex)], capture_output=True, text=True, timeout=300)
+    assert r.returncode == 0, r.stderr
+    for _ in range(2):
+        run = subprocess.run(["pdflatex", "-interaction=nonstopmode", "-halt-on-error",
+                              tex.name], cwd=tmp_path, capture_output=True, text=True,
+                             timeout=300, check=False)
+    log = (tmp_path / "portal.log").read_text(errors="replace")
+    assert run.returncode == 0, "\n".join(ln for ln in log.splitlines() if ln.startswith("!"))
+    assert "Overfull \\hbox" not in log
+    assert "Missing character" not in log
+    assert "undefined" not in log  # the page count's label was found
+    assert (tmp_path / "portal.pdf").stat().st_size > 10_000
+
+
+def test_the_excerpt_in_the_docs_is_what_the_tool_prints():
+    # docs/audit-trail.md shows a few lines of a real sheet; they must still be the tool's
+    root = Path(__file__).parent.parent
+    doc = (root / "docs" / "audit-trail.md").read_text(encoding="utf-8")
+    m = re.search(r"<!-- excerpt of: leastwork (solve \S+ --format md) -->\n```markdown\n"
+                  r"(.*?)\n```", doc, re.S)
+    assert m is not None
+    args = m.group(1).split()
+    out = subprocess.run([sys.executable, "-m", "leastwork", *args], cwd=root,
+                         capture_output=True, text=True, timeout=300)
+    assert out.returncode == 0, out.stderr
+    assert m.group(2) in out.stdout
+    assert len(m.group(2).splitlines()) >= 10
+
+
+def test_every_drawing_on_the_sheet_prints_at_full_size():
+    # a drawing taller than the printed page's 235 mm would be shrunk with its 9 pt text
+    # (common practice: text of 9 pt or more is legible in print), so the tall figure of
+    # this nearly square walkway is gathered into figures that each fit a page
+    from leastwork.output.html import PAGE_FIGURE_HEIGHT
+    from leastwork.output.plot.style import PRINT_WIDTH
+
+    sol = leastwork.solve(leastwork.load_case(CASES[0].parent / "tied-beam.toml"))
+    page = report_html(sol)
+    sizes = [(float(w) / 72, float(h) / 72) for w, h in
+             re.findall(r'<svg[^>]*\bwidth="([0-9.]+)pt" height="([0-9.]+)pt"', page)]
+    assert len(sizes) >= 2  # the five panels did not fit one page
+    assert all(h <= PAGE_FIGURE_HEIGHT and w <= PRINT_WIDTH + 1e-6 for w, h in sizes), sizes
+    assert page.count("<figcaption>") == 1

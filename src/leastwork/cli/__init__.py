@@ -18,6 +18,7 @@ import sys
 from collections.abc import Callable
 
 from ..errors import CaseError, MechanismError
+from ..output.sheet import shown_figures
 from . import check, drawing, solve, starters, studies, sweep
 from .common import version
 from .parser import DESCRIPTION, Parser
@@ -78,4 +79,5 @@ def _run(argv) -> int:
     if args.command is None:
         parser.print_help()
         return 2
-    return COMMANDS[args.command](args)
+    with shown_figures(getattr(args, "figures", None)):  # --figures: every printed number
+        return COMMANDS[args.command](args)

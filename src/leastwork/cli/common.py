@@ -5,12 +5,14 @@ to the terminal or to ``--output`` (see :mod:`leastwork.io.writing`).
 
 from __future__ import annotations
 
+import argparse
 import sys
 
 from ..errors import CaseError
+from ..output.sheet import FIGURES_RANGE, SIGNIFICANT
 
 __all__ = ["FILE_WIDTH", "SUFFIX_FORMAT", "add_units_option", "chosen_cases", "console_for",
-           "display_units", "document", "emit", "output_format", "sheet_meta", "split", "version"]
+           "display_units", "document", "emit", "figures_count", "output_format", "sheet_meta", "split", "version"]
 
 #: Width of text written to a file (the terminal uses its own width).
 FILE_WIDTH = 100
@@ -52,8 +54,26 @@ UNITS_HELP = ("report results in these units instead of the case's: QUANTITY=UNI
 
 
 def add_units_option(p) -> None:
-    """``--units`` on a command that prints numbers."""
+    """``--units`` and ``--figures`` on a command that prints numbers."""
     p.add_argument("--units", metavar="QUANTITY=UNIT,...", help=UNITS_HELP)
+    lo, hi = FIGURES_RANGE
+    p.add_argument("--figures", metavar="N", type=figures_count,
+                   help=f"significant figures of the numbers on the terminal, the sheets and "
+                        f"the diagrams ({lo} to {hi}; default {SIGNIFICANT}, trailing zeros "
+                        f"kept); the JSON result always holds full precision")
+
+
+def figures_count(text: str) -> int:
+    """The value of ``--figures``: a whole number in :data:`FIGURES_RANGE`."""
+    lo, hi = FIGURES_RANGE
+    try:
+        n = int(text)
+    except ValueError:
+        n = None
+    if n is None or not lo <= n <= hi:
+        raise argparse.ArgumentTypeError(
+            f'expected a whole number of significant figures from {lo} to {hi}, got "{text}"')
+    return n
 
 
 def display_units(text: str | None, base=None):

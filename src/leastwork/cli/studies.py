@@ -214,14 +214,18 @@ def _header(console, sol) -> None:
 
 
 def _g(x: float) -> str:
-    return f"{x:.4g}" if x != 0 else "0"
+    from ..output.sheet import fmt
+
+    return fmt(x)
 
 
 def _length(x_si: float, units) -> str:
     """A length error (SI) in the report displacement unit, signed."""
     from ..output.quantities import quantities
+    from ..output.sheet import fmt
 
-    return f"{quantities(units).to_output(x_si, 'displacement'):+.4g}"
+    x = quantities(units).to_output(x_si, "displacement")
+    return ("+" if x > 0 else "") + fmt(x)
 
 
 def _print_study(console, study, units) -> None:

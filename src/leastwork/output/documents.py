@@ -12,6 +12,7 @@ LaTeX the special characters (:func:`tex_escape`). So a name such as
 from __future__ import annotations
 
 import re
+import textwrap
 
 from ..plaintext import literal
 from .mathml import tex_number
@@ -176,14 +177,37 @@ def _tex_table(g: Grid, max_cols: int = 7) -> list[str]:
         align = "".join("l" if k < part.keys or all(isinstance(r[k], str) for r in part.rows)
                         else "r" for k in range(len(part.headers)))
         out += [r"\begin{center}\small", rf"\textbf{{{tex_escape(part.title)}}}\\[2pt]",
-                rf"\begin{{tabular}}{{{align}}}", r"\hline",
-                " & ".join(tex_escape(h) for h in part.headers) + r" \\ \hline"]
+                rf"\fitwidth{{\begin{{tabular}}{{{align}}}", r"\hline",
+                " & ".join(_tex_head(h, a) for h, a in zip(part.headers, align, strict=True)) + r" \\ \hline"]
         for r in part.rows:
             out.append(" & ".join(tex_escape(fmt(c)) for c in r) + r" \\")
         if part.total:
             out.append(r"\hline " + " & ".join(tex_escape(fmt(c)) for c in part.total) + r" \\")
-        out += [r"\hline", r"\end{tabular}", r"\end{center}", ""]
+        out += [r"\hline", r"\end{tabular}}", r"\end{center}", ""]
     return out
+
+
+#: Longest line of a column heading in a LaTeX table (characters); a longer heading is set
+#: on several lines, its unit on a line of its own, so a wide table fits the page.
+TEX_HEAD_WIDTH = 14
+
+
+def _tex_head(text: str, align: str = "l") -> str:
+    """A column heading, on one line when short, otherwise stacked (a nested tabular whose
+    lines are aligned as the column, ``align``: "l" or "r").
+
+    >>> _tex_head("member")
+    'member'
+    """
+    if len(text) <= TEX_HEAD_WIDTH:
+        return tex_escape(text)
+    name, bracket, unit = text.partition(" [")
+    lines = textwrap.wrap(name, TEX_HEAD_WIDTH, break_long_words=False) or [name]
+    if bracket:
+        lines.append("[" + unit)
+    # \relax: a line starting with "[" is not read as the optional argument of \\
+    return (rf"\begin{{tabular}}[b]{{@{{}}{align}@{{}}}}" + r" \\ \relax ".join(tex_escape(t) for t in lines)
+            + r"\end{tabular}")
 
 
 def _chunks(g: Grid, max_cols: int) -> list[Grid]:
@@ -208,11 +232,15 @@ def sheet_latex(sheet: Sheet, extra: list[tuple[str, list[str]]] | None = None) 
     out = [r"\documentclass[a4paper,10pt]{article}", r"\usepackage[utf8]{inputenc}",
            r"\usepackage[T1]{fontenc}", r"\usepackage{amsmath}",
            r"\usepackage[margin=18mm,headheight=14pt]{geometry}",
-           r"\usepackage{fancyhdr}", r"\usepackage{lastpage}",
+           r"\usepackage{fancyhdr}", r"\usepackage{graphicx}",
+           # a table wider than the text (a long polynomial in a cell) is scaled to fit
+           r"\newsavebox{\sheetbox}",
+           r"\newcommand{\fitwidth}[1]{\sbox{\sheetbox}{#1}\ifdim\wd\sheetbox>\linewidth"
+           r"\resizebox{\linewidth}{!}{\usebox{\sheetbox}}\else\usebox{\sheetbox}\fi}",
            r"\setlength{\parindent}{0pt}", rf"\title{{{tex_escape(sheet.title)}}}",
            r"\pagestyle{fancy}", r"\fancyhf{}",
            rf"\lhead{{\small {head}}}", rf"\lfoot{{\small {foot}}}",
-           r"\rfoot{\small Sheet \thepage\ of \pageref{LastPage}}",
+           r"\rfoot{\small Sheet \thepage\ of \pageref{sheet-last-page}}",
            r"\begin{document}", r"\thispagestyle{fancy}",
            rf"{{\Large\bfseries {tex_escape(p.get('title') or sheet.title)}}}\par\medskip",
            r"\begin{tabular}{|l|l|}", r"\hline"]
@@ -238,5 +266,5 @@ def sheet_latex(sheet: Sheet, extra: list[tuple[str, list[str]]] | None = None) 
         out += [rf"\section*{{{tex_escape(title)}}}", *lines]
     out.append(r"\section*{Caution}")
     out += [rf"\textbf{{{tex_escape(c)}}}" for c in sheet.cautions]
-    out.append(r"\end{document}")
+    out += [r"\label{sheet-last-page}", r"\end{document}"]  # "of N" on the second run
     return "\n".join(out) + "\n"

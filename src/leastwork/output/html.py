@@ -79,7 +79,6 @@ footer { margin-top: 8mm; color: var(--muted); font-size: 9pt;
   body { max-width: none; margin: 0; padding: 0; font-size: 9pt; line-height: 1.35; }
   table { font-size: 8pt; margin: 1mm 0 2.5mm; }
   h2 { margin: 5mm 0 1.5mm; }
-  section.diagrams, section.cautions { break-before: page; }
   h2, h3, .tt { break-after: avoid; }
   tr, .formula, .tone-warning, .tone-alarm, figure, .caution { break-inside: avoid; }
   table.short { break-inside: avoid; }
@@ -297,16 +296,55 @@ def _inputs(sol) -> str:
     return "\n".join(out)
 
 
-def _diagrams(sol, cases: list[str]) -> str:
-    from .plot import figure_svg
+#: Tallest drawing on a printed page (inches): the figure's largest height in print
+#: (``figure svg { max-height }``, 235 mm). A taller figure would be shrunk, its 9 pt text
+#: with it, so it is drawn one panel at a time instead.
+PAGE_FIGURE_HEIGHT = 235 / 25.4
 
+
+def _svg_height(svg: str) -> float:
+    """The height of an SVG drawing in inches (from its ``height="...pt"``; 0 if none)."""
+    m = re.search(r'<svg[^>]*\bheight="([0-9.]+)pt"', svg)
+    return float(m.group(1)) / 72.0 if m else 0.0
+
+
+def case_drawings(sol, case: str) -> list[str]:
+    """The drawings of one load case as SVG texts: all panels in one figure when it fits a
+    printed page at full size, otherwise consecutive panels gathered into as few figures
+    as fit a page each (a panel taller than a page alone)."""
+    from .plot import figure_svg
+    from .plot.data import DIAGRAMS
+
+    svg = figure_svg(sol, case)
+    if _svg_height(svg) <= PAGE_FIGURE_HEIGHT:
+        return [svg]
+    beams = any(m.is_beam for m in sol.structure.members.values())
+    shown = [d for d in DIAGRAMS if beams or d not in ("v", "m")]
+    out: list[str] = []
+    group, drawn = [shown[0]], figure_svg(sol, case, (shown[0],))
+    for d in shown[1:]:
+        more = figure_svg(sol, case, (*group, d))
+        if _svg_height(more) <= PAGE_FIGURE_HEIGHT:
+            group, drawn = [*group, d], more
+        else:
+            out.append(drawn)
+            group, drawn = [d], figure_svg(sol, case, (d,))
+    return [*out, drawn]
+
+
+def _diagrams(sol, cases: list[str]) -> str:
     out = []
     for k, c in enumerate(cases, 1):
-        svg = _inline_svg(figure_svg(sol, c), f"Diagrams of load case {c}", f"fig{k}-")
-        out.append(f'<figure class="case">{svg}<figcaption>Load case {_e(c)}: the structure '
-                   "with its loads and redundants, the axial force n, shear force v and "
-                   f"bending moment m along each member ({moment_convention()}), and "
-                   "the deflected shape, magnified as stated.</figcaption></figure>")
+        drawings = case_drawings(sol, c)
+        for i, svg in enumerate(drawings, 1):
+            label = f"Diagrams of load case {c}" + (f", part {i}" if len(drawings) > 1 else "")
+            body = _inline_svg(svg, label, f"fig{k}-{i}-")
+            caption = ("" if i < len(drawings) else
+                       f"<figcaption>Load case {_e(c)}: the structure "
+                       "with its loads and redundants, the axial force n, shear force v and "
+                       f"bending moment m along each member ({moment_convention()}), and "
+                       "the deflected shape, magnified as stated.</figcaption>")
+            out.append(f'<figure class="case">{body}{caption}</figure>')
     return "\n".join(out)
 
 

@@ -8,16 +8,39 @@ Numbers in tables stay floats (in the case units) until a renderer formats them 
 from __future__ import annotations
 
 import math
+from collections.abc import Iterator
+from contextlib import contextmanager
+from contextvars import ContextVar
 from dataclasses import dataclass, field
 
 __all__ = ["Para", "Formula", "Grid", "Step", "Sheet", "fmt", "split_grid", "SIGNIFICANT", "shown",
-           "zero_round_off", "COLUMN_ROUND_OFF"]
+           "zero_round_off", "COLUMN_ROUND_OFF", "figures", "shown_figures", "FIGURES_RANGE", "coefficient"]
 
-#: Significant figures of every number shown on a sheet (engineering rounding).
-SIGNIFICANT = 4
+#: Significant figures of every number shown on a sheet, the terminal and the diagrams
+#: (engineering rounding) unless the command line asks for more (``--figures``).
+SIGNIFICANT = 3
+#: The figures the command line accepts (``--figures``).
+FIGURES_RANGE = (3, 10)
+_FIGURES: ContextVar[int] = ContextVar("figures", default=SIGNIFICANT)
+
+
+def figures() -> int:
+    """The significant figures numbers are shown with now (3 unless :func:`shown_figures`)."""
+    return _FIGURES.get()
+
+
+@contextmanager
+def shown_figures(n: int | None) -> Iterator[None]:
+    """Numbers shown with ``n`` significant figures inside the block (None: unchanged)."""
+    token = _FIGURES.set(int(n)) if n is not None else None
+    try:
+        yield
+    finally:
+        if token is not None:
+            _FIGURES.reset(token)
 #: Magnitudes from ``FIXED_LOW`` up to (not including) ``FIXED_HIGH`` are written in fixed
 #: notation; others as a mantissa times a power of ten (``3.071×10⁻⁶``), never ``e-06``.
-FIXED_LOW, FIXED_HIGH = 1e-3, 1e6
+FIXED_LOW, FIXED_HIGH = 1e-3, 1e5
 #: Relative size below which a number in a table column is round-off (shown as 0), measured
 #: against the largest magnitude in that column.
 COLUMN_ROUND_OFF = 1e-9
@@ -25,39 +48,51 @@ COLUMN_ROUND_OFF = 1e-9
 _SUPERSCRIPT = str.maketrans("-0123456789", "⁻⁰¹²³⁴⁵⁶⁷⁸⁹")
 
 
-def _trim(text: str, exact: bool) -> str:
-    """Trailing zeros dropped when the number is exactly that short (an input such as 4 m
-    reads "4"), kept when rounding made them significant (45.00)."""
-    if exact and "." in text:
-        text = text.rstrip("0").rstrip(".")
-    return text
-
-
-def fmt(x: float | str, sig: int = SIGNIFICANT) -> str:
-    """A number rounded to ``sig`` significant figures the way an engineer writes it:
-    fixed notation from 0.001 to below a million, otherwise ``m×10ⁿ`` with Unicode
-    superscripts (never e-notation); trailing zeros kept where rounding made them
-    significant, dropped where the number is exact (``4``, ``0.8``); zero as ``0``, a true
-    minus sign kept as ASCII '-'; strings pass through.
+def fmt(x: float | str, sig: int | None = None) -> str:
+    """A number rounded to ``sig`` significant figures (default :func:`figures`, 3) the way
+    an engineer writes it: trailing zeros kept (``45.0``, ``0.900``, ``108``), fixed
+    notation from 0.001 to below 100 000, otherwise ``m×10ⁿ`` with Unicode superscripts
+    (never e-notation); zero as ``0``, a whole number given as an int as it is (``15``),
+    minus as ASCII '-'; strings pass through.
 
     >>> fmt(0.1 + 0.2), fmt(-1234567.0), fmt(2.5e-9), fmt(0.0), fmt(45.0004), fmt("x")
-    ('0.3', '-1.235×10⁶', '2.5×10⁻⁹', '0', '45.00', 'x')
+    ('0.300', '-1.23×10⁶', '2.50×10⁻⁹', '0', '45.0', 'x')
+    >>> fmt(99999.0), fmt(171234.0)
+    ('1.00×10⁵', '1.71×10⁵')
+    >>> fmt(-0.9), fmt(107.6), fmt(99.96), fmt(12), fmt(45.0004, 5)
+    ('-0.900', '108', '100', '12', '45.000')
     """
     if isinstance(x, str):
         return x
+    if isinstance(x, int) and not isinstance(x, bool) and abs(x) < FIXED_HIGH:
+        return str(x)
     x = float(x)
     if x == 0.0:
         return "0"
     if not math.isfinite(x):
         return str(x)
-    sig = max(1, int(sig))
+    sig = max(1, int(figures() if sig is None else sig))
     rounded = float(f"{x:.{sig - 1}e}")
-    exact = abs(rounded - x) <= 1e-12 * abs(x)
     exp = math.floor(math.log10(abs(rounded)))
     if FIXED_LOW <= abs(rounded) < FIXED_HIGH:
-        return _trim(f"{rounded:.{max(sig - 1 - exp, 0)}f}", exact)
-    text = _trim(f"{rounded / 10.0 ** exp:.{sig - 1}f}", exact)
-    return f"{text}×10{str(exp).translate(_SUPERSCRIPT)}"
+        return f"{rounded:.{max(sig - 1 - exp, 0)}f}"
+    return f"{rounded / 10.0 ** exp:.{sig - 1}f}×10{str(exp).translate(_SUPERSCRIPT)}"
+
+
+def coefficient(x: float) -> str:
+    """A factor or polynomial coefficient as :func:`fmt` writes it, but an exact value
+    without padding zeros — a load factor of 1.5 or the ``3 - x`` of a unit-load moment
+    reads as given; a rounded value keeps them.
+
+    >>> coefficient(1.5), coefficient(3.0), coefficient(0.1 + 0.2), coefficient(0.98639)
+    ('1.5', '3', '0.3', '0.986')
+    """
+    text = fmt(x)
+    if "." not in text or "×" in text:
+        return text
+    if abs(float(text) - float(x)) <= 1e-12 * abs(float(x)):
+        text = text.rstrip("0").rstrip(".")
+    return text
 
 
 def zero_round_off(values: list[float | str], rel: float = COLUMN_ROUND_OFF) -> list:

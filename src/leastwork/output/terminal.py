@@ -63,8 +63,8 @@ def rule(console: Console, title: str) -> None:
         console.print(user_text(title, "bold"))
 
 
-def _g(x: float, sig: int = 4) -> str:
-    """Summary numbers: ``sig`` significant figures (:func:`leastwork.output.sheet.fmt`)."""
+def _g(x: float, sig: int | None = None) -> str:
+    """Summary numbers as the sheets write them (:func:`leastwork.output.sheet.fmt`)."""
     return fmt(x, sig)
 
 
@@ -294,11 +294,11 @@ def _beam_extremes_table(sol, res, numbers) -> Table | None:
         mj = numbers.members[mid]
         d = mj["deflection"]
         row = [user_text(mid), _g(mj["m_max"]["value"]), _g(mj["m_max"]["at"]),
-               _g(mj["m_min"]["value"]), _g(mj["m_min"]["at"]), _g(d["value"], 4),
-               _g(d["at"], 4)]
+               _g(mj["m_min"]["value"]), _g(mj["m_min"]["at"]), _g(d["value"]),
+               _g(d["at"])]
         if limits:
             over = d["ratio"] is not None and d["ratio"] > 1.0
-            row += ["—" if d["limit"] is None else _g(d["limit"], 4),
+            row += ["—" if d["limit"] is None else _g(d["limit"]),
                     "—" if d["ratio"] is None else Text(
                         _g(d["ratio"], 3) + (" OVER" if over else ""),
                         style="bold red" if over else "")]

@@ -287,6 +287,12 @@ def _influence_plot(st, d: dict, args) -> None:
     print(f"leastwork: wrote {literal(str(out))}", file=sys.stderr)
 
 
+#: The report page fits an A4 page in print: the drawings scale to the page width and the
+#: 100-column text of the sheet fits it at 8 pt.
+_PAGE_CSS = ("body { max-width: 200mm; margin: 10mm auto; } svg { max-width: 100%; "
+             "height: auto; } pre { font-size: 8pt; } @page { size: A4; margin: 14mm 12mm; }")
+
+
 def _report(args, st) -> int:
     """``leastwork report`` of a space case: the calculation sheet (the whole audit trail)
     with the drawing of each load case — Markdown with SVG files beside it, or one HTML file
@@ -338,7 +344,8 @@ def _report(args, st) -> int:
         print_sheet(buf, sheet)
         body = "".join(f"<h2>Load case {html.escape(c)}</h2>\n{images[c]}\n" for c in cases)
         files[out] = ("<!DOCTYPE html>\n<html><head><meta charset=\"utf-8\"><title>"
-                      f"{html.escape(st.name)}</title></head><body>\n<h1>{html.escape(st.name)}"
+                      f"{html.escape(st.name)}</title><style>{_PAGE_CSS}</style></head><body>\n"
+                      f"<h1>{html.escape(st.name)}"
                       "</h1>\n<pre>" + html.escape(buf.export_text()) + "</pre>\n" + body
                       + "</body></html>\n")
     write_files(files, force=args.force, case=st.source)

@@ -15,6 +15,7 @@ import math
 import numpy as np
 import scipy.linalg as sla
 
+from ..output.plot.numbers import number
 from ..output.quantities import quantities
 from .model import DIRECTIONS, SpaceDistributedLoad, SpaceNodalLoad, SpacePointLoad
 from .solve import SpaceSolution
@@ -131,12 +132,12 @@ def _loads(ax, st, case: str, size: float):
             if np.any(f):
                 d = f / np.linalg.norm(f) * scale
                 _arrow(ax, p - d, p, "#c0392b",
-                       f"{np.linalg.norm(f) / q.factor('force'):.3g} {q.force_unit}")
+                       f"{number(np.linalg.norm(f) / q.factor('force'))} {q.force_unit}")
             mo = np.array(ld.values[3:])
             if np.any(mo):
                 d = mo / np.linalg.norm(mo) * scale
                 _arrow(ax, p, p + d, "#8e44ad",
-                       f"{np.linalg.norm(mo) / q.factor('moment'):.3g} {q.moment_unit} (⇉)")
+                       f"{number(np.linalg.norm(mo) / q.factor('moment'))} {q.moment_unit} (⇉)")
                 _arrow(ax, p, p + 0.8 * d, "#8e44ad")
         elif isinstance(ld, SpacePointLoad | SpaceDistributedLoad):
             m = st.members[ld.member]
@@ -151,7 +152,7 @@ def _loads(ax, st, case: str, size: float):
                 w = (1 - t) * np.array(ld.w0) + t * np.array(ld.w1)
                 if np.any(w):
                     p = a + x * ex
-                    label = (f"{np.linalg.norm(w) / q.factor('distributed'):.3g} "
+                    label = (f"{number(np.linalg.norm(w) / q.factor('distributed'))} "
                              f"{q.distributed_unit}" if t == 0.5 else None)
                     _arrow(ax, p - w / np.linalg.norm(w) * 0.5 * scale, p, "#e67e22", label)
 
@@ -209,7 +210,7 @@ def _diagram(ax, sol, case: str, field: str, size: float):
                 lw=0.9, zorder=3)
         k = int(np.argmax(np.abs(vals)))
         if abs(vals[k]) > 0.0:
-            ax.annotate(f"{vals[k] / factor:.3g}", project(pts[k]), fontsize=6,
+            ax.annotate(f"{number(vals[k] / factor)}", project(pts[k]), fontsize=6,
                         color=_DIAGRAM[field])
     return unit
 
@@ -231,7 +232,7 @@ def _plan(ax, sol, case: str):
         d = ex * 0.12 * st.length(m.id) * (1 if t > 0 else -1)
         ax.annotate("", xy=(mid + d)[:2], xytext=(mid - d)[:2],
                     arrowprops={"arrowstyle": "-|>", "color": _DIAGRAM["t"], "lw": 1.4})
-        ax.annotate(f"T {t / q.factor('moment'):.3g}", mid[:2], xytext=(3, 4),
+        ax.annotate(f"T {number(t / q.factor('moment'))}", mid[:2], xytext=(3, 4),
                     textcoords="offset points", fontsize=6, color=_DIAGRAM["t"])
     for sup in st.supports.values():
         n = st.nodes[sup.node]
@@ -299,8 +300,8 @@ def plot_space(sol: SpaceSolution, path: str, case: str | None = None,
                 xy = [project(p) for p in pts]
                 ax.plot([p[0] for p in xy], [p[1] for p in xy], color="#1f4e9b", lw=1.4,
                         zorder=3)
-            title = (titles[d] + f"; largest {big / q.factor('displacement'):.3g} "
-                     f"{q.displacement_unit}, drawn ×{factor:.3g}")
+            title = (titles[d] + f"; largest {number(big / q.factor('displacement'))} "
+                     f"{q.displacement_unit}, drawn ×{number(factor)}")
         else:
             unit = _diagram(ax, sol, case, d, size)
             title = f"{titles[d]}, {unit}"

@@ -9,7 +9,7 @@ import numpy as np
 from ..output.audit.assumptions import CAUTION
 from ..output.quantities import quantities
 from ..output.reported import ROUND_OFF, number
-from ..output.sheet import Formula, Grid, Para, Sheet, Step
+from ..output.sheet import Formula, Grid, Para, Sheet, Step, fmt
 from .members import FIELDS
 from .model import ROTATIONS
 from .solve import EQUILIBRIUM_TOL, SpaceSolution
@@ -217,7 +217,7 @@ def _structure_step(sol) -> Step:
     rows = []
     for m in st.members.values():
         ax = st.axes(m.id)
-        y = "(" + ", ".join(f"{v:.3g}" for v in np.where(abs(ax[1]) < 1e-12, 0.0, ax[1])) + ")"
+        y = "(" + ", ".join(fmt(float(v)) for v in np.where(abs(ax[1]) < 1e-12, 0.0, ax[1])) + ")"
         rel = ", ".join(f"{e}.{a}" for e, a in sorted(m.releases)) or "-"
         rows.append((m.id, m.kind, f"{m.start}-{m.end}", st.length(m.id) / q.factor("length"),
                      y, rel))
@@ -320,11 +320,11 @@ def _equation_step(sol, case_names) -> Step:
             blocks.append(Grid(f"Load terms δi0 ({name})", ("redundant", *map(_head, terms),
                                                              "δi0"), rows))
             for i in range(n):
-                lhs = " + ".join(f"({sol.delta[i, j] / _coef_factor(sol, i, j):.6g})·X[{names[j]}]"
+                lhs = " + ".join(f"({fmt(sol.delta[i, j] / _coef_factor(sol, i, j))})·X[{names[j]}]"
                                  for j in range(n))
                 f = _load_term_factor(sol, i)
                 d0, rhs = case.load_terms[i] / f, case.imposed[i] / f
-                blocks.append(Formula(f"{lhs} + ({d0:.6g}) = {rhs:.6g}"))
+                blocks.append(Formula(f"{lhs} + ({fmt(d0)}) = {fmt(rhs)}"))
             blocks.append(Grid(f"Redundants ({name})", ("redundant", "value", "unit"),
                                tuple((nm, u.column(sol.topology.columns[k], x) or 0.0,
                                       u.q.unit("moment" if sol.topology.columns[k].is_moment

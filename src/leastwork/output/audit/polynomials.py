@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from ..sheet import fmt
+from ..sheet import coefficient
 
 __all__ = ["poly_text", "scaled_poly"]
 
@@ -19,7 +19,7 @@ def poly_text(coef, var: str = "x", scale: float = 1.0) -> str:
     for p, c in enumerate(coef):
         if abs(c) <= 1e-12 * ref:
             continue
-        mag = fmt(abs(c))
+        mag = coefficient(abs(c))
         term = mag if p == 0 else (f"{mag}·{var}" if p == 1 else f"{mag}·{var}{str(p).translate(_SUP)}")
         if p > 0 and mag == "1":
             term = var if p == 1 else f"{var}{str(p).translate(_SUP)}"

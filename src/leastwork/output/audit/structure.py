@@ -8,7 +8,7 @@ import math
 from ...loadkinds import load_kind
 from ...model import Structure
 from ..quantities import Quantities
-from ..sheet import Grid, Para, Step, fmt
+from ..sheet import Grid, Para, Step, coefficient, fmt
 from .context import Context
 
 __all__ = ["step_structure", "load_row", "support_kind"]
@@ -109,7 +109,7 @@ def _loads(ctx: Context) -> list[Grid]:
     if combos:
         out.append(Grid("Load combinations (solved as load cases of factored loads)",
                         ("combination", "factors"),
-                        tuple((name, " + ".join(f"{fmt(f)} × {c}" for c, f in parts))
+                        tuple((name, " + ".join(f"{coefficient(f)} × {c}" for c, f in parts))
                               for name, parts in combos.items())))
     return out
 

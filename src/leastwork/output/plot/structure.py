@@ -9,6 +9,8 @@ import math
 import numpy as np
 
 from ...model import Structure, TemperatureLoad
+from ..quantities import quantities
+from ..reported import redundants_shown
 from .arrows import node_arrow
 from .geometry import (
     MemberAxis,
@@ -183,21 +185,18 @@ def _springs(pn: Panel, st: Structure, sup, h: float, col: str, faint: bool) -> 
 def _draw_redundants(pn: Panel, sol, res) -> None:
     """Each redundant X where it acts, with its value: an arrow on the support's node for
     a reaction, a cut across a member (off crossings) for an axial force, a hinge put in
-    for an end moment. Round-off (below 1e-9 of the case's force scale) is shown as 0."""
+    for an end moment. The values are the sheets' and the terminal's
+    (:func:`~leastwork.output.reported.redundants_shown`): round-off shown as 0."""
     st, topo = sol.structure, sol.topology
-    uf = case_units(st)
-    lmax = max(st.length(m) for m in st.members)
+    q = quantities(sol.units)
+    shown = redundants_shown(sol, res.name)  # in the output units, round-off as 0
     cuts = pn.marks
     cross = crossings(st)
     for i, j in enumerate(sol.redundant_columns):
         col = topo.columns[j]
-        moment = col.kind in ("start_m", "end_m") or (col.kind == "reaction"
-                                                       and col.name.endswith(".rz"))
-        f, unit = uf["moment" if moment else "force"]
-        value = res.redundants[i]
-        if abs(value) <= 1e-9 * res.equilibrium_scale * (lmax if moment else 1.0):
-            value = 0.0
-        text = f"X{i + 1} = {col.name} = {number(value / f)} {unit}"
+        value = shown[col.name]
+        unit = q.column_unit(col).replace("*", "·")
+        text = f"X{i + 1} = {col.name} = {'?' if value is None else number(value)} {unit}"
         if col.kind == "reaction":
             _redundant_reaction(pn, st, col, f"X{i + 1}", text)
         elif col.kind == "axial":
